@@ -15,8 +15,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-
-	"github.com/dustin/go-humanize"
 )
 
 // Voltage is an electric potential difference in volts.
@@ -122,34 +120,81 @@ var (
 	ErrNotFinite = errors.New("not a finite number")
 )
 
-// prefix returns the multiplier of an SI prefix that starts s, and its length
-// in bytes. It accepts both micro signs and the ASCII "u".
-func prefix(s string) (float64, int) {
+// prefixes are the SI prefixes that Parse accepts and Format prints, from
+// yocto to yotta. Format clamps to the ends of this table.
+var prefixes = [...]struct {
+	sym string
+	exp int // power of ten
+}{
+	{"y", -24}, {"z", -21}, {"a", -18}, {"f", -15}, {"p", -12}, {"n", -9}, {"µ", -6}, {"m", -3},
+	{"", 0}, {"k", 3}, {"M", 6}, {"G", 9}, {"T", 12}, {"P", 15}, {"E", 18}, {"Z", 21}, {"Y", 24},
+}
+
+// pow10 holds the exact float64 powers of ten 10^0 … 10^22 and is used for
+// prefix multipliers and the exact fast path of number parsing.
+var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
+	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// prefix returns the power of ten of an SI prefix that starts s, and its
+// length in bytes (0 when s starts with no prefix). It accepts both micro
+// signs (U+00B5, U+03BC) and the ASCII "u".
+func prefix(s string) (exp int, n int) {
 	if s == "" {
-		return 1, 0
+		return 0, 0
 	}
 	switch s[0] {
+	case 'y':
+		return -24, 1
+	case 'z':
+		return -21, 1
+	case 'a':
+		return -18, 1
 	case 'f':
-		return 1e-15, 1
+		return -15, 1
 	case 'p':
-		return 1e-12, 1
+		return -12, 1
 	case 'n':
-		return 1e-9, 1
+		return -9, 1
 	case 'u':
-		return 1e-6, 1
+		return -6, 1
 	case 'm':
-		return 1e-3, 1
+		return -3, 1
 	case 'k':
-		return 1e3, 1
+		return 3, 1
 	case 'M':
-		return 1e6, 1
+		return 6, 1
 	case 'G':
-		return 1e9, 1
+		return 9, 1
+	case 'T':
+		return 12, 1
+	case 'P':
+		return 15, 1
+	case 'E':
+		return 18, 1
+	case 'Z':
+		return 21, 1
+	case 'Y':
+		return 24, 1
 	}
 	if strings.HasPrefix(s, "µ") || strings.HasPrefix(s, "μ") {
-		return 1e-6, len("µ")
+		return -6, len("µ")
 	}
-	return 1, 0
+	return 0, 0
+}
+
+// scale multiplies v by 10^exp; for |exp| ≤ 22 with one correctly rounded
+// operation (division for negative exponents, so that 280·10⁻³ is the
+// nearest float64 to 0.28).
+func scale(v float64, exp int) float64 {
+	switch {
+	case exp == 0:
+		return v
+	case exp > 0 && exp <= 22:
+		return v * pow10[exp]
+	case exp < 0 && exp >= -22:
+		return v / pow10[-exp]
+	}
+	return v * math.Pow10(exp)
 }
 
 // numberEnd returns the length of the leading decimal number in s
@@ -161,8 +206,10 @@ func numberEnd(s string) int {
 	}
 	digits := 0
 	for i < len(s) && (s[i] >= '0' && s[i] <= '9' || s[i] == '.') {
+		if s[i] != '.' {
+			digits++
+		}
 		i++
-		digits++
 	}
 	if digits == 0 {
 		return 0
@@ -186,9 +233,11 @@ func numberEnd(s string) int {
 
 // ParseFloat parses text written as a number with an optional SI prefix and
 // an optional unit of kind k: "280m", "280 mOhm", "71 pF", "4.7e-9", "1.2k".
-// Surrounding white space is ignored. A unit that does not belong to k is an
-// error wrapping ErrUnit; an empty text wraps ErrEmpty; NaN and infinities
-// wrap ErrNotFinite.
+// Surrounding white space is ignored, and so are spaces (also no-break and
+// thin spaces) between the number, the prefix and the unit. A unit that does
+// not belong to k is an error wrapping ErrUnit; an empty text wraps ErrEmpty;
+// NaN, infinities and values beyond the float64 range wrap ErrNotFinite;
+// anything else that is not a number wraps ErrSyntax.
 func ParseFloat(text string, k Kind) (float64, error) {
 	s := strings.TrimSpace(text)
 	if s == "" {
@@ -202,58 +251,162 @@ func ParseFloat(text string, k Kind) (float64, error) {
 		}
 		return 0, fmt.Errorf("%q: %w", text, ErrSyntax)
 	}
-	v, err := strconv.ParseFloat(s[:n], 64)
+	rest := trimGap(s[n:])
+	pexp, mul := 0, 1.0
+	switch {
+	case rest == "":
+	case k.NoPrefix:
+		if rest == "%" && k.Symbol == "" {
+			pexp = -2
+		} else if !hasUnit(k, rest) {
+			return 0, unitError(text, rest, k)
+		}
+	case hasUnit(k, rest):
+	default:
+		if m, ok := k.Scaled[rest]; ok {
+			mul = m
+			break
+		}
+		var plen int
+		pexp, plen = prefix(rest)
+		if plen == 0 {
+			return 0, unitError(text, rest, k)
+		}
+		if unit := trimGap(rest[plen:]); unit != "" && !hasUnit(k, unit) {
+			return 0, unitError(text, rest, k)
+		}
+	}
+	v, err := number(s[:n], pexp)
 	if err != nil {
 		if errors.Is(err, strconv.ErrRange) {
 			return 0, fmt.Errorf("%q: %w", text, ErrNotFinite)
 		}
 		return 0, fmt.Errorf("%q: %w", text, ErrSyntax)
 	}
-	rest := strings.TrimLeft(s[n:], " ")
-	if rest == "" {
-		return v, nil
+	if mul != 1 {
+		v *= mul
 	}
-	if mul, ok := k.Scaled[rest]; ok {
-		return v * mul, nil
-	}
-	if k.NoPrefix {
-		if rest == "%" && k.Symbol == "" {
-			return v / 100, nil
-		}
-		for _, u := range k.Units {
-			if rest == u {
-				return v, nil
-			}
-		}
-		return 0, unitError(text, rest, k)
-	}
-	for _, u := range k.Units {
-		if rest == u {
-			return v, nil
-		}
-	}
-	mul, plen := prefix(rest)
-	if plen == 0 {
-		return 0, unitError(text, rest, k)
-	}
-	unit := strings.TrimLeft(rest[plen:], " ")
-	if unit != "" {
-		ok := false
-		for _, u := range k.Units {
-			if unit == u {
-				ok = true
-				break
-			}
-		}
-		if !ok {
-			return 0, unitError(text, rest, k)
-		}
-	}
-	v *= mul
 	if math.IsInf(v, 0) {
 		return 0, fmt.Errorf("%q: %w", text, ErrNotFinite)
 	}
 	return v, nil
+}
+
+// hasUnit reports whether u is one of k's unit spellings.
+func hasUnit(k Kind, u string) bool {
+	for _, x := range k.Units {
+		if u == x {
+			return true
+		}
+	}
+	return false
+}
+
+// trimGap removes the spaces people type between a number, its prefix and
+// its unit: ASCII space and tab, no-break space U+00A0, thin space U+2009,
+// narrow no-break space U+202F.
+func trimGap(s string) string {
+	for {
+		switch {
+		case strings.HasPrefix(s, " "), strings.HasPrefix(s, "\t"):
+			s = s[1:]
+		case strings.HasPrefix(s, "\u00a0"):
+			s = s[len("\u00a0"):]
+		case strings.HasPrefix(s, "\u2009"), strings.HasPrefix(s, "\u202f"):
+			s = s[len("\u2009"):]
+		default:
+			return s
+		}
+	}
+}
+
+// number converts the decimal number s (as delimited by numberEnd) times
+// 10^pexp to the nearest float64. Numbers with at most 19 significant digits
+// whose mantissa fits in 53 bits and whose total power of ten is within ±22
+// take an exact fast path: one correctly rounded multiplication or division
+// of two exactly representable values, so the result is the correctly
+// rounded value [Clinger, "How to read floating point numbers accurately",
+// PLDI 1990]. Everything else goes through strconv.ParseFloat, whose errors
+// (ErrSyntax, ErrRange) are returned unchanged.
+func number(s string, pexp int) (float64, error) {
+	i, neg := 0, false
+	if s[0] == '+' || s[0] == '-' {
+		neg = s[0] == '-'
+		i++
+	}
+	var mant uint64
+	exp, digits, dot, fast := 0, 0, false, true
+	for ; i < len(s); i++ {
+		c := s[i]
+		if c == '.' {
+			if dot {
+				fast = false
+				break
+			}
+			dot = true
+			continue
+		}
+		if c < '0' || c > '9' {
+			break
+		}
+		if mant == 0 && c == '0' {
+			if dot {
+				exp--
+			}
+			continue
+		}
+		if digits == 19 {
+			fast = false
+			break
+		}
+		mant = mant*10 + uint64(c-'0')
+		digits++
+		if dot {
+			exp--
+		}
+	}
+	if fast && i < len(s) { // exponent: numberEnd guarantees [eE][+-]?digits
+		i++
+		eneg := false
+		if s[i] == '+' || s[i] == '-' {
+			eneg = s[i] == '-'
+			i++
+		}
+		e := 0
+		for ; i < len(s); i++ {
+			if e < 100000 {
+				e = e*10 + int(s[i]-'0')
+			}
+		}
+		if eneg {
+			e = -e
+		}
+		exp += e
+	}
+	if fast && mant <= 1<<53 {
+		e := exp + pexp
+		var v float64
+		switch {
+		case mant == 0:
+			v = 0
+		case e >= 0 && e <= 22:
+			v = float64(mant) * pow10[e]
+		case e < 0 && e >= -22:
+			v = float64(mant) / pow10[-e]
+		default:
+			goto slow
+		}
+		if neg {
+			v = -v
+		}
+		return v, nil
+	}
+slow:
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		return 0, err
+	}
+	return scale(v, pexp), nil
 }
 
 func unitError(text, unit string, k Kind) error {
@@ -291,15 +444,31 @@ func FormatFloat(v float64, sig int, k Kind) string {
 		}
 		return s + " " + k.Symbol
 	}
-	m, p := humanize.ComputeSI(v)
-	// Rounding to sig digits can reach 1000 (999.96 -> "1000"); step up a prefix.
-	if math.Abs(m) >= 1000-0.5*math.Pow(10, 3-float64(sig)) && p != "G" {
-		m, p = humanize.ComputeSI(v * 1.0000001)
-		if math.Abs(m) < 1 {
-			m *= 1000
-		}
+	m, p, d := siPrefix(v, sig)
+	return strconv.FormatFloat(m, 'f', d, 64) + " " + p + k.Symbol
+}
+
+// siPrefix splits v into a mantissa and the SI prefix that keeps the
+// mantissa, rounded to sig significant digits, within [1, 1000). Beyond the
+// ends of the prefix table the mantissa carries the remaining powers of ten.
+// It also returns the number of decimals that show sig digits.
+func siPrefix(v float64, sig int) (m float64, sym string, dec int) {
+	a := math.Abs(v)
+	idx := int(math.Floor(math.Log10(a)/3)) + 8 // prefixes[8] is the empty prefix
+	idx = max(0, min(idx, len(prefixes)-1))
+	m = scale(v, -prefixes[idx].exp)
+	dec = decimals(math.Abs(m), sig)
+	// Rounding to sig digits can reach 1000 (999.96 -> "1000"), and
+	// Log10 can land one step low near a power of 1000: step up a prefix.
+	if sig < 1 {
+		sig = 1
 	}
-	return strconv.FormatFloat(m, 'f', decimals(math.Abs(m), sig), 64) + " " + p + k.Symbol
+	if idx < len(prefixes)-1 && math.Abs(m) >= 1000-0.5*math.Pow(10, 3-float64(sig)) {
+		idx++
+		m = scale(v, -prefixes[idx].exp)
+		dec = decimals(1, sig) // m rounds to 1.00…
+	}
+	return m, prefixes[idx].sym, dec
 }
 
 // decimals returns how many decimals show sig significant digits of a.
