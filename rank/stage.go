@@ -148,13 +148,14 @@ type Stage struct {
 
 	// Ripple is the peak-to-peak inductor ripple as a fraction of the
 	// average inductor current; used when Inductance is 0. Range [0, 2];
-	// default 0.3 (common practice: 20-40 %).
-	Ripple q.Ratio
+	// default (not given) 0.3 (common practice: 20-40 %).
+	Ripple q.Opt[q.Ratio]
 	// Inductance is the cell's inductor, H. When > 0 it sets the ripple.
 	Inductance q.Inductance
 	// DeadTime is the time between one switch turning off and the other
-	// turning on, at each of the two edges, s. ≥ 0. Default 20 ns.
-	DeadTime q.Time
+	// turning on, at each of the two edges, s. ≥ 0. Default (not given)
+	// 20 ns.
+	DeadTime q.Opt[q.Time]
 
 	Diode Diode // the rectifier diode when Rectifier is DiodeRect
 

@@ -1,0 +1,122 @@
+package rank
+
+import (
+	"cmp"
+	"fmt"
+	"runtime"
+	"slices"
+	"sync"
+)
+
+// Options tune Rank.
+type Options struct {
+	// Workers is the number of goroutines evaluating parts. 0 means
+	// runtime.GOMAXPROCS(0); 1 evaluates on the calling goroutine. The
+	// result does not depend on it.
+	Workers int
+}
+
+// Rank evaluates every device at pt and returns the results in rank order:
+// parts that pass every screen by increasing total stage loss, then the
+// screened parts by increasing loss; ties by name. partner, when non-nil,
+// fills the other place of a synchronous cell.
+func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
+	out := make([]Result, len(devs))
+	w := opt.Workers
+	if w <= 0 {
+		w = runtime.GOMAXPROCS(0)
+	}
+	const chunk = 1024
+	if w == 1 || len(devs) < 2*chunk {
+		for i := range devs {
+			out[i] = Evaluate(pt, &devs[i], partner, nil)
+		}
+	} else {
+		var wg sync.WaitGroup
+		next := make(chan int, w)
+		for range w {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for lo := range next {
+					hi := min(lo+chunk, len(devs))
+					for i := lo; i < hi; i++ {
+						out[i] = Evaluate(pt, &devs[i], partner, nil)
+					}
+				}
+			}()
+		}
+		for lo := 0; lo < len(devs); lo += chunk {
+			next <- lo
+		}
+		close(next)
+		wg.Wait()
+	}
+	slices.SortFunc(out, Compare)
+	return out
+}
+
+// Compare orders results: passing before screened, then by total loss,
+// then by part name.
+func Compare(a, b Result) int {
+	if sa, sb := a.Screened(), b.Screened(); sa != sb {
+		if sa {
+			return 1
+		}
+		return -1
+	}
+	if c := cmp.Compare(a.Losses.Total(), b.Losses.Total()); c != 0 {
+		return c
+	}
+	return cmp.Compare(a.Dev.Part.Name, b.Dev.Part.Name)
+}
+
+// Reasons explains why the part is screened, one sentence a reason.
+func (r *Result) Reasons() []string {
+	var out []string
+	for i := 0; i < r.N; i++ {
+		d := &r.Devices[i]
+		if d.Screens == 0 {
+			continue
+		}
+		p := d.Dev.Part
+		s := d.Screens
+		who := p.Name
+		if r.N > 1 {
+			who = fmt.Sprintf("%s (%s)", p.Name, d.Role)
+		}
+		add := func(format string, a ...any) { out = append(out, who+": "+fmt.Sprintf(format, a...)) }
+		if s&ScreenVoltage != 0 {
+			add("drain voltage %s exceeds %.0f %% of vds_max %s", d.Stress.V, 100*float64(r.Derate), p.VdsMax)
+		}
+		if s&ScreenPeakCurrent != 0 {
+			add("peak current %s exceeds id_pulse %s", d.Stress.IPeak, p.IdPulse.V)
+		}
+		if s&ScreenRmsCurrent != 0 {
+			add("rms current %s exceeds the continuous rating derated to the case temperature, %s", d.Stress.IRms, d.IdLimit)
+		}
+		if s&ScreenGateMax != 0 {
+			add("gate drive exceeds vgs_max %s", p.VgsMax)
+		}
+		if s&ScreenGateMin != 0 {
+			add("off-level gate drive below vgs_min %s", d.Dev.VgsMin)
+		}
+		if s&ScreenBelowThreshold != 0 {
+			add("gate drive does not exceed the threshold %s", d.Dev.Vth)
+		}
+		if s&ScreenBelowPlateau != 0 {
+			add("gate drive does not exceed the plateau %s at the peak current %s", PlateauAt(d.Dev.Vth, d.Dev.VplSpec, d.Dev.QgId, d.Stress.IPeak), d.Stress.IPeak)
+		}
+		if s&ScreenTjMax != 0 {
+			if d.Thermal.Found {
+				add("junction temperature %s exceeds tj_max %s", d.Thermal.Tj, d.Dev.TjMax)
+			} else {
+				add("no steady junction temperature below %s", d.Dev.TjMax)
+			}
+		}
+		if s&ScreenRunaway != 0 {
+			add("thermal runaway: the loss rises faster with temperature than the heat path removes it (no steady temperature up to %s)", d.Dev.TjMax+500)
+		}
+	}
+	return out
+}
