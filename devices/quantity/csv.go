@@ -2,6 +2,7 @@ package quantity
 
 import (
 	"strconv"
+	"strings"
 )
 
 // Opt is an optional quantity: a datasheet value that may be left blank.
@@ -45,9 +46,14 @@ func (o Opt[Q]) MarshalCSV() (string, error) {
 	return strconv.FormatFloat(float64(o.V), 'g', -1, 64), nil
 }
 
+// isBlank reports whether s is empty or white space only (Unicode white
+// space too, so that a cell holding a no-break space counts as blank).
 func isBlank(s string) bool {
 	for i := 0; i < len(s); i++ {
 		if s[i] != ' ' && s[i] != '\t' {
+			if s[i] >= 0x80 {
+				return strings.TrimSpace(s) == ""
+			}
 			return false
 		}
 	}
