@@ -220,19 +220,18 @@ type ClassESpec struct {
 }
 
 // DesignClassE designs a class E stage at s: the closed form of
-// IdealClassE when s.QL is 0 and s.FeedRatio is 0, else the periodic
-// steady state of SolveClassE. Sources as for those two functions.
+// IdealClassE when s.QL is 0 (then s.FeedRatio must be 0 too), else the
+// periodic steady state of SolveClassE. Sources as for those two functions.
 func DesignClassE(s ClassESpec) (ClassE, error) {
 	var c ClassECoefficients
-	if s.QL == 0 && s.FeedRatio == 0 {
+	switch {
+	case s.QL == 0 && s.FeedRatio == 0:
 		c = IdealClassE()
-	} else {
-		ql := s.QL
-		if ql == 0 {
-			ql = q.Ratio(math.Inf(1))
-		}
+	case s.QL == 0:
+		return ClassE{}, fmt.Errorf("class E: %w: a finite feed choke (FeedRatio %g) needs a finite loaded Q QL", ErrSpec, s.FeedRatio)
+	default:
 		var err error
-		if c, err = SolveClassE(ql, s.FeedRatio); err != nil {
+		if c, err = SolveClassE(s.QL, s.FeedRatio); err != nil {
 			return ClassE{}, err
 		}
 	}
