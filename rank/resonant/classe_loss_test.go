@@ -251,7 +251,7 @@ func TestHysteresisLoss(t *testing.T) {
 		want float64
 	}{
 		{Hysteresis{E: 1e-6, VStated: 100}, 100, 1e-6 * 1e6},
-		{Hysteresis{E: 1e-6, VStated: 100}, 400, 1e-6 * 8 * 1e6},              // 4^1.5 = 8
+		{Hysteresis{E: 1e-6, VStated: 100}, 400, 1e-6 * 8 * 1e6},                // 4^1.5 = 8
 		{Hysteresis{E: 1e-6, VStated: 100, Exponent: 2}, 50, 1e-6 * 0.25 * 1e6}, // caller's law
 		{Hysteresis{}, 400, 0},
 	} {
