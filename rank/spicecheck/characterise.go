@@ -1,0 +1,394 @@
+package spicecheck
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+
+	"swrank/devices"
+	q "swrank/devices/quantity"
+)
+
+// Datasheet holds the numbers extracted from a model by simulated
+// characterisation, with the test conditions of each (SI units).
+type Datasheet struct {
+	RdsOn, RdsOnVgs   float64 // on-resistance at VgsHigh (10 V) and ITest
+	RdsOn2, RdsOn2Vgs float64 // on-resistance at the second gate voltage
+	Vth               float64 // gate threshold at 250 µA, Vds = Vgs
+	Vsd               float64 // body-diode drop at ITest
+
+	Ciss, Coss, Crss, CapVds float64 // small-signal at 1 MHz and CapVds
+	RgInt                    float64 // gate resistance at 1 MHz, drain shorted to source
+	Qoss, Eoss, OssVds       float64 // output charge and energy from 0 to OssVds
+
+	Qg, QgVgs, QgVds, QgId float64 // total gate charge at QgVgs in the gate-charge test
+	Qgs, Qgd, QgTh, Vpl    float64 // gate-source, Miller and threshold charges; plateau voltage
+	GateCurve              [][2]float64
+
+	Tr, Tf                     float64 // 10-90 % current rise and fall times, resistive load
+	TswVdd, TswId, TswVgs      float64
+	TswRg, TswRgen             float64
+	TswTdOn, TswTdOff          float64 // delay times (10 % gate to 10 % current), for the report
+	GateChargeIg               float64 // constant gate current of the gate-charge test, A
+	GateChargeTime, VthCurrent float64
+}
+
+// Test conditions of the characterisation (common datasheet practice).
+const (
+	vgsHigh    = 10.0   // V, first Rds(on) point and Qg level
+	vthCurrent = 250e-6 // A, threshold test current
+	capFreq    = 1e6    // Hz, capacitance and gate-resistance test frequency
+	tswRg      = 3.0    // Ω, external gate resistor of the switching-time test
+	tswRgen    = 1.0    // Ω, generator resistance of the switching-time test
+	edge       = 50e-12 // s, source edges (team notes: 1 ns edges under-read gate energy)
+)
+
+// Characterise extracts the datasheet numbers of m by simulation.
+func Characterise(ctx context.Context, r *Runner, m *Model) (*Datasheet, error) {
+	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, CapVds: m.VdsMax / 2, OssVds: m.VdsMax / 2,
+		QgVgs: vgsHigh, QgVds: m.VdsMax / 2, QgId: m.ITest,
+		TswVdd: m.VdsMax / 2, TswId: m.ITest, TswVgs: vgsHigh, TswRg: tswRg, TswRgen: tswRgen,
+		VthCurrent: vthCurrent}
+	steps := []struct {
+		name string
+		fn   func(context.Context, *Runner, *Model, *Datasheet) error
+	}{{"static", static}, {"capacitances", capacitances}, {"output charge", outputCharge},
+		{"gate charge", gateCharge}, {"switching times", switchingTimes}}
+	for _, s := range steps {
+		if err := s.fn(ctx, r, m, ds); err != nil {
+			return nil, fmt.Errorf("characterising %s: %s test: %w", m.Name, s.name, err)
+		}
+	}
+	return ds, nil
+}
+
+// static: Rds(on) at two gate voltages (a current forced into the drain),
+// Vgs(th) with gate tied to drain at 250 µA, and the body-diode drop.
+func static(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+	var b strings.Builder
+	b.WriteString("* static characterisation\n")
+	b.WriteString(m.card("dut"))
+	b.WriteString(optionsLine)
+	fmt.Fprintf(&b, "m1 d1 g1 0 0 dut\nvg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
+	fmt.Fprintf(&b, "m2 d2 g2 0 0 dut\nvg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
+	fmt.Fprintf(&b, "m3 d3 d3 0 0 dut\ni3 0 d3 dc %s\n", num(vthCurrent))
+	fmt.Fprintf(&b, "m4 d4 0 0 0 dut\ni4 d4 0 dc %s\n", num(m.ITest))
+	b.WriteString(".control\n" + deckPrologue + "op\nwrdata static.dat v(d1) v(d2) v(d3) v(d4)\nquit 0\n.endc\n.end\n")
+	t, err := r.Run(ctx, m.Name+" static", b.String(), "static.dat")
+	if err != nil {
+		return err
+	}
+	get := func(n string) (float64, error) {
+		c, err := t["static.dat"].Col(n)
+		if err != nil {
+			return 0, err
+		}
+		return c[0], nil
+	}
+	v1, err1 := get("v(d1)")
+	v2, err2 := get("v(d2)")
+	v3, err3 := get("v(d3)")
+	v4, err4 := get("v(d4)")
+	for _, e := range []error{err1, err2, err3, err4} {
+		if e != nil {
+			return e
+		}
+	}
+	ds.RdsOn, ds.RdsOn2, ds.Vth, ds.Vsd = v1/m.ITest, v2/m.ITest, v3, -v4
+	// A datasheet Rds(on) is a linear-region figure: the drain voltage must
+	// stay well below the overdrive.
+	if v2 > 0.3*(ds.RdsOn2Vgs-m.Vto) {
+		return fmt.Errorf("at Vgs = %g V and %g A the channel saturates (Vds %.3g V): raise vgs2 or lower i_test",
+			ds.RdsOn2Vgs, m.ITest, v2)
+	}
+	return nil
+}
+
+// capacitances: Ciss (gate driven, drain AC-shorted at CapVds), Coss and
+// Crss (drain driven at CapVds, gate AC-shorted to source) at 1 MHz, and the
+// gate resistance as the real part of the gate impedance with the drain
+// shorted to the source.
+func capacitances(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+	var b strings.Builder
+	b.WriteString("* small-signal capacitances\n")
+	b.WriteString(m.card("dut"))
+	b.WriteString(optionsLine)
+	fmt.Fprintf(&b, "m1 d1 g1 0 0 dut\nvd1 d1 0 dc %s\nvg1 g1 0 dc 0 ac 1\n", num(ds.CapVds))
+	fmt.Fprintf(&b, "m2 d2 g2 0 0 dut\nvd2 d2 0 dc %s ac 1\nvg2 g2 0 dc 0\n", num(ds.CapVds))
+	b.WriteString("m3 0 g3 0 0 dut\nvg3 g3 0 dc 0 ac 1\n")
+	fmt.Fprintf(&b, ".control\n%sac lin 1 %s %s\n", deckPrologue, num(capFreq), num(capFreq))
+	fmt.Fprintf(&b, "let w = 2*pi*%s\n", num(capFreq))
+	b.WriteString("let z1 = -1/i(vg1)\nlet ciss = -1/(w*imag(z1))\n")
+	b.WriteString("let coss = imag(-i(vd2))/w\nlet crss = imag(i(vg2))/w\n")
+	b.WriteString("let z3 = -1/i(vg3)\nlet rgint = real(z3)\n")
+	b.WriteString("wrdata caps.dat ciss coss crss rgint\nquit 0\n.endc\n.end\n")
+	t, err := r.Run(ctx, m.Name+" capacitances", b.String(), "caps.dat")
+	if err != nil {
+		return err
+	}
+	vals := map[string]*float64{"ciss": &ds.Ciss, "coss": &ds.Coss, "crss": &ds.Crss, "rgint": &ds.RgInt}
+	for n, p := range vals {
+		c, err := t["caps.dat"].Col(n)
+		if err != nil {
+			return err
+		}
+		if !(c[0] > 0) {
+			return fmt.Errorf("%s = %g, want > 0", n, c[0])
+		}
+		*p = c[0]
+	}
+	return nil
+}
+
+// outputCharge: the drain is ramped slowly from 0 V to OssVds with the gate
+// shorted to the source; Q_oss = ∫i dt and E_oss = ∫v·i dt (IEC 60747-8
+// definitions of output charge and stored energy).
+func outputCharge(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+	const ramp = 2e-6
+	var b strings.Builder
+	b.WriteString("* output charge and energy\n")
+	b.WriteString(m.card("dut"))
+	b.WriteString(optionsLine)
+	fmt.Fprintf(&b, "m1 d1 0 0 0 dut\nvd1 d1 0 pwl(0 0 %s %s)\n", num(ramp), num(ds.OssVds))
+	fmt.Fprintf(&b, ".control\n%stran %s %s 0 %s\nwrdata oss.dat v(d1) i(vd1)\nquit 0\n.endc\n.end\n",
+		deckPrologue, num(ramp/2000), num(ramp), num(ramp/2000))
+	t, err := r.Run(ctx, m.Name+" output charge", b.String(), "oss.dat")
+	if err != nil {
+		return err
+	}
+	tab := t["oss.dat"]
+	tm, v, i := tab.Cols[0], mustCol(tab, "v(d1)"), mustCol(tab, "i(vd1)")
+	if tm == nil || v == nil || i == nil {
+		return fmt.Errorf("missing columns in %v", tab.Names)
+	}
+	var qq, e float64
+	for k := 1; k < len(tm); k++ {
+		dt := tm[k] - tm[k-1]
+		i0, i1 := -i[k-1], -i[k]
+		qq += 0.5 * (i0 + i1) * dt
+		e += 0.5 * (v[k-1]*i0 + v[k]*i1) * dt
+	}
+	if !(qq > 0 && e > 0) {
+		return fmt.Errorf("Q_oss %g, E_oss %g: want > 0", qq, e)
+	}
+	ds.Qoss, ds.Eoss = qq, e
+	return nil
+}
+
+func mustCol(t *Table, n string) []float64 {
+	c, err := t.Col(n)
+	if err != nil {
+		return nil
+	}
+	return c
+}
+
+// gateCharge: a constant current charges the gate while the drain carries
+// QgId from a clamped inductive load (a current source with a clamp diode to
+// QgVds). Qg(th) is the charge at Vth, the plateau voltage the gate voltage
+// at the middle of the plateau, Qgs the charge where the rising tangent
+// before the plateau meets the plateau level, Qgs + Qgd where the tangent
+// after the plateau does, and Qg the charge at QgVgs (IEC 60747-8 gate-charge
+// definitions; JESD24 constant-current method).
+func gateCharge(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+	// Gate current: a few mA scaled with the part so that the test lasts a
+	// few microseconds (it is slow against every time constant of the die).
+	qmax := (m.Cgs+m.Cgdmax)*(ds.QgVgs+2) + m.Cgdmax*ds.QgVds
+	ig := qmax / 5e-6
+	tstop := qmax / ig
+	ds.GateChargeIg, ds.GateChargeTime = ig, tstop
+	var b strings.Builder
+	b.WriteString("* gate charge\n")
+	b.WriteString(m.card("dut"))
+	b.WriteString(clampCard)
+	b.WriteString(optionsLine)
+	fmt.Fprintf(&b, "vdd dd 0 dc %s\nil dd d1 dc %s\ndcl d1 dd dclamp\nm1 d1 g1 0 0 dut\n", num(ds.QgVds), num(m.ITest))
+	fmt.Fprintf(&b, "ig 0 g1 pwl(0 0 %s %s)\nrleak g1 0 1e9\n", num(edge), num(ig))
+	fmt.Fprintf(&b, ".control\n%stran %s %s 0 %s\nwrdata qg.dat v(g1) v(d1)\nquit 0\n.endc\n.end\n",
+		deckPrologue, num(tstop/4000), num(tstop), num(tstop/4000))
+	t, err := r.Run(ctx, m.Name+" gate charge", b.String(), "qg.dat")
+	if err != nil {
+		return err
+	}
+	tab := t["qg.dat"]
+	tm, vg := tab.Cols[0], mustCol(tab, "v(g1)")
+	if vg == nil {
+		return fmt.Errorf("missing v(g1) in %v", tab.Names)
+	}
+	qs := make([]float64, len(tm))
+	for k := range tm {
+		qs[k] = ig * math.Max(0, tm[k]-edge/2) // charge delivered (the 1 GΩ leak is negligible)
+	}
+	return extractGateCharge(qs, vg, ds)
+}
+
+// extractGateCharge reads Qg(th), Qgs, Qgd, Vpl and Qg off a gate-charge
+// curve Vgs(Q) (Q increasing).
+func extractGateCharge(qs, vg []float64, ds *Datasheet) error {
+	n := len(qs)
+	qAt := func(v float64) (float64, bool) { // first charge where Vgs reaches v
+		for k := 1; k < n; k++ {
+			if vg[k] >= v && vg[k-1] < v {
+				return qs[k-1] + (qs[k]-qs[k-1])*(v-vg[k-1])/(vg[k]-vg[k-1]), true
+			}
+		}
+		return 0, false
+	}
+	vAt := func(qq float64) float64 {
+		for k := 1; k < n; k++ {
+			if qs[k] >= qq {
+				if qs[k] == qs[k-1] {
+					return vg[k]
+				}
+				return vg[k-1] + (vg[k]-vg[k-1])*(qq-qs[k-1])/(qs[k]-qs[k-1])
+			}
+		}
+		return vg[n-1]
+	}
+	qg, ok := qAt(ds.QgVgs)
+	if !ok {
+		return fmt.Errorf("gate voltage never reached %g V (max %.3g V)", ds.QgVgs, vg[n-1])
+	}
+	qth, ok := qAt(ds.Vth)
+	if !ok {
+		return fmt.Errorf("gate voltage never reached the threshold %g V", ds.Vth)
+	}
+	// Resample on a uniform charge grid and find the flattest stretch.
+	const grid = 4000
+	dq := qg / grid
+	v := make([]float64, grid+1)
+	for k := range v {
+		v[k] = vAt(float64(k) * dq)
+	}
+	slope := func(k int) float64 { return (v[k+1] - v[k]) / dq }
+	// Final (post-plateau) slope: the tangent over the last 5 % of Qg.
+	k2 := grid - grid/20
+	sPost := (v[grid] - v[k2]) / (float64(grid-k2) * dq)
+	kmin, smin := -1, math.Inf(1)
+	for k := int(qth / dq); k < k2; k++ {
+		if s := slope(k); s < smin {
+			kmin, smin = k, s
+		}
+	}
+	if kmin < 0 || smin > 0.3*sPost {
+		return fmt.Errorf("no Miller plateau found (flattest slope %.3g V/C against %.3g V/C after it)", smin, sPost)
+	}
+	// The plateau: the stretch around the flattest point where the slope
+	// stays below a quarter of the post-plateau slope.
+	lim := 0.25 * sPost
+	a, z := kmin, kmin
+	for a > 0 && slope(a-1) < lim {
+		a--
+	}
+	for z < grid-1 && slope(z+1) < lim {
+		z++
+	}
+	vpl := v[(a+z)/2]
+	// Tangent after the plateau, extended back to the plateau level.
+	qEnd := qg - (ds.QgVgs-vpl)/sPost
+	// Tangent before the plateau, at 80 % of the way from threshold to the
+	// plateau, extended forward to the plateau level.
+	vPre := ds.Vth + 0.8*(vpl-ds.Vth)
+	qp, ok := qAt(vPre)
+	if !ok {
+		return fmt.Errorf("no rise from threshold to plateau")
+	}
+	kp := int(qp / dq)
+	sPre := slope(kp)
+	qgs := qp + (vpl-vPre)/sPre
+	if !(qth < qgs && qgs < qEnd && qEnd < qg) {
+		return fmt.Errorf("gate-charge breakpoints out of order: Qg(th) %.4g, Qgs %.4g, plateau end %.4g, Qg %.4g",
+			qth, qgs, qEnd, qg)
+	}
+	ds.Qg, ds.QgTh, ds.Qgs, ds.Qgd, ds.Vpl = qg, qth, qgs, qEnd-qgs, vpl
+	ds.GateCurve = ds.GateCurve[:0]
+	for k := 0; k <= grid; k += grid / 40 {
+		ds.GateCurve = append(ds.GateCurve, [2]float64{float64(k) * dq, v[k]})
+	}
+	return nil
+}
+
+// switchingTimes: resistive load from TswVdd at TswId, gate driven from
+// 0 to TswVgs through the generator and external resistances. tr and tf are
+// the 10-90 % times of the drain current (IEC 60747-8 switching times).
+func switchingTimes(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+	rtot := ds.TswRg + ds.TswRgen + m.Rg
+	cin := m.Cgs + m.Cgdmax
+	ton := 40*rtot*cin + 40*rtot*m.Cgdmax*ds.TswVdd/ds.TswVgs + 20e-9
+	const delay = 5e-9
+	tstop := delay + 2*ton
+	var b strings.Builder
+	b.WriteString("* switching times, resistive load\n")
+	b.WriteString(m.card("dut"))
+	b.WriteString(optionsLine)
+	fmt.Fprintf(&b, "vdd dd 0 dc %s\nrl dd d1 %s\nm1 d1 g1 0 0 dut\n", num(ds.TswVdd), num(ds.TswVdd/ds.TswId))
+	fmt.Fprintf(&b, "vgen p 0 pulse(0 %s %s %s %s %s %s)\nrgen p gx %s\nrgx gx g1 %s\n",
+		num(ds.TswVgs), num(delay), num(edge), num(edge), num(ton), num(4*ton), num(ds.TswRgen), num(ds.TswRg))
+	fmt.Fprintf(&b, ".control\n%stran %s %s 0 %s\nwrdata tsw.dat v(d1) v(g1)\nquit 0\n.endc\n.end\n",
+		deckPrologue, num(tstop/20000), num(tstop), num(tstop/20000))
+	t, err := r.Run(ctx, m.Name+" switching times", b.String(), "tsw.dat")
+	if err != nil {
+		return err
+	}
+	tab := t["tsw.dat"]
+	tm, vd := tab.Cols[0], mustCol(tab, "v(d1)")
+	if vd == nil {
+		return fmt.Errorf("missing v(d1)")
+	}
+	id := make([]float64, len(vd))
+	imax := 0.0
+	for k := range vd {
+		id[k] = (ds.TswVdd - vd[k]) / (ds.TswVdd / ds.TswId)
+		if tm[k] < delay+ton {
+			imax = math.Max(imax, id[k])
+		}
+	}
+	cross := func(from float64, level float64, up bool) (float64, bool) {
+		for k := 1; k < len(tm); k++ {
+			if tm[k] <= from {
+				continue
+			}
+			if up && id[k-1] < level && id[k] >= level || !up && id[k-1] > level && id[k] <= level {
+				return tm[k-1] + (tm[k]-tm[k-1])*(level-id[k-1])/(id[k]-id[k-1]), true
+			}
+		}
+		return 0, false
+	}
+	i10, i90 := 0.1*imax, 0.9*imax
+	a, ok1 := cross(delay, i10, true)
+	z, ok2 := cross(delay, i90, true)
+	c, ok3 := cross(delay+ton, i90, false)
+	d, ok4 := cross(delay+ton, i10, false)
+	if !(ok1 && ok2 && ok3 && ok4) {
+		return fmt.Errorf("drain current did not cross 10 %% and 90 %% of %.3g A on both edges", imax)
+	}
+	ds.Tr, ds.Tf = z-a, d-c
+	ds.TswTdOn, ds.TswTdOff = a-delay, c-(delay+ton)
+	return nil
+}
+
+// Part turns the datasheet into a parts-library row: only what a datasheet
+// shows (ratings, typical values and their test conditions), never the
+// model parameters.
+func (ds *Datasheet) Part(m *Model) devices.Part {
+	v := func(x float64) q.Opt[q.Voltage] { return q.Some(q.Voltage(x)) }
+	return devices.Part{
+		Name: m.Name, Package: "sim", Technology: devices.Silicon,
+		Notes:  "synthetic VDMOS model characterised by ngspice",
+		VdsMax: q.Voltage(m.VdsMax), IdMax: q.Current(m.IdMax), VgsMax: q.Voltage(m.VgsMax),
+		TjMax: q.Some[q.Temperature](150),
+		VgsTh: q.Voltage(ds.Vth),
+		RdsOn: q.Resistance(ds.RdsOn), RdsOnVgs: q.Voltage(ds.RdsOnVgs), RdsOnTj: q.Some[q.Temperature](25),
+		RdsOn2: q.Some(q.Resistance(ds.RdsOn2)), RdsOn2Vgs: v(ds.RdsOn2Vgs),
+		Qg: q.Charge(ds.Qg), QgVgs: q.Voltage(ds.QgVgs), QgVds: v(ds.QgVds), QgId: q.Some(q.Current(ds.QgId)),
+		Qgs: q.Some(q.Charge(ds.Qgs)), Qgd: q.Some(q.Charge(ds.Qgd)), QgTh: q.Some(q.Charge(ds.QgTh)),
+		VPlateau: v(ds.Vpl), RgInt: q.Some(q.Resistance(ds.RgInt)),
+		Ciss: q.Some(q.Capacitance(ds.Ciss)), Coss: q.Some(q.Capacitance(ds.Coss)), Crss: q.Some(q.Capacitance(ds.Crss)),
+		CapVds: v(ds.CapVds),
+		Qoss:   q.Some(q.Charge(ds.Qoss)), Eoss: q.Some(q.Energy(ds.Eoss)), OssVds: v(ds.OssVds),
+		Tr: q.Some(q.Time(ds.Tr)), Tf: q.Some(q.Time(ds.Tf)), TswVdd: v(ds.TswVdd), TswId: q.Some(q.Current(ds.TswId)),
+		TswVgs: v(ds.TswVgs), TswRg: q.Some(q.Resistance(ds.TswRg)), TswRgen: q.Some(q.Resistance(ds.TswRgen)),
+		Vsd: v(ds.Vsd), VsdIf: q.Some(q.Current(m.ITest)),
+	}
+}
