@@ -1,0 +1,173 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"swrank/devices"
+	"swrank/rank"
+)
+
+const rankSynopsis = `rank [--parts FILE.csv | --demo] [--topology buck|boost|custom] [stage flags] --vdrive V [driver, thermal and output flags]`
+
+// loadLibrary reads the parts library named by the flags and prepares
+// every part for evaluation. Warnings go to stderr.
+func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []rank.Device, error) {
+	var lib *devices.Library
+	var err error
+	switch {
+	case in.demo && in.parts != "":
+		return nil, nil, errors.New("give --parts or --demo, not both")
+	case in.demo:
+		lib, err = devices.Demo()
+	case in.parts != "":
+		lib, err = devices.Load(in.parts)
+	default:
+		return nil, nil, errors.New("no parts library: give --parts FILE.csv or --demo")
+	}
+	if err != nil {
+		return nil, nil, err
+	}
+	for _, w := range lib.Warnings {
+		fmt.Fprintf(stderr, "swrank: %v\n", w)
+	}
+	devs := make([]rank.Device, len(lib.Parts))
+	for i := range lib.Parts {
+		d, err := rank.Prepare(&lib.Parts[i])
+		if err != nil {
+			return nil, nil, fmt.Errorf("%s: %w", lib.Source, err)
+		}
+		devs[i] = d
+	}
+	return lib, devs, nil
+}
+
+// findDevice returns the device named name (case-insensitive).
+func findDevice(devs []rank.Device, name string) (*rank.Device, error) {
+	for i := range devs {
+		if strings.EqualFold(devs[i].Part.Name, name) {
+			return &devs[i], nil
+		}
+	}
+	return nil, fmt.Errorf("no part named %q in the library", name)
+}
+
+// prepare parses the shared inputs and resolves the operating point.
+func prepare(in *inputs, stderr io.Writer) (*rank.Point, []rank.Device, *rank.Device, *devices.Library, error) {
+	if err := checkFormat(in.format); err != nil {
+		return nil, nil, nil, nil, err
+	}
+	pt, err := in.stage.Resolve()
+	if err != nil {
+		return nil, nil, nil, nil, fmt.Errorf("operating point: %w", err)
+	}
+	lib, devs, err := loadLibrary(in, stderr)
+	if err != nil {
+		return nil, nil, nil, nil, err
+	}
+	var partner *rank.Device
+	if in.partner != "" {
+		if !pt.HasSync {
+			return nil, nil, nil, nil, errors.New("--partner needs a synchronous buck or boost stage")
+		}
+		if partner, err = findDevice(devs, in.partner); err != nil {
+			return nil, nil, nil, nil, fmt.Errorf("--partner: %w", err)
+		}
+	}
+	return &pt, devs, partner, lib, nil
+}
+
+func runRank(args []string, stdout, stderr io.Writer) error {
+	var in inputs
+	fs := newFlagSet("rank", rankSynopsis, stderr)
+	in.register(fs)
+	in.registerOutput(fs)
+	if err := parse(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() > 0 {
+		return fmt.Errorf("unexpected arguments %q (flags come as --name value)", fs.Args())
+	}
+	pt, devs, partner, lib, err := prepare(&in, stderr)
+	if err != nil {
+		return err
+	}
+	res := rank.Rank(pt, devs, partner, rank.Options{})
+	return render(stdout, in.format, report{pt: pt, lib: lib, results: res, all: in.all, top: in.top})
+}
+
+func runExplain(args []string, stdout, stderr io.Writer) error {
+	var in inputs
+	fs := newFlagSet("explain", "explain [same flags as rank] PART", stderr)
+	in.register(fs)
+	fs.StringVar(&in.format, "format", "table", "output `FORMAT`: table (text) or json")
+	if err := parse(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		fs.Usage()
+		return fmt.Errorf("%w: explain takes one part name", errUsage)
+	}
+	if in.format == "csv" || in.format == "markdown" {
+		return fmt.Errorf("explain prints table (text) or json, not %s", in.format)
+	}
+	pt, devs, partner, _, err := prepare(&in, stderr)
+	if err != nil {
+		return err
+	}
+	dev, err := findDevice(devs, fs.Arg(0))
+	if err != nil {
+		return err
+	}
+	var tr rank.Trace
+	r := rank.Evaluate(pt, dev, partner, &tr)
+	return renderExplain(stdout, in.format, pt, &r, &tr)
+}
+
+func runCheck(args []string, stdout, stderr io.Writer) error {
+	fs := newFlagSet("check", "check FILE.csv ...", stderr)
+	if err := parse(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() == 0 {
+		fs.Usage()
+		return fmt.Errorf("%w: check takes one or more files", errUsage)
+	}
+	fatal := 0
+	for _, path := range fs.Args() {
+		f, err := os.Open(path)
+		if err != nil {
+			return err
+		}
+		lib, probs := devices.Check(f, path)
+		f.Close()
+		for _, p := range probs {
+			fmt.Fprintln(stdout, p.Error())
+			if p.Fatal {
+				fatal++
+			}
+		}
+		n := 0
+		if lib != nil {
+			n = len(lib.Parts)
+		}
+		fmt.Fprintf(stdout, "%s: %d parts, %d problems (%d fatal)\n", path, n, len(probs), countFatal(probs))
+	}
+	if fatal > 0 {
+		return &exitError{code: 1, err: fmt.Errorf("%d fatal problems", fatal)}
+	}
+	return nil
+}
+
+func countFatal(ps devices.ProblemList) int {
+	n := 0
+	for _, p := range ps {
+		if p.Fatal {
+			n++
+		}
+	}
+	return n
+}

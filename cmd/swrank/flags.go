@@ -1,0 +1,136 @@
+package main
+
+import (
+	"flag"
+	"fmt"
+	"strings"
+
+	q "swrank/devices/quantity"
+	"swrank/rank"
+)
+
+// qty is a flag.Value for a required-or-defaulted quantity.
+type qty[Q q.Quantity] struct{ p *Q }
+
+func (f qty[Q]) String() string {
+	if f.p == nil || *f.p == 0 {
+		return ""
+	}
+	return q.Format(*f.p, 4)
+}
+
+func (f qty[Q]) Set(s string) error {
+	v, err := q.Parse[Q](s)
+	if err != nil {
+		return err
+	}
+	*f.p = v
+	return nil
+}
+
+// opt is a flag.Value for an optional quantity.
+type opt[Q q.Quantity] struct{ p *q.Opt[Q] }
+
+func (f opt[Q]) String() string {
+	if f.p == nil || !f.p.OK {
+		return ""
+	}
+	return q.Format(f.p.V, 4)
+}
+
+func (f opt[Q]) Set(s string) error {
+	v, err := q.Parse[Q](s)
+	if err != nil {
+		return err
+	}
+	*f.p = q.Some(v)
+	return nil
+}
+
+// enum is a flag.Value that parses with fn.
+type enum[T any] struct {
+	p     *T
+	parse func(string) (T, error)
+	show  func(T) string
+}
+
+func (f enum[T]) String() string {
+	if f.p == nil {
+		return ""
+	}
+	return f.show(*f.p)
+}
+func (f enum[T]) Set(s string) error {
+	v, err := f.parse(s)
+	if err != nil {
+		return err
+	}
+	*f.p = v
+	return nil
+}
+
+func str[T fmt.Stringer](t T) string { return t.String() }
+
+// inputs are the flags shared by rank and explain.
+type inputs struct {
+	parts   string
+	demo    bool
+	partner string
+	stage   rank.Stage
+	format  string
+	all     bool
+	top     int
+}
+
+// stageFlags registers the operating-point flags on fs.
+func (in *inputs) register(fs *flag.FlagSet) {
+	s := &in.stage
+	fs.StringVar(&in.parts, "parts", "", "parts library `FILE.csv` (one row per part)")
+	fs.BoolVar(&in.demo, "demo", false, "use the built-in demo library instead of --parts")
+	fs.Var(enum[rank.Topology]{&s.Topology, rank.ParseTopology, str[rank.Topology]}, "topology", "`STAGE`: buck, boost or custom")
+	fs.Var(enum[rank.Rectifier]{&s.Rectifier, rank.ParseRectifier, str[rank.Rectifier]}, "rectifier", "second place of a buck or boost, `KIND`: sync (a transistor) or diode")
+	fs.Var(enum[rank.Position]{&s.Position, rank.ParsePosition, str[rank.Position]}, "position", "`PLACE` ranked in a synchronous stage: control, sync or pair (whole-stage loss in every case)")
+	fs.StringVar(&in.partner, "partner", "", "`PART` filling the other place (default: the ranked part itself)")
+	fs.Var(qty[q.Voltage]{&s.Vin}, "vin", "input voltage, `V`")
+	fs.Var(qty[q.Voltage]{&s.Vout}, "vout", "output voltage, `V`")
+	fs.Var(qty[q.Current]{&s.Iout}, "iout", "load current, `A`")
+	fs.Var(qty[q.Power]{&s.Pout}, "pout", "output power for percentages, `W` (default vout × iout)")
+	fs.Var(qty[q.Frequency]{&s.Fsw}, "fsw", "switching frequency, `Hz`")
+	fs.Var(opt[q.Ratio]{&s.Ripple}, "ripple", "inductor ripple, peak-to-peak `FRACTION` of the inductor current (default 0.3 unless --inductance)")
+	fs.Var(qty[q.Inductance]{&s.Inductance}, "inductance", "inductor, `H` (sets the ripple)")
+	fs.Var(opt[q.Time]{&s.DeadTime}, "dead-time", "dead time at each edge of a synchronous stage, `S` (default 20n)")
+	fs.Var(qty[q.Voltage]{&s.Diode.Vf}, "diode-vf", "rectifier diode forward drop, `V` (default 0.5)")
+	fs.Var(qty[q.Charge]{&s.Diode.Qrr}, "diode-qrr", "rectifier diode recovered charge, `C` (default 0)")
+	fs.Var(qty[q.Capacitance]{&s.Diode.Cj}, "diode-cj", "rectifier diode junction capacitance, `F` (default 0)")
+	fs.Var(qty[q.Voltage]{&s.Vblock}, "vblock", "custom: blocking voltage at the hard edges, `V`")
+	fs.Var(qty[q.Current]{&s.Ion}, "ion", "custom: drain current at turn-on, `A`")
+	fs.Var(qty[q.Current]{&s.Ioff}, "ioff", "custom: drain current at turn-off, `A`")
+	fs.Var(qty[q.Current]{&s.Irms}, "irms", "custom: rms drain current, `A`")
+	fs.Var(qty[q.Voltage]{&s.Driver.VOn}, "vdrive", "gate drive on level, `V` (required)")
+	fs.Var(qty[q.Voltage]{&s.Driver.VOff}, "vdrive-off", "gate drive off level, `V`; negative for bipolar drive (default 0)")
+	fs.Var(qty[q.Resistance]{&s.Driver.RSource}, "rsrc", "driver source (pull-up) resistance, `OHM` (default 2)")
+	fs.Var(qty[q.Resistance]{&s.Driver.RSink}, "rsnk", "driver sink (pull-down) resistance, `OHM` (default 1)")
+	fs.Var(qty[q.Current]{&s.Driver.IPeakSource}, "ipk-src", "driver peak source current limit, `A` (default none)")
+	fs.Var(qty[q.Current]{&s.Driver.IPeakSink}, "ipk-snk", "driver peak sink current limit, `A` (default none)")
+	fs.Var(qty[q.Resistance]{&s.Driver.RgExt}, "rg-ext", "external gate resistor, `OHM` (default 0)")
+	fs.Var(qty[q.Current]{&s.Driver.IQ}, "iq", "driver quiescent current, `A` (default 0)")
+	fs.Var(qty[q.Temperature]{&s.Ambient}, "ta", "ambient temperature, `DEGC` (default 25)")
+	fs.Var(opt[q.ThermalResistance]{&s.RthCA}, "rth-ca", "case-to-ambient thermal resistance added to a part's rth_jc, `K/W`")
+	fs.Var(opt[q.Temperature]{&s.TjFixed}, "tj", "pin every junction at this temperature instead of solving it, `DEGC`")
+	fs.Var(qty[q.Ratio]{&s.Derate}, "derate", "fraction of vds_max the drain voltage may reach, `FRACTION` (default 0.8)")
+}
+
+// outputFlags registers the output flags on fs.
+func (in *inputs) registerOutput(fs *flag.FlagSet) {
+	fs.StringVar(&in.format, "format", "table", "output `FORMAT`: table, csv, json or markdown")
+	fs.BoolVar(&in.all, "all", false, "show screened parts in the table too")
+	fs.IntVar(&in.top, "top", 0, "show only the best `N` parts (0: all)")
+}
+
+func checkFormat(f string) error {
+	switch strings.ToLower(f) {
+	case "table", "csv", "json", "markdown":
+		return nil
+	}
+	return fmt.Errorf("--format %q: want table, csv, json or markdown", f)
+}

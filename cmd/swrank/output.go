@@ -1,0 +1,296 @@
+package main
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/olekukonko/tablewriter"
+	"github.com/olekukonko/tablewriter/renderer"
+	"github.com/olekukonko/tablewriter/tw"
+
+	"swrank/devices"
+	q "swrank/devices/quantity"
+	"swrank/rank"
+)
+
+// report is what rank prints.
+type report struct {
+	pt      *rank.Point
+	lib     *devices.Library
+	results []rank.Result
+	all     bool
+	top     int
+}
+
+// shown returns the results the table lists.
+func (r *report) shown() []rank.Result {
+	var out []rank.Result
+	for _, x := range r.results {
+		if x.Screened() && !r.all {
+			continue
+		}
+		out = append(out, x)
+		if r.top > 0 && len(out) == r.top {
+			break
+		}
+	}
+	return out
+}
+
+func render(w io.Writer, format string, r report) error {
+	switch strings.ToLower(format) {
+	case "json":
+		return renderJSON(w, r)
+	case "csv":
+		return renderCSV(w, r)
+	case "markdown":
+		return renderTable(w, r, true)
+	}
+	return renderTable(w, r, false)
+}
+
+// fmtP prints a power with an SI prefix, "–" for exactly zero.
+func fmtP(p q.Power) string {
+	if p == 0 {
+		return "–"
+	}
+	return q.Format(p, 3)
+}
+
+var tableHeader = []string{"#", "part", "conduction", "turn-on", "turn-off", "output cap", "diode", "gate (in FET)", "switch", "driver", "total", "Tj", "% of Pout", "method / flags"}
+
+func tableRow(i int, x *rank.Result, pout q.Power) []string {
+	l := x.Losses
+	name := x.Dev.Part.Name
+	if x.Partner != nil {
+		name += " + " + x.Partner.Part.Name
+	}
+	tj := "–"
+	if t, ok := x.Tj(); ok {
+		tj = q.Format(t, 3)
+	} else {
+		tj = "none"
+	}
+	pct := "–"
+	if pout > 0 {
+		pct = strconv.FormatFloat(100*float64(l.Total())/float64(pout), 'f', 2, 64)
+	}
+	rankNo := strconv.Itoa(i + 1)
+	if x.Screened() {
+		rankNo = "x"
+	}
+	return []string{rankNo, name, fmtP(l.Conduction), fmtP(l.TurnOn), fmtP(l.TurnOff), fmtP(l.Coss),
+		fmtP(l.DeadTime + l.Recovery), fmtP(l.GateRint), fmtP(l.Switch()), fmtP(l.Driver()), fmtP(l.Total()),
+		tj, pct, methods(x) + flagCodes(x.Flags)}
+}
+
+func methods(x *rank.Result) string {
+	m := x.Devices[0].Method.String()
+	if x.N > 1 && x.Devices[1].Dev != x.Devices[0].Dev && x.Devices[1].Method != x.Devices[0].Method {
+		m += "/" + x.Devices[1].Method.String()
+	}
+	return m
+}
+
+func flagCodes(f rank.Flags) string {
+	f &^= rank.FlagQrrInModel
+	if c := f.Codes(); c != "" {
+		return " " + c
+	}
+	return ""
+}
+
+// describePoint prints the operating point as understood.
+func describePoint(w io.Writer, pt *rank.Point, lib *devices.Library) {
+	s := &pt.Stage
+	d := &s.Driver
+	switch s.Topology {
+	case rank.Custom:
+		fmt.Fprintf(w, "custom switch: %s blocked, %s at turn-on, %s at turn-off, %s rms, %s\n",
+			s.Vblock, s.Ion, s.Ioff, s.Irms, s.Fsw)
+	default:
+		second := "synchronous switch"
+		if pt.HasDiode {
+			second = fmt.Sprintf("diode (%s, Qrr %s, Cj %s)", s.Diode.Vf, s.Diode.Qrr, s.Diode.Cj)
+		}
+		fmt.Fprintf(w, "%s %s → %s at %s (%s), %s, with a %s; ranking the %s\n",
+			s.Topology, s.Vin, s.Vout, s.Iout, s.Pout, s.Fsw, second, placeWord(pt))
+		fmt.Fprintf(w, "inductor %s average, %s ripple; control switch: duty %.3f, %s on, %s off, %s rms",
+			pt.IL, pt.Ripple, float64(pt.Ctrl.Duty), pt.Ctrl.IOn, pt.Ctrl.IOff, pt.Ctrl.IRms)
+		if pt.HasSync {
+			fmt.Fprintf(w, "; sync switch %s rms, dead time %s", pt.Sync.IRms, s.DeadTime.V)
+		}
+		fmt.Fprintln(w)
+	}
+	fmt.Fprintf(w, "drive %s / %s, source %s, sink %s, external %s", d.VOn, d.VOff, d.RSource, d.RSink, d.RgExt)
+	if d.IPeakSource > 0 || d.IPeakSink > 0 {
+		fmt.Fprintf(w, ", peak %s / %s", d.IPeakSource, d.IPeakSink)
+	}
+	if d.IQ > 0 {
+		fmt.Fprintf(w, ", quiescent %s", d.IQ)
+	}
+	fmt.Fprintf(w, "; ambient %s", s.Ambient)
+	if s.RthCA.OK {
+		fmt.Fprintf(w, ", case to ambient %s", s.RthCA.V)
+	}
+	if s.TjFixed.OK {
+		fmt.Fprintf(w, ", junctions pinned at %s", s.TjFixed.V)
+	}
+	fmt.Fprintf(w, "; voltage derating %.2f\n", float64(s.Derate))
+	if pt.HasDiode {
+		fmt.Fprintf(w, "the diode itself dissipates %s (not in the totals below: it is the same for every part)\n", pt.DiodeLoss)
+	}
+	for _, n := range pt.Notes {
+		fmt.Fprintf(w, "note: %s\n", n)
+	}
+	if lib != nil {
+		fmt.Fprintf(w, "library %s: %d parts\n", lib.Source, len(lib.Parts))
+	}
+}
+
+func placeWord(pt *rank.Point) string {
+	if !pt.HasSync {
+		return "control switch"
+	}
+	switch pt.Stage.Position {
+	case rank.Control:
+		return "control switch (whole-stage loss)"
+	case rank.Sync:
+		return "sync switch (whole-stage loss)"
+	}
+	return "pair: the part in both places"
+}
+
+func renderTable(w io.Writer, r report, markdown bool) error {
+	if !markdown {
+		describePoint(w, r.pt, r.lib)
+		fmt.Fprintln(w)
+	}
+	opts := []tablewriter.Option{
+		tablewriter.WithHeaderAutoFormat(tw.Off),
+		tablewriter.WithHeader(tableHeader),
+		tablewriter.WithRowAlignmentConfig(tw.CellAlignment{PerColumn: []tw.Align{
+			tw.AlignRight, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight,
+			tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignLeft}}),
+	}
+	if markdown {
+		opts = append(opts, tablewriter.WithRenderer(renderer.NewMarkdown()))
+	}
+	t := tablewriter.NewTable(w, opts...)
+	shown := r.shown()
+	for i := range shown {
+		if err := t.Append(tableRow(i, &shown[i], r.pt.Stage.Pout)); err != nil {
+			return err
+		}
+	}
+	if err := t.Render(); err != nil {
+		return err
+	}
+	var screened []rank.Result
+	for _, x := range r.results {
+		if x.Screened() {
+			screened = append(screened, x)
+		}
+	}
+	if len(screened) > 0 {
+		fmt.Fprintf(w, "\nset aside (%d):\n", len(screened))
+		for _, x := range screened {
+			for _, reason := range x.Reasons() {
+				fmt.Fprintf(w, "- %s\n", reason)
+			}
+		}
+	}
+	if f := flagsUsed(shown); len(f) > 0 && !markdown {
+		fmt.Fprintln(w, "\nflags:")
+		for _, line := range f {
+			fmt.Fprintf(w, "  %s\n", line)
+		}
+	}
+	return nil
+}
+
+// flagsUsed explains each flag code that appears in the shown rows.
+func flagsUsed(rs []rank.Result) []string {
+	var all rank.Flags
+	for _, x := range rs {
+		all |= x.Flags
+	}
+	all &^= rank.FlagQrrInModel
+	var out []string
+	for bit := rank.Flags(1); bit != 0 && all != 0; bit <<= 1 {
+		if all&bit == 0 {
+			continue
+		}
+		all &^= bit
+		out = append(out, fmt.Sprintf("%-10s %s", bit.Codes(), bit.Sentences()[0]))
+	}
+	return out
+}
+
+// safeCell neutralises a CSV cell that a spreadsheet would run as a formula
+// (OWASP guidance on CSV injection: cells starting with = + - @ tab or CR),
+// leaving plain numbers alone.
+func safeCell(s string) string {
+	if s == "" {
+		return s
+	}
+	if _, err := strconv.ParseFloat(s, 64); err == nil {
+		return s
+	}
+	switch s[0] {
+	case '=', '+', '-', '@', '\t', '\r':
+		return "'" + s
+	}
+	return s
+}
+
+func num(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+var csvHeader = []string{"rank", "part", "partner", "position", "total_w", "switch_w", "driver_w", "conduction_w", "turn_on_w",
+	"turn_off_w", "coss_w", "deadtime_w", "recovery_w", "gate_driver_w", "gate_rext_w", "gate_rint_w",
+	"driver_quiescent_w", "tj_degc", "loss_pct", "method", "flags", "screened", "reasons"}
+
+func renderCSV(w io.Writer, r report) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(csvHeader); err != nil {
+		return err
+	}
+	for i, x := range r.shown() {
+		l := x.Losses
+		partner := ""
+		if x.Partner != nil {
+			partner = x.Partner.Part.Name
+		}
+		tj := ""
+		if t, ok := x.Tj(); ok {
+			tj = num(float64(t))
+		}
+		pct := ""
+		if r.pt.Stage.Pout > 0 {
+			pct = num(100 * float64(l.Total()) / float64(r.pt.Stage.Pout))
+		}
+		row := []string{strconv.Itoa(i + 1), x.Dev.Part.Name, partner, x.Position.String(), num(float64(l.Total())),
+			num(float64(l.Switch())), num(float64(l.Driver())), num(float64(l.Conduction)), num(float64(l.TurnOn)),
+			num(float64(l.TurnOff)), num(float64(l.Coss)), num(float64(l.DeadTime)), num(float64(l.Recovery)),
+			num(float64(l.GateDriver)), num(float64(l.GateRext)), num(float64(l.GateRint)), num(float64(l.DriverQuiescent)),
+			tj, pct, methods(&x), strings.TrimSpace(flagCodes(x.Flags)), strconv.FormatBool(x.Screened()),
+			strings.Join(x.Reasons(), "; ")}
+		for j := range row {
+			row[j] = safeCell(row[j])
+		}
+		if err := cw.Write(row); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
