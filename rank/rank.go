@@ -52,13 +52,30 @@ func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
 		close(next)
 		wg.Wait()
 	}
-	slices.SortFunc(out, Compare)
+	return sortResults(out)
+}
+
+// sortResults puts results in rank order, moving each result once (they
+// are large: sorting a permutation is cheaper than sorting them).
+func sortResults(rs []Result) []Result {
+	idx := make([]int32, len(rs))
+	for i := range idx {
+		idx[i] = int32(i)
+	}
+	slices.SortFunc(idx, func(i, j int32) int { return CompareRef(&rs[i], &rs[j]) })
+	out := make([]Result, len(rs))
+	for i, k := range idx {
+		out[i] = rs[k]
+	}
 	return out
 }
 
 // Compare orders results: passing before screened, then by total loss,
 // then by part name.
-func Compare(a, b Result) int {
+func Compare(a, b Result) int { return CompareRef(&a, &b) }
+
+// CompareRef is Compare on pointers.
+func CompareRef(a, b *Result) int {
 	if sa, sb := a.Screened(), b.Screened(); sa != sb {
 		if sa {
 			return 1
