@@ -450,3 +450,191 @@ func (l *TempLaw) curve(t float64) float64 {
 	a, b := p[i-1], p[i]
 	return a[1] + (b[1]-a[1])*(t-a[0])/(b[0]-a[0])
 }
+
+// Second-order effects (docs/second-order.md): parasitic inductance, the
+// dv/dt-induced gate bounce of the off switch, and temperature laws beyond
+// the on-resistance.
+
+// CurrentTransitionTime is the length of the current-rise interval of a
+// hard turn-on, or of the current-fall interval of a hard turn-off, with
+// common-source inductance lcs in the gate loop. While the drain current
+// moves by i at di/dt = i/t, the source inductance takes lcs·di/dt out of the
+// gate loop, so the gate current is (head − lcs·i/t)/r, where head is the
+// drive headroom at the mean gate voltage of the interval (Vdrv − (Vth+Vpl)/2
+// at turn-on, (Vth+Vpl)/2 − Voff at turn-off). Setting t = qgs2/i_gate and
+// solving for t gives the closed form
+//
+//	t = (r·qgs2 + lcs·i)/head,
+//
+// at least qgs2/iPeak when the driver's current limit iPeak > 0 binds. With
+// lcs = 0 it is the current interval of GateChargeTransitions (mean gate
+// voltage). The same form follows from the exact first-order gate loop with
+// a linear transconductance, whose time constant grows from r·Cgs to
+// r·Cgs + lcs·gfs. A headroom ≤ 0 gives +Inf (the edge never completes).
+//
+// Source: gate-loop voltage law of the gate-charge method (Balogh 2001;
+// Graovac, Pürschel, Kiep 2006) with the source-inductance feedback of Ren,
+// Xu, Zhou, Lee, "Analytical loss model of power MOSFET", IEEE TPEL 2006
+// (from memory); the closed form is derived in docs/second-order.md.
+func CurrentTransitionTime(qgs2 q.Charge, head q.Voltage, r q.Resistance, iPeak q.Current, lcs q.Inductance, i q.Current) q.Time {
+	if head <= 0 {
+		return q.Time(math.Inf(1))
+	}
+	t := (float64(r)*float64(qgs2) + float64(lcs)*float64(max(i, 0))) / float64(head)
+	if iPeak > 0 {
+		t = max(t, float64(qgs2)/float64(iPeak))
+	}
+	return q.Time(t)
+}
+
+// CurrentRiseEnergy is the V·I overlap energy of the current-rise interval
+// of a hard turn-on with power-loop inductance l: while the current rises
+// linearly to i in t, the loop inductance takes l·i/t of the supply voltage,
+// so the switch sees v − l·i/t and ∫v·i dt = ½·i·t·max(0, v − l·i/t). The
+// energy not dissipated, up to ½·l·i², is what the loop inductance stores.
+// With l = 0 it is ½·v·i·t (OverlapEnergy).
+//
+// Source: Erickson & Maksimović 2001, ch. 4 (clamped inductive switching);
+// the loop-inductance term as in Ren et al., IEEE TPEL 2006 (from memory),
+// integrated here over the linear ramp.
+func CurrentRiseEnergy(v q.Voltage, i q.Current, t q.Time, l q.Inductance) q.Energy {
+	if t <= 0 || i <= 0 {
+		return 0
+	}
+	vs := float64(v) - float64(l)*float64(i)/float64(t)
+	return q.Energy(0.5 * float64(i) * float64(t) * max(vs, 0))
+}
+
+// CurrentFallEnergy is the V·I overlap energy of the current-fall interval
+// of a hard turn-off with power-loop inductance l: while the current falls
+// linearly from i in t, the loop inductance adds l·i/t to the supply, so the
+// switch sees v + l·i/t and ∫v·i dt = ½·v·i·t + ½·l·i²: the switch absorbs
+// all the energy the loop stored. Valid while v + l·i/t stays below the
+// breakdown voltage (the voltage screen checks LoopOvershoot).
+//
+// Source: as CurrentRiseEnergy.
+func CurrentFallEnergy(v q.Voltage, i q.Current, t q.Time, l q.Inductance) q.Energy {
+	if i <= 0 {
+		return 0
+	}
+	return q.Energy(0.5*float64(v)*float64(i)*float64(max(t, 0)) + 0.5*float64(l)*float64(i)*float64(i))
+}
+
+// LoopOvershoot is the peak voltage across a switch whose current is
+// interrupted linearly from i in t through loop inductance l: v + l·i/t.
+//
+// Source: Faraday's law on the commutation loop (Erickson & Maksimović
+// 2001, ch. 4; Ren et al., IEEE TPEL 2006, from memory).
+func LoopOvershoot(v q.Voltage, l q.Inductance, i q.Current, t q.Time) q.Voltage {
+	if l <= 0 || i <= 0 {
+		return v
+	}
+	if t <= 0 {
+		return q.Voltage(math.Inf(1))
+	}
+	return v + q.Voltage(float64(l)*float64(i)/float64(t))
+}
+
+// GateBounce is the gate-voltage excursion of an off switch whose drain
+// moves by v in time t (a linear ramp, dv/dt = v/t) while its gate is held
+// through the off-state loop resistance r: the Miller current cgd·dv/dt
+// charges Cgs + Cgd through r, giving
+//
+//	ΔV = cgd·(v/t)·r·(1 − exp(−t/(r·(cgs + cgd)))).
+//
+// For a stiff loop (t ≫ r·Ciss) this is the Miller-current drop cgd·dv/dt·r;
+// for an open loop (r → ∞) the capacitive divider v·cgd/(cgs + cgd). Use a
+// charge-equivalent cgd over the swing (Qgd(v)/v) for a nonlinear part.
+//
+// Source: Balogh 2001 (dv/dt-induced turn-on: the Miller current through
+// the gate resistance, and the Crss/Ciss divider); Lidow et al., GaN
+// Transistors for Efficient Power Conversion (dv/dt immunity, the same
+// Miller ratio; from memory). The combined form is the exact response of the
+// linear gate RC to the ramp, derived in docs/second-order.md.
+func GateBounce(cgd, cgs q.Capacitance, v q.Voltage, t q.Time, r q.Resistance) q.Voltage {
+	ciss := float64(cgd + cgs)
+	if cgd <= 0 || v <= 0 || ciss <= 0 {
+		return 0
+	}
+	if t <= 0 {
+		return q.Voltage(float64(v) * float64(cgd) / ciss)
+	}
+	if r <= 0 {
+		return 0
+	}
+	tau := float64(r) * ciss
+	return q.Voltage(float64(cgd) * float64(v) / float64(t) * float64(r) * -math.Expm1(-float64(t)/tau))
+}
+
+// ThresholdAt moves a 25 °C threshold (or any gate voltage that tracks it,
+// such as the plateau) to junction temperature t with a linear coefficient
+// tc in V/K: vth + tc·(t − 25 °C), never below a tenth of vth.
+//
+// Source: common practice (datasheet normalised-threshold curves: silicon
+// about −5 mV/K, silicon carbide similar, GaN HEMTs much flatter; from
+// memory).
+func ThresholdAt(vth q.Voltage, tc float64, t q.Temperature) q.Voltage {
+	return max(vth+q.Voltage(tc*float64(t-25)), vth/10)
+}
+
+// DiodeDropAt moves a 25 °C diode forward drop to junction temperature t
+// with a linear coefficient tc in V/K, never below zero.
+//
+// Source: common practice (about −2 mV/K for a silicon p-n junction at
+// constant current; Sze & Ng 2007, ch. 2, give the origin in the
+// temperature dependence of the intrinsic density).
+func DiodeDropAt(vsd q.Voltage, tc float64, t q.Temperature) q.Voltage {
+	return max(vsd+q.Voltage(tc*float64(t-25)), 0)
+}
+
+// QrrLaw is the recovered charge of a body diode against junction
+// temperature, linear through the datasheet point: Q(T) = Q0 + Slope·(T − T0),
+// never below zero.
+type QrrLaw struct {
+	Q0    q.Charge      // recovered charge at T0, C; ≥ 0
+	T0    q.Temperature // temperature of Q0, °C
+	Slope float64       // C/K
+}
+
+// At returns Q(T).
+func (l QrrLaw) At(t q.Temperature) q.Charge {
+	return max(l.Q0+q.Charge(l.Slope*float64(t-l.T0)), 0)
+}
+
+// QrrRisePerK is the default relative rise of the recovered charge with
+// temperature: twice the 25 °C value at 125 °C, i.e. +1 % of Q(25 °C) per
+// kelvin (common practice for silicon body diodes, from memory).
+const QrrRisePerK = 0.01
+
+// FitQrrLaw returns the law through (q0 at t0) and, when hot is true,
+// (q1 at t1, t1 ≠ t0); otherwise the default rise QrrRisePerK relative to the
+// 25 °C value implied by q0 at t0.
+//
+// Source: two datasheet points when given; else common practice (about 2×
+// from 25 to 125 °C).
+func FitQrrLaw(q0 q.Charge, t0 q.Temperature, q1 q.Charge, t1 q.Temperature, hot bool) QrrLaw {
+	if hot && t1 != t0 {
+		return QrrLaw{Q0: q0, T0: t0, Slope: float64(q1-q0) / float64(t1-t0)}
+	}
+	q25 := float64(q0) / (1 + QrrRisePerK*float64(t0-25))
+	return QrrLaw{Q0: q0, T0: t0, Slope: q25 * QrrRisePerK}
+}
+
+// DynamicRdsFactor is the dynamic on-resistance multiplier at off-state
+// voltage v for a part measured at k·R(on) after blocking vTest: linear in
+// the blocked voltage from 1 at 0 V to k at vTest, continued linearly above
+// vTest. vTest ≤ 0 means the test voltage is unknown: k is used as given.
+//
+// Source: common practice for GaN HEMTs (trapping grows with the blocked
+// voltage; datasheets that state a dynamic factor give it at one voltage;
+// from memory, cf. Lidow et al.). The linear law is our assumption; it is
+// conservative above vTest only if the trapping keeps growing.
+func DynamicRdsFactor(k q.Ratio, vTest, v q.Voltage) float64 {
+	if k <= 1 {
+		return 1
+	}
+	if vTest <= 0 {
+		return float64(k)
+	}
+	return 1 + (float64(k)-1)*max(float64(v), 0)/float64(vTest)
+}

@@ -33,14 +33,31 @@ func (s ThermalStatus) String() string {
 }
 
 // ThermalModel is the loss of a device as a function of its junction
-// temperature, split as P(T) = Pfixed + Pcond·f(T), where f(T) is the
-// on-resistance temperature factor relative to the reference temperature.
+// temperature, P(T) = Fixed + Cond·f(T) + Other(T), where f(T) is the
+// on-resistance temperature factor relative to the reference temperature
+// and Other is the rest of the temperature-dependent loss (switching edges,
+// dead-time conduction, gate), so that the thermal loop iterates the whole
+// device loss and not only conduction.
 type ThermalModel struct {
-	Fixed q.Power // loss independent of temperature, W
-	// Cond is the conduction loss at the reference temperature Tref, W.
+	Fixed q.Power // loss independent of temperature, W; ≥ 0
+	// Cond is the conduction loss at the reference temperature Tref, W; ≥ 0.
 	Cond q.Power
 	// Law gives R(T)/R(Tref).
 	Law TempLaw
+	// Other, when non-nil, returns the remaining temperature-dependent loss
+	// at T, W; it must be ≥ 0 and finite for every T it is given. It must
+	// not retain its argument (Evaluate passes a closure over stack values,
+	// which keeps evaluation free of allocations).
+	Other func(q.Temperature) q.Power
+}
+
+// At returns P(T).
+func (m *ThermalModel) At(t q.Temperature) float64 {
+	p := float64(m.Fixed) + float64(m.Cond)*m.Law.Factor(t)
+	if m.Other != nil {
+		p += float64(m.Other(t))
+	}
+	return p
 }
 
 // ThermalSolution is the outcome of SolveJunction.
@@ -69,7 +86,7 @@ const (
 // condition of the electro-thermal loop is standard fixed-point theory
 // (a contraction when |g| < 1).
 func SolveJunction(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) ThermalSolution {
-	p := func(t q.Temperature) float64 { return float64(m.Fixed) + float64(m.Cond)*m.Law.Factor(t) }
+	p := m.At
 	g := func(t q.Temperature) float64 { return float64(t) - float64(ta) - float64(rth)*p(t) }
 	gain := func(t q.Temperature) float64 {
 		h := 1e-3
