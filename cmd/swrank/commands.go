@@ -1,6 +1,8 @@
 package main
 
 import (
+	"bufio"
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -91,12 +93,66 @@ func runRank(args []string, stdout, stderr io.Writer) error {
 	if fs.NArg() > 0 {
 		return fmt.Errorf("unexpected arguments %q (flags come as --name value)", fs.Args())
 	}
-	pt, devs, partner, lib, err := prepare(&in, stderr)
+	if in.partner != "" {
+		pt, devs, partner, lib, err := prepare(&in, stderr)
+		if err != nil {
+			return err
+		}
+		res := rank.Rank(pt, devs, partner, rank.Options{})
+		return render(stdout, in.format, report{pt: pt, source: lib.Source, parts: len(lib.Parts), results: res, all: in.all, top: in.top})
+	}
+	rep, err := rankStream(&in, stderr)
 	if err != nil {
 		return err
 	}
-	res := rank.Rank(pt, devs, partner, rank.Options{})
-	return render(stdout, in.format, report{pt: pt, lib: lib, results: res, all: in.all, top: in.top})
+	return render(stdout, in.format, rep)
+}
+
+// rankStream ranks a library without holding it: each part is read,
+// prepared, evaluated and offered to a rank.Best that keeps the leaders.
+func rankStream(in *inputs, stderr io.Writer) (report, error) {
+	if err := checkFormat(in.format); err != nil {
+		return report{}, err
+	}
+	pt, err := in.stage.Resolve()
+	if err != nil {
+		return report{}, fmt.Errorf("operating point: %w", err)
+	}
+	var r io.Reader
+	name := in.parts
+	switch {
+	case in.demo && in.parts != "":
+		return report{}, errors.New("give --parts or --demo, not both")
+	case in.demo:
+		r, name = bytes.NewReader(devices.DemoCSV()), "demo"
+	case in.parts != "":
+		f, err := os.Open(in.parts)
+		if err != nil {
+			return report{}, err
+		}
+		defer f.Close()
+		r = bufio.NewReaderSize(f, 1<<16)
+	default:
+		return report{}, errors.New("no parts library: give --parts FILE.csv or --demo")
+	}
+	best := rank.Best{N: in.top}
+	hdr, probs := devices.Scan(r, name, func(p *devices.Part) error {
+		d, err := rank.Prepare(p)
+		if err != nil {
+			return err
+		}
+		res := rank.Evaluate(&pt, &d, nil, nil)
+		best.Offer(&res)
+		return nil
+	})
+	if probs.Fatal() {
+		return report{}, probs.Fatals()
+	}
+	for _, w := range probs.Warnings() {
+		fmt.Fprintf(stderr, "swrank: %v\n", w)
+	}
+	return report{pt: &pt, source: hdr.Source, parts: best.Passed + best.Screened, results: best.Results(),
+		screened: best.Screened, all: in.all, top: in.top}, nil
 }
 
 func runExplain(args []string, stdout, stderr io.Writer) error {

@@ -203,9 +203,7 @@ func resultJSON(i int, x *rank.Result, pout q.Power) jsonResult {
 
 func renderJSON(w io.Writer, r report) error {
 	out := jsonReport{OperatingPoint: pointJSON(r.pt), Results: []jsonResult{}}
-	if r.lib != nil {
-		out.OperatingPoint.Library, out.OperatingPoint.LibraryParts = r.lib.Source, len(r.lib.Parts)
-	}
+	out.OperatingPoint.Library, out.OperatingPoint.LibraryParts = r.source, r.parts
 	for i, x := range r.shown() {
 		out.Results = append(out.Results, resultJSON(i, &x, r.pt.Stage.Pout))
 	}
@@ -249,7 +247,7 @@ func renderExplain(w io.Writer, format string, pt *rank.Point, r *rank.Result, t
 		}
 		return writeJSON(w, out)
 	}
-	describePoint(w, pt, nil)
+	describePoint(w, pt, "", 0)
 	name := r.Dev.Part.Name
 	if r.Partner != nil {
 		name += " with " + r.Partner.Part.Name

@@ -53,13 +53,13 @@ func TestHelp(t *testing.T) {
 
 // Hand case A of the team notes through the command line's custom stage:
 // 12 V, 10 A at both edges, 500 kHz, 5 V drive, Rsrc 2 Ω, Rsnk 1 Ω, junction
-// pinned at 100 °C: overlap 0.1795 W by the gate-charge method (refined
+// pinned at 25 °C (where its threshold is the datasheet value): overlap 0.1795 W by the gate-charge method (refined
 // variant; Erickson & Maksimović ch. 4, Balogh 2001), conduction
 // 10 A²·0.1·5 mΩ = 0.0500 W, gate energy Qg·V·f = 20.00 mW.
 func TestRankCustomHandCaseJSON(t *testing.T) {
 	code, out, errOut := runCLI(t, "rank", "--parts", "../../testdata/cli/hand_a.csv", "--topology", "custom",
 		"--vblock", "12", "--ion", "10", "--ioff", "10", "--irms", "3.16227766", "--fsw", "500k",
-		"--vdrive", "5", "--rsrc", "2", "--rsnk", "1", "--tj", "100", "--format", "json")
+		"--vdrive", "5", "--rsrc", "2", "--rsnk", "1", "--tj", "25", "--format", "json")
 	if code != 0 {
 		t.Fatalf("code %d: %s", code, errOut)
 	}
@@ -82,7 +82,7 @@ func TestRankCustomHandCaseJSON(t *testing.T) {
 	sum := r.ConductionW + r.TurnOnW + r.TurnOffW + r.CossW + r.DeadtimeW + r.RecoveryW + r.GateRintW
 	check("switch = Σ", r.SwitchW, sum, 1e-12)
 	check("total", r.TotalW, r.SwitchW+r.DriverW, 1e-12)
-	if r.TjDegC == nil || *r.TjDegC != 100 || rep.OperatingPoint.TjFixedDegC == nil {
+	if r.TjDegC == nil || *r.TjDegC != 25 || rep.OperatingPoint.TjFixedDegC == nil {
 		t.Errorf("tj: %v", r.TjDegC)
 	}
 	if rep.OperatingPoint.Topology != "custom" || rep.OperatingPoint.FswHz != 500e3 || rep.OperatingPoint.RsrcOhm != 2 {

@@ -12,18 +12,19 @@ import (
 	"github.com/olekukonko/tablewriter/renderer"
 	"github.com/olekukonko/tablewriter/tw"
 
-	"swrank/devices"
 	q "swrank/devices/quantity"
 	"swrank/rank"
 )
 
 // report is what rank prints.
 type report struct {
-	pt      *rank.Point
-	lib     *devices.Library
-	results []rank.Result
-	all     bool
-	top     int
+	pt       *rank.Point
+	source   string        // the library's name
+	parts    int           // parts in the library
+	results  []rank.Result // in rank order (all of them, or the leaders kept)
+	screened int           // screened parts in the library (0: count the results)
+	all      bool
+	top      int
 }
 
 // shown returns the results the table lists.
@@ -105,7 +106,7 @@ func flagCodes(f rank.Flags) string {
 }
 
 // describePoint prints the operating point as understood.
-func describePoint(w io.Writer, pt *rank.Point, lib *devices.Library) {
+func describePoint(w io.Writer, pt *rank.Point, source string, parts int) {
 	s := &pt.Stage
 	d := &s.Driver
 	switch s.Topology {
@@ -147,8 +148,8 @@ func describePoint(w io.Writer, pt *rank.Point, lib *devices.Library) {
 	for _, n := range pt.Notes {
 		fmt.Fprintf(w, "note: %s\n", n)
 	}
-	if lib != nil {
-		fmt.Fprintf(w, "library %s: %d parts\n", lib.Source, len(lib.Parts))
+	if source != "" {
+		fmt.Fprintf(w, "library %s: %d parts\n", source, parts)
 	}
 }
 
@@ -167,7 +168,7 @@ func placeWord(pt *rank.Point) string {
 
 func renderTable(w io.Writer, r report, markdown bool) error {
 	if !markdown {
-		describePoint(w, r.pt, r.lib)
+		describePoint(w, r.pt, r.source, r.parts)
 		fmt.Fprintln(w)
 	}
 	opts := []tablewriter.Option{
@@ -197,11 +198,15 @@ func renderTable(w io.Writer, r report, markdown bool) error {
 		}
 	}
 	if len(screened) > 0 {
-		fmt.Fprintf(w, "\nset aside (%d):\n", len(screened))
+		n := max(r.screened, len(screened))
+		fmt.Fprintf(w, "\nset aside (%d):\n", n)
 		for _, x := range screened {
 			for _, reason := range x.Reasons() {
 				fmt.Fprintf(w, "- %s\n", reason)
 			}
+		}
+		if n > len(screened) {
+			fmt.Fprintf(w, "… and %d more (the lowest-loss %d shown)\n", n-len(screened), len(screened))
 		}
 	}
 	if f := flagsUsed(shown); len(f) > 0 && !markdown {
