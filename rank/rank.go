@@ -104,7 +104,13 @@ func (r *Result) Reasons() []string {
 		}
 		add := func(format string, a ...any) { out = append(out, who+": "+fmt.Sprintf(format, a...)) }
 		if s&ScreenVoltage != 0 {
-			add("drain voltage %s exceeds %.0f %% of vds_max %s", d.Stress.V, 100*float64(r.Derate), p.VdsMax)
+			v := max(d.Vpeak, d.Stress.V)
+			if v > d.Stress.V {
+				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %.0f %% of vds_max %s",
+					v, d.Stress.V, 100*float64(r.Derate), p.VdsMax)
+			} else {
+				add("drain voltage %s exceeds %.0f %% of vds_max %s", v, 100*float64(r.Derate), p.VdsMax)
+			}
 		}
 		if s&ScreenPeakCurrent != 0 {
 			add("peak current %s exceeds id_pulse %s", d.Stress.IPeak, p.IdPulse.V)
@@ -130,6 +136,11 @@ func (r *Result) Reasons() []string {
 			} else {
 				add("no steady junction temperature below %s", d.Dev.TjMax)
 			}
+		}
+		if s&ScreenFalseTurnOn != 0 {
+			f := &d.FalseOn
+			add("false turn-on: the off gate rises %s by dv/dt bounce and comes within %s of its hot threshold %s (margin ≤ 0)",
+				f.Bounce, f.Margin, f.Vth)
 		}
 		if s&ScreenRunaway != 0 {
 			add("thermal runaway: the loss rises faster with temperature than the heat path removes it (no steady temperature up to %s)", d.Dev.TjMax+500)
