@@ -26,6 +26,19 @@ const (
 	// memory); GaN reverse conduction is Vth + |Voff| + I·R (team notes).
 	vsdSi  q.Voltage = 0.8
 	vsdSiC q.Voltage = 3.5
+	// Threshold (and plateau) temperature coefficients, V/K, for a
+	// threshold stated at 25 °C: silicon about −5 mV/K, silicon carbide
+	// about −5 mV/K, GaN HEMTs much flatter, about −1 mV/K (common practice,
+	// from memory; low confidence for GaN, whose parts differ).
+	vthTCSi  = -5e-3
+	vthTCSiC = -5e-3
+	vthTCGaN = -1e-3
+	// Forward-drop coefficient of a p-n body diode (silicon and SiC), V/K,
+	// for a vsd taken at 25 °C (common practice; SiC from memory).
+	vsdTC = -2e-3
+	// SiC parts are specified and usually driven at 15-20 V on (common
+	// practice, from memory).
+	sicDriveMin q.Voltage = 15
 )
 
 // Method is how the hard-switching overlap of a device was computed.
@@ -72,6 +85,28 @@ type Device struct {
 	TswR    q.Resistance // test gate loop: tsw_rg + tsw_rgen + rg_int
 	TswHead [2]q.Voltage // test headroom at turn-on (Vgs − Vpl) and turn-off (Vpl)
 	TswOK   bool         // the test conditions were given
+
+	// Temperature laws beyond the on-resistance (docs/second-order.md).
+	VthTC float64 // threshold and plateau coefficient, V/K (technology default)
+	VsdTC float64 // body-diode drop coefficient, V/K (0 for GaN: its drop follows Vth and R)
+	Qrr   QrrLaw  // own recovered charge against temperature (Q0 = 0: none)
+	// QrrHot is true when the recovery law comes from the part's own hot point.
+	QrrHot bool
+
+	// Dynamic on-resistance: factor DynK (≥ 1; 0 when not given) after
+	// blocking DynV (0: voltage unknown).
+	DynK q.Ratio
+	DynV q.Voltage
+
+	// Package parasitics, H (0 when not given).
+	Lcs   q.Inductance // common-source inductance
+	Lloop q.Inductance // package share of the power loop
+
+	// Gate capacitances for the false-turn-on screen.
+	Cgs    q.Capacitance // gate-source, F (0: unknown)
+	Crss   q.Capacitance // small-signal Crss at CrssV, F (0: not given)
+	CrssV  q.Voltage     // voltage of Crss, V
+	CgsEst bool          // Cgs estimated from the gate charge to the plateau
 
 	Flags Flags // fallbacks that belong to the part, whatever the operating point
 }
@@ -194,7 +229,103 @@ func Prepare(p *devices.Part) (Device, error) {
 	} else {
 		return Device{}, fmt.Errorf("part %s: needs qgs, qgd and v_plateau, or tr and tf", p.Name)
 	}
+	if err := d.prepareSecondOrder(); err != nil {
+		return Device{}, err
+	}
 	return d, nil
+}
+
+// prepareSecondOrder fills the laws of docs/second-order.md: temperature
+// coefficients, the recovery law, dynamic on-resistance, package parasitics
+// and the gate capacitances of the false-turn-on screen.
+func (d *Device) prepareSecondOrder() error {
+	p := d.Part
+	bad := func(field, format string, a ...any) error {
+		return fmt.Errorf("part %s: %s: %s", p.Name, field, fmt.Sprintf(format, a...))
+	}
+	switch p.Technology {
+	case devices.GaN:
+		d.VthTC = vthTCGaN
+	case devices.SiC:
+		d.VthTC, d.VsdTC = vthTCSiC, vsdTC
+	default:
+		d.VthTC, d.VsdTC = vthTCSi, vsdTC
+	}
+
+	// Recovery (GaN has none).
+	if p.Technology != devices.GaN && p.Qrr.OK {
+		if p.Qrr.V < 0 {
+			return bad("qrr", "must be ≥ 0 C (got %s)", p.Qrr.V)
+		}
+		t0 := p.QrrTj.Or(25)
+		hot := p.QrrHot.OK && p.QrrHotTj.OK
+		if hot && (p.QrrHot.V < 0 || p.QrrHotTj.V == t0) {
+			return bad("qrr_hot", "needs a charge ≥ 0 at a qrr_hot_tj other than qrr_tj (%s)", t0)
+		}
+		d.Qrr, d.QrrHot = FitQrrLaw(p.Qrr.V, t0, p.QrrHot.V, p.QrrHotTj.V, hot), hot
+	}
+
+	// Dynamic on-resistance.
+	if p.RdsDyn.OK {
+		if !(p.RdsDyn.V >= 1) || math.IsInf(float64(p.RdsDyn.V), 0) {
+			return bad("rds_dyn", "factor must be ≥ 1 (got %g)", float64(p.RdsDyn.V))
+		}
+		d.DynK = p.RdsDyn.V
+		if p.RdsDynVds.OK {
+			if !(p.RdsDynVds.V > 0) {
+				return bad("rds_dyn_vds", "must be > 0 V (got %s)", p.RdsDynVds.V)
+			}
+			d.DynV = p.RdsDynVds.V
+		}
+	}
+
+	// Package parasitics.
+	if p.Lcs.OK {
+		if !(p.Lcs.V >= 0) {
+			return bad("l_cs", "must be ≥ 0 H (got %s)", p.Lcs.V)
+		}
+		d.Lcs = p.Lcs.V
+	}
+	if p.Lloop.OK {
+		if !(p.Lloop.V >= 0) {
+			return bad("l_loop", "must be ≥ 0 H (got %s)", p.Lloop.V)
+		}
+		d.Lloop = p.Lloop.V
+	}
+
+	// Gate capacitances: Cgs = Ciss − Crss at cap_vds (Cgs hardly depends
+	// on the drain voltage); else the charge to the plateau over the
+	// plateau voltage.
+	if p.Crss.OK && p.CapVds.OK && p.Crss.V > 0 && p.CapVds.V > 0 {
+		d.Crss, d.CrssV = p.Crss.V, p.CapVds.V
+	}
+	switch {
+	case p.Ciss.OK && p.Crss.OK && p.Ciss.V > p.Crss.V:
+		d.Cgs = p.Ciss.V - p.Crss.V
+	case d.Method == MethodGateCharge:
+		d.Cgs, d.CgsEst = q.Capacitance(float64(d.Qth+d.Qgs2)/float64(d.VplSpec)), true
+	}
+	return nil
+}
+
+// ThresholdAt is the threshold at junction temperature tj.
+func (d *Device) ThresholdAt(tj q.Temperature) q.Voltage { return ThresholdAt(d.Vth, d.VthTC, tj) }
+
+// CgdAt is the charge-equivalent gate-drain capacitance over a swing from 0
+// to v, Qgd(v)/v: from the Miller charge when it is known, else from Crss at
+// its voltage with the √ law (charge 2·Crss·√(V0·v)). 0 when neither is
+// given.
+func (d *Device) CgdAt(v q.Voltage) q.Capacitance {
+	if v <= 0 {
+		return 0
+	}
+	if d.Qgd > 0 {
+		return q.Capacitance(float64(MillerChargeAt(d.Qgd, d.QgVds, v)) / float64(v))
+	}
+	if d.Crss > 0 {
+		return q.Capacitance(2 * float64(d.Crss) * math.Sqrt(float64(d.CrssV/v)))
+	}
+	return 0
 }
 
 // parseCurve reads "T:factor T:factor ..." (spaces, commas or semicolons
@@ -230,16 +361,23 @@ func (d *Device) Rds(vgs q.Voltage, tj q.Temperature) q.Resistance {
 }
 
 // curve returns the gate-charge curve at drain voltage vds and the plateau
-// at drain current i. The Qgs2 segment grows with the plateau (it charges
-// Cgs from threshold to plateau).
-func (d *Device) curve(vds q.Voltage, i q.Current) GateCurve {
-	vpl := PlateauAt(d.Vth, d.VplSpec, d.QgId, i)
-	if vpl <= d.Vth {
-		vpl = d.Vth + 1e-3
+// at drain current i, with threshold and plateau shifted by dvth (their
+// temperature shift). The Qgs2 segment grows with the plateau (it charges
+// Cgs from threshold to plateau); the charge to the threshold follows the
+// threshold (a constant Cgs).
+func (d *Device) curve(vds q.Voltage, i q.Current, dvth q.Voltage) GateCurve {
+	vth := d.Vth + dvth
+	vpl := PlateauAt(vth, d.VplSpec+dvth, d.QgId, i)
+	if vpl <= vth {
+		vpl = vth + 1e-3
 	}
-	qgs2 := d.Qgs2 * q.Charge((vpl-d.Vth)/(d.VplSpec-d.Vth))
+	qgs2 := d.Qgs2 * q.Charge((vpl-vth)/(d.VplSpec-d.Vth))
+	qth := d.Qth
+	if d.Vth > 0 {
+		qth *= q.Charge(vth / d.Vth)
+	}
 	return GateCurve{
-		Qth: d.Qth, Qgs2: qgs2, Qgd: MillerChargeAt(d.Qgd, d.QgVds, vds),
-		Vth: d.Vth, Vpl: vpl, Slope: d.Slope,
+		Qth: qth, Qgs2: qgs2, Qgd: MillerChargeAt(d.Qgd, d.QgVds, vds),
+		Vth: vth, Vpl: vpl, Slope: d.Slope,
 	}
 }

@@ -30,20 +30,82 @@ type DeviceResult struct {
 	Losses  Losses
 	Thermal ThermalSolution
 	Rth     q.ThermalResistance // junction to ambient used, K/W (0: none)
-	Rds     q.Resistance        // on-resistance at the drive and the solved Tj
+	Rds     q.Resistance        // on-resistance at the drive and the solved Tj (dynamic factor included)
 	Method  Method
 	Flags   Flags
 	Screens Screens
 	Stress  SwitchStress
 
-	VplOn, VplOff q.Voltage   // plateau at the turn-on and turn-off currents
-	Trans         Transitions // hard-edge intervals
-	Eon, Eoff     q.Energy    // overlap energies per cycle
+	VplOn, VplOff q.Voltage   // plateau at the turn-on and turn-off currents, at Tj
+	Trans         Transitions // hard-edge intervals at Tj (common-source inductance included)
+	Eon, Eoff     q.Energy    // overlap energies per cycle (loop and common-source inductance included)
 	Ecoss, Erec   q.Energy    // output-capacitance and recovery energies per cycle
 	Edead         q.Energy    // dead-time conduction energy per cycle
 	Egate         q.Energy    // gate-drive energy per cycle
 	Qg            q.Charge    // gate charge moved per cycle (on minus off level)
 	IdLimit       q.Current   // continuous rating derated to the case temperature
+
+	// Second-order results (docs/second-order.md).
+
+	// Vth is the threshold at the solved junction temperature, V.
+	Vth q.Voltage
+	// Vsd1, Vsd2 are the reverse-conduction drops in the dead times before
+	// and after this switch's conduction, at Tj, V (sync only).
+	Vsd1, Vsd2 q.Voltage
+	// Qrr is the partner's recovered charge counted at this switch's hard
+	// turn-on, at the partner's junction temperature, C.
+	Qrr q.Charge
+	// Lcs is the common-source inductance used in the gate loop, H (0: none,
+	// or not used by the tr/tf method).
+	Lcs q.Inductance
+	// ElcsOn, ElcsOff are the energies per cycle the common-source
+	// inductance adds at turn-on and turn-off, J (≥ 0).
+	ElcsOn, ElcsOff q.Energy
+	// Lloop is the power-loop inductance of the cell (layout plus the
+	// packages' l_loop), H, when it was used.
+	Lloop q.Inductance
+	// Eloop is the net energy per cycle the loop inductance adds to this
+	// switch: ½·L·I_off² at turn-off less the turn-on saving, J (may be < 0).
+	Eloop q.Energy
+	// Vpeak is the highest drain voltage: the blocked voltage plus the
+	// loop overshoot, V. It is what the voltage screen compares.
+	Vpeak q.Voltage
+	// RdsDyn is the dynamic on-resistance factor applied, ≥ 1 (1: none).
+	RdsDyn float64
+	// FalseOn is the off-state gate margin (false turn-on screen).
+	FalseOn FalseTurnOn
+}
+
+// FalseTurnOn is the off-state gate check of one switch: how close the gate
+// comes to its hot threshold while the other switch of the cell moves the
+// node. Every evaluated device has Vth and Margin (the static margin of the
+// off level when nothing moves its drain); the dv/dt fields are filled for
+// the synchronous switch, whose drain the control switch hard-switches.
+type FalseTurnOn struct {
+	// DvDtOn is the mean slope of this switch's drain voltage during the
+	// other switch's hard turn-on, V/s (positive; 0: no exposure).
+	DvDtOn float64
+	// DvDtOff is the mean slope at the other switch's hard turn-off, V/s
+	// (the drain falls: it pulls the gate negative; 0: no exposure).
+	DvDtOff float64
+	// Cgd is the charge-equivalent gate-drain capacitance over the swing,
+	// Cgs the gate-source capacitance, F.
+	Cgd, Cgs q.Capacitance
+	// R is the off-state gate loop: driver sink + external + internal, Ω.
+	R q.Resistance
+	// Bounce is the positive gate excursion above the off level, V.
+	Bounce q.Voltage
+	// Vth is the threshold at the solved junction temperature, V.
+	Vth q.Voltage
+	// Margin is Vth − (Voff + Bounce), V: ≤ 0 sets ScreenFalseTurnOn.
+	Margin q.Voltage
+	// Spike is the negative gate excursion below the off level at the
+	// other edge, V (≥ 0).
+	Spike q.Voltage
+	// SpikeMargin is (Voff − Spike) − vgs_min, V: < 0 sets FlagGateSpike.
+	SpikeMargin q.Voltage
+	// Checked is true when the dv/dt bounce was computed.
+	Checked bool
 }
 
 // Result is the evaluation of one part at one operating point.
@@ -83,6 +145,17 @@ func (r *Result) Tj() (q.Temperature, bool) {
 // Evaluate computes the losses of part dev at operating point pt. In a
 // synchronous cell, partner (when non-nil) fills the place dev does not;
 // otherwise dev fills both. Evaluate allocates nothing when tr is nil.
+//
+// Each device's junction temperature is solved with its whole loss
+// (conduction, edges, dead time, gate) depending on temperature. The two
+// devices of a synchronous cell couple one way in this model: the
+// synchronous switch's recovered charge, which rises with its temperature,
+// is dissipated in the control switch, while nothing of the control switch
+// depends on the synchronous switch's temperature. So the synchronous switch
+// is solved first, then the control switch with the recovered charge at the
+// synchronous switch's junction temperature, then the synchronous switch's
+// off-state checks, which need the control switch's edges at its own
+// temperature (docs/second-order.md).
 func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 	r := Result{Dev: dev, Position: pt.Stage.Position, Derate: pt.Stage.Derate}
 	if !pt.HasSync {
@@ -104,9 +177,10 @@ func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 		}
 		r.N = 2
 		evalDevice(&r.Devices[1], pt, sync, RoleSync, &pt.Sync, nil, tr)
-		k := devicePartner(sync, pt.Ctrl.V, pt.Ctrl.IOn, &r.Devices[1])
+		k := devicePartner(sync, pt.Ctrl.V, &r.Devices[1])
 		evalDevice(&r.Devices[0], pt, ctrl, RoleControl, &pt.Ctrl, &k, tr)
 		r.Devices[0].Flags |= k.flags
+		offSwitchChecks(&r.Devices[1], &r.Devices[0], pt, tr)
 	}
 	for i := 0; i < r.N; i++ {
 		d := &r.Devices[i]
@@ -124,9 +198,11 @@ func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 // partnerCharge is what the complementary device contributes at the control
 // switch's hard turn-on.
 type partnerCharge struct {
-	qoss  q.Charge // its output charge at the cell voltage
-	eoss  q.Energy // its stored energy at the cell voltage
-	qrr   q.Charge // its recovered charge
+	qoss  q.Charge      // its output charge at the cell voltage
+	eoss  q.Energy      // its stored energy at the cell voltage
+	qrr   q.Charge      // its recovered charge (at its junction temperature)
+	tj    q.Temperature // its junction temperature (transistor partner)
+	lloop q.Inductance  // its package share of the power loop
 	flags Flags
 }
 
@@ -138,19 +214,25 @@ func diodePartner(d *Diode, v q.Voltage) partnerCharge {
 	}
 }
 
-func devicePartner(k *Device, v q.Voltage, i q.Current, kr *DeviceResult) partnerCharge {
-	p := partnerCharge{qoss: k.Oss.Q(v), eoss: k.Oss.E(v)}
+// devicePartner is the synchronous switch k seen from the control switch,
+// with its recovered charge at its solved junction temperature kr.Thermal.
+func devicePartner(k *Device, v q.Voltage, kr *DeviceResult) partnerCharge {
+	p := partnerCharge{qoss: k.Oss.Q(v), eoss: k.Oss.E(v), lloop: k.Lloop, tj: kr.Thermal.Tj}
+	if !kr.Thermal.Found {
+		p.tj = k.TjMax
+	}
 	if k.Part.Technology == devices.GaN || kr.Stress.IDead2 <= 0 && kr.Stress.IDead1 <= 0 {
 		return p
 	}
 	if !k.Part.Qrr.OK {
-		if k.Part.Technology == devices.Silicon {
-			p.flags |= FlagQrrMissing
-		}
+		p.flags |= FlagQrrMissing
 		return p
 	}
-	p.qrr = k.Part.Qrr.V
+	p.qrr = k.Qrr.At(p.tj)
 	p.flags |= FlagQrrInModel
+	if !k.QrrHot && p.tj != k.Qrr.T0 {
+		p.flags |= FlagQrrTempDefault
+	}
 	if k.Part.QrrHasCoss {
 		p.qrr = max(0, p.qrr-p.qoss)
 		p.flags |= FlagQrrLessCoss
@@ -171,26 +253,147 @@ func rth(p *devices.Part, s *Stage) (q.ThermalResistance, Flags) {
 	return 0, FlagNoRth
 }
 
+// devModel is what one device's evaluation fixes before the thermal solve;
+// at computes everything that depends on the junction temperature.
+type devModel struct {
+	d             *Device
+	s             *Stage
+	st            *SwitchStress
+	f             float64
+	hard, driveOK bool
+	dead          bool         // dead-time conduction (synchronous switch)
+	rOn, rOff     q.Resistance // gate loops: driver + external + internal
+	rdOn, rdOff   q.Resistance // effective driver resistances (peak-current limits included)
+	vdsGate       q.Voltage    // drain voltage of the gate-charge curve
+	lcs           q.Inductance // common-source inductance in the gate loop
+	lloop         q.Inductance // power-loop inductance at the hard edges
+}
+
+// tempState is a device's temperature-dependent results at one Tj.
+type tempState struct {
+	vth, vplOn, vplOff q.Voltage
+	qg                 q.Charge
+	egate, stored      q.Energy
+	split              GateSplit
+	trans              Transitions // with the common-source inductance
+	tir0, tif0         q.Time      // current intervals without it
+	tRise, tFall       q.Time      // the intervals in which the loop current changes
+	eon, eoff          q.Energy
+	elcsOn, elcsOff    q.Energy // added by the common-source inductance
+	eloop              q.Energy // net added by the loop inductance
+	vpeak              q.Voltage
+	vsd1, vsd2         q.Voltage
+	edead              q.Energy
+	p                  q.Power // edges + dead time + gate (Rg,int) loss in the switch
+}
+
+// at fills a with the device's temperature-dependent results at tj.
+func (m *devModel) at(tj q.Temperature, a *tempState) {
+	d, st, drv := m.d, m.st, &m.s.Driver
+	p := d.Part
+	a.vth = d.ThresholdAt(tj)
+	dv := a.vth - d.Vth
+	a.vplOn = PlateauAt(a.vth, d.VplSpec+dv, d.QgId, st.IOn)
+	a.vplOff = PlateauAt(a.vth, d.VplSpec+dv, d.QgId, st.IOff)
+	a.vpeak = st.V
+
+	// Gate drive over the curve at temperature.
+	if d.Method == MethodGateCharge {
+		c := d.curve(m.vdsGate, st.IPeak, dv)
+		a.qg = c.Charge(drv.VOn) - c.Charge(drv.VOff)
+		a.egate = GateEnergy(c, drv.VOff, drv.VOn)
+		a.stored = c.StoredEnergy(drv.VOff, drv.VOn)
+	} else {
+		a.qg = p.Qg * q.Charge((drv.VOn-drv.VOff)/p.QgVgs)
+		a.egate = q.Energy(float64(a.qg) * float64(drv.VOn-drv.VOff))
+		a.stored = a.egate / 2
+	}
+	a.split = SplitGateEnergy(a.egate, a.stored, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
+
+	// Hard edges.
+	if m.hard && m.driveOK {
+		v := st.V
+		if d.Method == MethodGateCharge {
+			loop := GateLoop{VOn: drv.VOn, VOff: drv.VOff, ROn: m.rOn, ROff: m.rOff, IPkOn: drv.IPeakSource, IPkOff: drv.IPeakSink}
+			qgd := MillerChargeAt(d.Qgd, d.QgVds, v)
+			cOn := d.curve(v, st.IOn, dv)
+			cOff := d.curve(v, st.IOff, dv)
+			tOn := GateChargeTransitions(cOn.Qgs2, qgd, a.vth, a.vplOn, loop, true)
+			tOff := GateChargeTransitions(cOff.Qgs2, qgd, a.vth, a.vplOff, loop, true)
+			a.trans = Transitions{Tir: tOn.Tir, Tvf: tOn.Tvf, Tvr: tOff.Tvr, Tif: tOff.Tif}
+			a.tir0, a.tif0 = a.trans.Tir, a.trans.Tif
+			if m.lcs > 0 {
+				hOn := max(drv.VOn-(a.vth+a.vplOn)/2, 1e-3)
+				hOff := max((a.vth+a.vplOff)/2-drv.VOff, 1e-3)
+				a.trans.Tir = CurrentTransitionTime(cOn.Qgs2, hOn, m.rOn, drv.IPeakSource, m.lcs, st.IOn)
+				a.trans.Tif = CurrentTransitionTime(cOff.Qgs2, hOff, m.rOff, drv.IPeakSink, m.lcs, st.IOff)
+			}
+			a.tRise, a.tFall = a.trans.Tir, a.trans.Tif
+		} else {
+			ron, roff := m.rOn, m.rOff
+			if drv.IPeakSource > 0 {
+				ron = max(ron, q.Resistance(float64(drv.VOn-a.vplOn)/float64(drv.IPeakSource)))
+			}
+			if drv.IPeakSink > 0 {
+				roff = max(roff, q.Resistance(float64(a.vplOff-drv.VOff)/float64(drv.IPeakSink)))
+			}
+			rs, h := d.TswR, d.TswHead
+			if !d.TswOK {
+				rs, h = 0, [2]q.Voltage{}
+			}
+			ton := ScaleSwitchingTime(p.Tr.V, rs, ron, h[0], drv.VOn-a.vplOn)
+			toff := ScaleSwitchingTime(p.Tf.V, rs, roff, h[1], a.vplOff-drv.VOff)
+			a.trans = Transitions{Tvf: ton, Tvr: toff}
+			// The loop current changes over the whole stated time: a
+			// lower bound on di/dt (docs/second-order.md).
+			a.tRise, a.tFall = ton, toff
+		}
+		if st.HardOn {
+			eMiller := OverlapEnergy(v, st.IOn, 0, a.trans.Tvf)
+			if d.Method == MethodGateCharge {
+				a.eon = CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop) + eMiller
+				a.elcsOn = a.eon - CurrentRiseEnergy(v, st.IOn, a.tir0, m.lloop) - eMiller
+				a.eloop = a.eon - CurrentRiseEnergy(v, st.IOn, a.trans.Tir, 0) - eMiller
+			} else {
+				a.eon = eMiller
+			}
+		}
+		if st.HardOff {
+			eMiller := OverlapEnergy(v, st.IOff, a.trans.Tvr, 0)
+			a.eoff = CurrentFallEnergy(v, st.IOff, a.tFall, m.lloop)
+			if d.Method == MethodGateCharge {
+				a.eoff += eMiller
+				a.elcsOff = CurrentFallEnergy(v, st.IOff, a.trans.Tif, 0) - CurrentFallEnergy(v, st.IOff, a.tif0, 0)
+			}
+			a.eloop += q.Energy(0.5 * float64(m.lloop) * float64(st.IOff) * float64(st.IOff))
+			a.vpeak = LoopOvershoot(v, m.lloop, st.IOff, a.tFall)
+		}
+	}
+
+	// Dead-time reverse conduction.
+	if m.dead {
+		a.vsd1 = d.reverseDrop(st.IDead1, drv.VOff, tj)
+		a.vsd2 = d.reverseDrop(st.IDead2, drv.VOff, tj)
+		a.edead = DeadTimeEnergy(a.vsd1, st.IDead1, m.s.DeadTime.V, a.vsd2, st.IDead2, m.s.DeadTime.V)
+	}
+	a.p = q.Power(float64(a.eon+a.eoff+a.edead+a.split.Rint) * m.f)
+}
+
 func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchStress, k *partnerCharge, tr *Trace) {
 	p := d.Part
 	s := &pt.Stage
 	drv := &s.Driver
 	f := float64(s.Fsw)
-	*out = DeviceResult{Dev: d, Role: role, Method: d.Method, Flags: d.Flags, Stress: *st}
+	*out = DeviceResult{Dev: d, Role: role, Method: d.Method, Flags: d.Flags, Stress: *st, RdsDyn: 1}
 	name := role.String()
-	hard := st.HardOn || st.HardOff
+	m := devModel{d: d, s: s, st: st, f: f, hard: st.HardOn || st.HardOff, dead: role == RoleSync && s.DeadTime.OK}
 
 	// Gate loop: driver, external and internal gate resistance.
-	rOn := drv.RSource + drv.RgExt + d.RgInt
-	rOff := drv.RSink + drv.RgExt + d.RgInt
-	out.VplOn = PlateauAt(d.Vth, d.VplSpec, d.QgId, st.IOn)
-	out.VplOff = PlateauAt(d.Vth, d.VplSpec, d.QgId, st.IOff)
+	m.rOn = drv.RSource + drv.RgExt + d.RgInt
+	m.rOff = drv.RSink + drv.RgExt + d.RgInt
 	vplPk := PlateauAt(d.Vth, d.VplSpec, d.QgId, st.IPeak)
 
 	// Screens that need no temperature.
-	if st.V > q.Voltage(s.Derate)*p.VdsMax {
-		out.Screens |= ScreenVoltage
-	}
 	if p.IdPulse.OK && st.IPeak > p.IdPulse.V {
 		out.Screens |= ScreenPeakCurrent
 	}
@@ -208,119 +411,61 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	if drv.VOn < d.VgsLow {
 		out.Flags |= FlagRdsExtrapolated
 	}
-	driveOK := out.Screens&(ScreenBelowThreshold|ScreenBelowPlateau) == 0
+	if p.Technology == devices.SiC && drv.VOn < sicDriveMin {
+		out.Flags |= FlagSiCLowDrive
+	}
+	m.driveOK = out.Screens&(ScreenBelowThreshold|ScreenBelowPlateau) == 0
 
-	// Gate drive: charge and energy over the curve at the working drain
-	// voltage (0 V for a soft-switched edge: no Miller plateau).
-	vdsGate := q.Voltage(0)
-	if hard {
-		vdsGate = st.V
+	// Gate drive: the curve at the working drain voltage (0 V for a
+	// soft-switched edge: no Miller plateau); driver resistances raised
+	// where the peak-current limit binds.
+	if m.hard {
+		m.vdsGate = st.V
 	}
-	var split GateSplit
-	var stored q.Energy
-	if d.Method == MethodGateCharge {
-		c := d.curve(vdsGate, st.IPeak)
-		out.Qg = c.Charge(drv.VOn) - c.Charge(drv.VOff)
-		out.Egate = GateEnergy(c, drv.VOff, drv.VOn)
-		stored = c.StoredEnergy(drv.VOff, drv.VOn)
-	} else {
-		out.Qg = p.Qg * q.Charge((drv.VOn-drv.VOff)/p.QgVgs)
-		out.Egate = q.Energy(float64(out.Qg) * float64(drv.VOn-drv.VOff))
-		stored = out.Egate / 2
-	}
-	rdOn, rdOff := drv.RSource, drv.RSink
+	m.rdOn, m.rdOff = drv.RSource, drv.RSink
 	if drv.IPeakSource > 0 && drv.VOn-vplPk > 0 {
-		if r := q.Resistance(float64(drv.VOn-vplPk)/float64(drv.IPeakSource)) - drv.RgExt - d.RgInt; r > rdOn {
-			rdOn = r
+		if r := q.Resistance(float64(drv.VOn-vplPk)/float64(drv.IPeakSource)) - drv.RgExt - d.RgInt; r > m.rdOn {
+			m.rdOn = r
 			out.Flags |= FlagDriverLimited
 		}
 	}
 	if drv.IPeakSink > 0 && vplPk-drv.VOff > 0 {
-		if r := q.Resistance(float64(vplPk-drv.VOff)/float64(drv.IPeakSink)) - drv.RgExt - d.RgInt; r > rdOff {
-			rdOff = r
+		if r := q.Resistance(float64(vplPk-drv.VOff)/float64(drv.IPeakSink)) - drv.RgExt - d.RgInt; r > m.rdOff {
+			m.rdOff = r
 			out.Flags |= FlagDriverLimited
 		}
 	}
-	split = SplitGateEnergy(out.Egate, stored, rdOn, rdOff, drv.RgExt, d.RgInt)
-	out.Losses.GateDriver = q.Power(float64(split.Driver) * f)
-	out.Losses.GateRext = q.Power(float64(split.Rext) * f)
-	out.Losses.GateRint = q.Power(float64(split.Rint) * f)
-	out.Losses.DriverQuiescent = q.Power(float64(drv.VOn-drv.VOff) * float64(drv.IQ))
-	if tr != nil {
-		tr.add(name, "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f, split per edge by the loop resistances",
-			T("Qg moved", out.Qg), T("Von", drv.VOn), T("Voff", drv.VOff), T("E stored in gate", stored),
-			T("R src (effective)", rdOn), T("R snk (effective)", rdOff), T("Rg ext", drv.RgExt), T("Rg int", d.RgInt),
-			T("E gate/cycle", out.Egate), T("driver", out.Losses.GateDriver), T("Rg ext", out.Losses.GateRext),
-			T("Rg int", out.Losses.GateRint), T("quiescent", out.Losses.DriverQuiescent))
-	}
 
-	// Hard edges.
-	if hard && driveOK {
-		var ton, toff q.Time
-		if d.Method == MethodGateCharge {
-			loop := GateLoop{VOn: drv.VOn, VOff: drv.VOff, ROn: rOn, ROff: rOff, IPkOn: drv.IPeakSource, IPkOff: drv.IPeakSink}
-			qgd := MillerChargeAt(d.Qgd, d.QgVds, st.V)
-			cOn := d.curve(st.V, st.IOn)
-			cOff := d.curve(st.V, st.IOff)
-			tOn := GateChargeTransitions(cOn.Qgs2, qgd, d.Vth, out.VplOn, loop, true)
-			tOff := GateChargeTransitions(cOff.Qgs2, qgd, d.Vth, out.VplOff, loop, true)
-			out.Trans = Transitions{Tir: tOn.Tir, Tvf: tOn.Tvf, Tvr: tOff.Tvr, Tif: tOff.Tif}
-			ton, toff = out.Trans.Tir+out.Trans.Tvf, out.Trans.Tvr+out.Trans.Tif
-			if tr != nil {
-				tr.add(name, "transitions", "gate-charge method: t = Q / I_gate, I_gate = (V_drive − V_gate)/R_loop (at the mean gate voltage (Vth+Vpl)/2 while the current moves)",
-					T("Qgs2 on", cOn.Qgs2), T("Qgs2 off", cOff.Qgs2), T("Qgd at V", qgd), T("Vth", d.Vth),
-					T("Vpl on", out.VplOn), T("Vpl off", out.VplOff), T("R loop on", rOn), T("R loop off", rOff),
-					T("t_ir", out.Trans.Tir), T("t_vf", out.Trans.Tvf), T("t_vr", out.Trans.Tvr), T("t_if", out.Trans.Tif))
-			}
-		} else {
-			ron, roff := rOn, rOff
-			if drv.IPeakSource > 0 {
-				ron = max(ron, q.Resistance(float64(drv.VOn-out.VplOn)/float64(drv.IPeakSource)))
-			}
-			if drv.IPeakSink > 0 {
-				roff = max(roff, q.Resistance(float64(out.VplOff-drv.VOff)/float64(drv.IPeakSink)))
-			}
-			rs, h := d.TswR, d.TswHead
-			if !d.TswOK {
-				rs, h = 0, [2]q.Voltage{}
-			}
-			ton = ScaleSwitchingTime(p.Tr.V, rs, ron, h[0], drv.VOn-out.VplOn)
-			toff = ScaleSwitchingTime(p.Tf.V, rs, roff, h[1], out.VplOff-drv.VOff)
-			out.Trans = Transitions{Tvf: ton, Tvr: toff}
-			if tr != nil {
-				tr.add(name, "transitions", "datasheet times: t = t_10-90/0.8 · (R_loop/R_test) · (headroom_test/headroom)",
-					T("tr", p.Tr.V), T("tf", p.Tf.V), T("R test", rs), T("R loop on", ron), T("R loop off", roff),
-					T("headroom test on", h[0]), T("headroom on", drv.VOn-out.VplOn),
-					T("headroom test off", h[1]), T("headroom off", out.VplOff-drv.VOff),
-					T("t on", ton), T("t off", toff))
-			}
+	// Parasitic inductances of the hard edges. The tr/tf method's measured
+	// times already contain the package's common-source inductance.
+	if m.hard && m.driveOK {
+		if d.Method == MethodGateCharge && d.Lcs > 0 {
+			m.lcs = d.Lcs
+			out.Lcs = d.Lcs
+			out.Flags |= FlagLcs
 		}
-		if st.HardOn {
-			out.Eon = OverlapEnergy(st.V, st.IOn, ton, 0)
+		m.lloop = s.LoopInductance + d.Lloop
+		if k != nil {
+			m.lloop += k.lloop
 		}
-		if st.HardOff {
-			out.Eoff = OverlapEnergy(st.V, st.IOff, toff, 0)
-		}
-		out.Losses.TurnOn = q.Power(float64(out.Eon) * f)
-		out.Losses.TurnOff = q.Power(float64(out.Eoff) * f)
-		if tr != nil {
-			tr.add(name, "overlap", "E = ½·V·I·t per edge; P = E·f",
-				T("V", st.V), T("I on", st.IOn), T("I off", st.IOff), T("E on", out.Eon), T("E off", out.Eoff),
-				T("P on", out.Losses.TurnOn), T("P off", out.Losses.TurnOff))
+		if m.lloop > 0 {
+			out.Lloop = m.lloop
+			out.Flags |= FlagLoopL
 		}
 	}
 
-	// Output capacitance and recovery at the hard turn-on.
+	// Output capacitance and recovery at the hard turn-on: independent of
+	// this switch's temperature (the partner's recovered charge is taken at
+	// the partner's junction temperature).
 	if st.HardOn {
 		var kq q.Charge
 		var ke q.Energy
-		var kqrr q.Charge
 		if k != nil {
-			kq, ke, kqrr = k.qoss, k.eoss, k.qrr
+			kq, ke, out.Qrr = k.qoss, k.eoss, k.qrr
 		}
 		es := d.Oss.E(st.V)
 		out.Ecoss = HardTurnOnCossEnergy(es, st.V, kq, ke)
-		out.Erec = RecoveryEnergy(kqrr, st.V)
+		out.Erec = RecoveryEnergy(out.Qrr, st.V)
 		out.Losses.Coss = q.Power(float64(out.Ecoss) * f)
 		out.Losses.Recovery = q.Power(float64(out.Erec) * f)
 		if st.V < d.OssV/2 || st.V > 2*d.OssV {
@@ -329,61 +474,80 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		if tr != nil {
 			tr.add(name, "output capacitance", "E = E_oss,S(V) + V·Q_oss,K(V) − E_oss,K(V) (K: the device across the cell)",
 				T("V", st.V), T("E_oss,S", es), T("Q_oss,K", kq), T("E_oss,K", ke), T("E/cycle", out.Ecoss), T("P", out.Losses.Coss))
-			tr.add(name, "recovery", "E = Qrr·V (the partner's recovered charge flows through this switch at full voltage)",
-				T("Qrr", kqrr), T("V", st.V), T("P", out.Losses.Recovery))
+			terms := []Term{T("Qrr", out.Qrr), T("V", st.V), T("P", out.Losses.Recovery)}
+			formula := "E = Qrr·V (the partner's recovered charge flows through this switch at full voltage)"
+			if k != nil && k.qrr > 0 && k.tj != 0 {
+				formula = "E = Qrr(Tj,partner)·V (the partner's recovered charge, at its junction temperature, flows through this switch at full voltage)"
+				terms = append(terms, T("Tj partner", k.tj))
+			}
+			tr.add(name, "recovery", formula, terms...)
 		}
 	}
 
-	// Dead-time reverse conduction of the synchronous switch.
-	var vsd1, vsd2 q.Voltage
-	if role == RoleSync && s.DeadTime.OK {
-		vsd1, vsd2 = d.reverseDrop(st.IDead1, drv.VOff), d.reverseDrop(st.IDead2, drv.VOff)
-		if !p.Vsd.OK {
-			out.Flags |= FlagVsdDefault
-		}
-		out.Edead = DeadTimeEnergy(vsd1, st.IDead1, s.DeadTime.V, vsd2, st.IDead2, s.DeadTime.V)
-		out.Losses.DeadTime = q.Power(float64(out.Edead) * f)
-		if tr != nil {
-			tr.add(name, "dead time", "E = Vsd·(I1·t_dt + I2·t_dt)",
-				T("Vsd 1", vsd1), T("I1", st.IDead1), T("Vsd 2", vsd2), T("I2", st.IDead2), T("t_dt", s.DeadTime.V),
-				T("P", out.Losses.DeadTime))
-		}
-	}
-
-	// Conduction and the thermal loop.
+	// Conduction (dynamic factor for the blocked voltage) and the thermal
+	// loop over the whole temperature-dependent loss.
 	r0 := d.Gate.At(drv.VOn)
-	if !driveOK {
+	if !m.driveOK {
 		r0 = d.Gate.At(max(drv.VOn, d.Vth+0.1))
 	}
+	if d.DynK > 1 {
+		out.RdsDyn = DynamicRdsFactor(d.DynK, d.DynV, st.V)
+		out.Flags |= FlagRdsDyn
+		if d.DynV == 0 || st.V > d.DynV {
+			out.Flags |= FlagRdsDynFar
+		}
+	}
+	rdyn := r0 * q.Resistance(out.RdsDyn)
 	rthv, fl := rth(p, s)
 	out.Rth, out.Flags = rthv, out.Flags|fl
-	fixed := out.Losses.Switch()
-	m := ThermalModel{Fixed: fixed, Cond: Conduction(st.IRms, r0), Law: d.Temp}
+	esoft := softTurnOn(out, pt, d, st, k, tr) // light-load turn-on (point.go)
+	fixed := out.Losses.Coss + out.Losses.Recovery + q.Power(float64(esoft)*f)
+	other := func(t q.Temperature) q.Power {
+		var a tempState
+		m.at(t, &a)
+		return a.p
+	}
+	tm := ThermalModel{Fixed: fixed, Cond: Conduction(st.IRms, rdyn), Law: d.Temp, Other: other}
 	switch {
 	case s.TjFixed.OK:
 		out.Thermal = ThermalSolution{Tj: s.TjFixed.V, Status: ThermalFixed, Found: true}
 	case rthv == 0:
 		out.Thermal = ThermalSolution{Tj: s.Ambient, Status: ThermalSolved, Found: true}
 	default:
-		out.Thermal = SolveJunction(&m, s.Ambient, rthv, d.TjMax)
+		out.Thermal = SolveJunction(&tm, s.Ambient, rthv, d.TjMax)
 	}
 	tj := out.Thermal.Tj
 	if !out.Thermal.Found {
 		tj = d.TjMax
 	}
-	out.Rds = r0 * q.Resistance(d.Temp.Factor(tj))
+
+	// Everything at the solved temperature.
+	var a tempState
+	m.at(tj, &a)
+	out.Vth, out.VplOn, out.VplOff = a.vth, a.vplOn, a.vplOff
+	out.Qg, out.Egate = a.qg, a.egate
+	out.Losses.GateDriver = q.Power(float64(a.split.Driver) * f)
+	out.Losses.GateRext = q.Power(float64(a.split.Rext) * f)
+	out.Losses.GateRint = q.Power(float64(a.split.Rint) * f)
+	out.Losses.DriverQuiescent = q.Power(float64(drv.VOn-drv.VOff) * float64(drv.IQ))
+	out.Trans, out.Eon, out.Eoff = a.trans, a.eon, a.eoff
+	out.ElcsOn, out.ElcsOff, out.Eloop, out.Vpeak = a.elcsOn, a.elcsOff, a.eloop, a.vpeak
+	out.Losses.TurnOn = q.Power(float64(a.eon) * f)
+	out.Losses.TurnOff = q.Power(float64(a.eoff) * f)
+	out.Vsd1, out.Vsd2, out.Edead = a.vsd1, a.vsd2, a.edead
+	out.Losses.DeadTime = q.Power(float64(a.edead) * f)
+	out.Edead += esoft
+	out.Losses.DeadTime += q.Power(float64(esoft) * f)
+	if m.dead && !p.Vsd.OK {
+		out.Flags |= FlagVsdDefault
+	}
+	out.Rds = rdyn * q.Resistance(d.Temp.Factor(tj))
 	out.Losses.Conduction = Conduction(st.IRms, out.Rds)
+	if tj != 25 && (m.hard && m.driveOK || m.dead || d.Method == MethodGateCharge) {
+		out.Flags |= FlagVthTempDefault
+	}
 	if tr != nil {
-		tr.add(name, "conduction", "P = I_rms²·Rds(on)(Vgs, Tj), Rds = [R0 + k/(Vgs − Vth)]·F(Tj)",
-			T("I rms", st.IRms), T("R at Vgs, T0", r0), T("T0", d.Temp.T0), N("F(Tj)", d.Temp.Factor(tj)),
-			T("Rds", out.Rds), T("P", out.Losses.Conduction))
-		hist := make([]Term, 0, 12)
-		for i := 0; i < out.Thermal.Iterations && i < len(out.Thermal.History); i++ {
-			hist = append(hist, T("iterate", out.Thermal.History[i]))
-		}
-		hist = append(hist, T("Ta", s.Ambient), T("Rth", rthv), T("P fixed", fixed), N("loop gain", out.Thermal.Gain),
-			N("steps", float64(out.Thermal.Iterations)), T("Tj", out.Thermal.Tj))
-		tr.add(name, "thermal", "Tj = Ta + Rth·P(Tj), fixed point from Ta ("+out.Thermal.Status.String()+")", hist...)
+		traceDevice(tr, name, out, &m, &a, fixed, r0, tj)
 	}
 
 	// Screens that need the temperature.
@@ -396,6 +560,16 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		if out.Thermal.Tj > d.TjMax {
 			out.Screens |= ScreenTjMax
 		}
+	}
+	if out.Vpeak > q.Voltage(s.Derate)*p.VdsMax {
+		out.Screens |= ScreenVoltage
+	}
+	// Off-state margin with nothing moving the drain: the off level
+	// against the hot threshold. offSwitchChecks adds the dv/dt bounce.
+	out.FalseOn.Vth = a.vth
+	out.FalseOn.Margin = a.vth - drv.VOff
+	if out.FalseOn.Margin <= 0 {
+		out.Screens |= ScreenFalseTurnOn
 	}
 	tc := tj
 	if p.RthJC.OK {
@@ -410,24 +584,176 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	}
 }
 
-// reverseDrop is the drop of the reverse-conducting device at current i:
-// the datasheet vsd for silicon and SiC body diodes; for GaN, which has no
-// body diode, Vth + |Voff| + I·R (team notes, common practice).
-func (d *Device) reverseDrop(i q.Current, vOff q.Voltage) q.Voltage {
+// traceDevice records the temperature-dependent steps of one device.
+func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *tempState, fixed q.Power, r0 q.Resistance, tj q.Temperature) {
+	d, st, s := m.d, m.st, m.s
+	drv := &s.Driver
+	hist := make([]Term, 0, 16)
+	for i := 0; i < out.Thermal.Iterations && i < len(out.Thermal.History); i++ {
+		hist = append(hist, T("iterate", out.Thermal.History[i]))
+	}
+	hist = append(hist, T("Ta", s.Ambient), T("Rth", out.Rth), T("P fixed", fixed),
+		T("P edges+dead+gate at Tj", a.p), T("P conduction at Tj", out.Losses.Conduction),
+		N("loop gain", out.Thermal.Gain), N("steps", float64(out.Thermal.Iterations)), T("Tj", out.Thermal.Tj))
+	tr.add(name, "thermal", "Tj = Ta + Rth·P(Tj), P(Tj) the whole device loss (conduction, edges, dead time, gate), fixed point from Ta ("+out.Thermal.Status.String()+")", hist...)
+	terms := []Term{T("Tj", tj), N("Vth tempco (V/K)", d.VthTC), T("Vth 25 °C", d.Vth), T("Vth at Tj", a.vth),
+		T("Vpl spec 25 °C", d.VplSpec), T("Vpl on at Tj", a.vplOn), T("Vpl off at Tj", a.vplOff)}
+	if m.dead {
+		terms = append(terms, N("Vsd tempco (V/K)", d.VsdTC))
+	}
+	tr.add(name, "temperature", "Vth(Tj) = Vth(25 °C) + k·(Tj − 25 °C); the plateau moves with it (lower plateau: faster turn-on, slower turn-off)", terms...)
+	tr.add(name, "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f over the curve at Tj, split per edge by the loop resistances",
+		T("Qg moved", a.qg), T("Von", drv.VOn), T("Voff", drv.VOff), T("E stored in gate", a.stored),
+		T("R src (effective)", m.rdOn), T("R snk (effective)", m.rdOff), T("Rg ext", drv.RgExt), T("Rg int", d.RgInt),
+		T("E gate/cycle", a.egate), T("driver", out.Losses.GateDriver), T("Rg ext", out.Losses.GateRext),
+		T("Rg int", out.Losses.GateRint), T("quiescent", out.Losses.DriverQuiescent))
+	if m.hard && m.driveOK {
+		if d.Method == MethodGateCharge {
+			tr.add(name, "transitions", "gate-charge method at Tj: t = Q / I_gate, I_gate = (V_drive − V_gate)/R_loop (at the mean gate voltage (Vth+Vpl)/2 while the current moves)",
+				T("Qgd at V", MillerChargeAt(d.Qgd, d.QgVds, st.V)), T("Vth", a.vth),
+				T("Vpl on", a.vplOn), T("Vpl off", a.vplOff), T("R loop on", m.rOn), T("R loop off", m.rOff),
+				T("t_ir", a.trans.Tir), T("t_vf", a.trans.Tvf), T("t_vr", a.trans.Tvr), T("t_if", a.trans.Tif))
+		} else {
+			tr.add(name, "transitions", "datasheet times at Tj: t = t_10-90/0.8 · (R_loop/R_test) · (headroom_test/headroom)",
+				T("tr", d.Part.Tr.V), T("tf", d.Part.Tf.V), T("R test", d.TswR),
+				T("headroom on", drv.VOn-a.vplOn), T("headroom off", a.vplOff-drv.VOff),
+				T("t on", a.trans.Tvf), T("t off", a.trans.Tvr))
+		}
+		if m.lcs > 0 {
+			tr.add(name, "common-source inductance", "t = (R·Qgs2 + Lcs·I)/(V_drive − V_gate,mean): Lcs·di/dt is taken out of the gate loop while the current moves",
+				T("Lcs", m.lcs), T("t_ir without", a.tir0), T("t_ir with", a.trans.Tir), T("t_if without", a.tif0), T("t_if with", a.trans.Tif),
+				T("ΔE on", a.elcsOn), T("ΔE off", a.elcsOff))
+		}
+		if m.lloop > 0 {
+			tr.add(name, "loop inductance", "turn-on: the switch sees V − L·di/dt while the current rises; turn-off: V + L·di/dt while it falls (+½·L·I²); peak = V + L·I_off/t_fall",
+				T("L loop (layout + packages)", m.lloop), T("layout", s.LoopInductance), T("own package", d.Lloop),
+				T("I off", st.IOff), T("t fall", a.tFall), T("V peak", a.vpeak),
+				T("½·L·I_off²", q.Energy(0.5*float64(m.lloop)*float64(st.IOff)*float64(st.IOff))),
+				T("net ΔE per cycle", a.eloop))
+		}
+		tr.add(name, "overlap", "E = ½·V·I·t per interval (loop and common-source inductance included); P = E·f",
+			T("V", st.V), T("I on", st.IOn), T("I off", st.IOff), T("E on", a.eon), T("E off", a.eoff),
+			T("P on", out.Losses.TurnOn), T("P off", out.Losses.TurnOff))
+	}
+	if m.dead {
+		tr.add(name, "dead time", "E = Vsd(Tj)·(I1·t_dt + I2·t_dt)",
+			T("Vsd 1", a.vsd1), T("I1", st.IDead1), T("Vsd 2", a.vsd2), T("I2", st.IDead2), T("t_dt", s.DeadTime.V),
+			T("P", out.Losses.DeadTime))
+	}
+	if out.RdsDyn > 1 {
+		tr.add(name, "dynamic on-resistance", "k(V) = 1 + (k_test − 1)·V/V_test (k_test as stated when V_test is unknown)",
+			N("k test", float64(d.DynK)), T("V test", d.DynV), T("V blocked", st.V), N("k(V)", out.RdsDyn))
+	}
+	tr.add(name, "conduction", "P = I_rms²·Rds(on)(Vgs, Tj), Rds = [R0 + k/(Vgs − Vth)]·F(Tj)·k_dyn",
+		T("I rms", st.IRms), T("R at Vgs, T0", r0), T("T0", d.Temp.T0), N("F(Tj)", d.Temp.Factor(tj)), N("k dyn", out.RdsDyn),
+		T("Rds", out.Rds), T("P", out.Losses.Conduction))
+	tr.add(name, "off-state margin", "margin = Vth(Tj) − Voff (static; the dv/dt bounce of the synchronous switch follows)",
+		T("Vth at Tj", a.vth), T("Voff", drv.VOff), T("margin", a.vth-drv.VOff))
+}
+
+// offSwitchChecks screens the synchronous switch sy, which is off while the
+// control switch ct hard-switches the node: the dv/dt gate bounce at ct's
+// turn-on against sy's hot threshold, the negative bounce at ct's turn-off
+// against vgs_min, and the loop overshoot of the turn-on commutation.
+func offSwitchChecks(sy, ct *DeviceResult, pt *Point, tr *Trace) {
+	d := sy.Dev
+	s := &pt.Stage
+	drv := &s.Driver
+	v := sy.Stress.V
+	fo := &sy.FalseOn
+	fo.R = drv.RSink + drv.RgExt + d.RgInt
+	fo.Cgd, fo.Cgs = d.CgdAt(v), d.Cgs
+	finite := func(t q.Time) bool { return t > 0 && !math.IsInf(float64(t), 0) }
+	if ct.Stress.HardOn && finite(ct.Trans.Tvf) {
+		fo.DvDtOn = float64(v) / float64(ct.Trans.Tvf)
+	}
+	if ct.Stress.HardOff && finite(ct.Trans.Tvr) {
+		fo.DvDtOff = float64(v) / float64(ct.Trans.Tvr)
+	}
+
+	// Overshoot when the commutation at ct's turn-on ends: the loop's di/dt
+	// of ct's current rise, taken as the rate at which the recovering
+	// current of sy is interrupted (common-practice bound).
+	if l := s.LoopInductance + d.Lloop + ct.Dev.Lloop; l > 0 && ct.Stress.HardOn {
+		tRise := ct.Trans.Tir
+		if tRise == 0 {
+			tRise = ct.Trans.Tvf
+		}
+		if finite(tRise) {
+			sy.Lloop = l
+			sy.Vpeak = LoopOvershoot(v, l, ct.Stress.IOn, tRise)
+			sy.Flags |= FlagLoopL
+			if sy.Vpeak > q.Voltage(s.Derate)*d.Part.VdsMax {
+				sy.Screens |= ScreenVoltage
+			}
+			if tr != nil {
+				tr.add(sy.Role.String(), "loop overshoot", "V peak = V + L·I_on/t_ir of the control switch's turn-on (the recovered current interrupted at the same rate)",
+					T("L loop", l), T("I on (control)", ct.Stress.IOn), T("t_ir (control)", tRise), T("V peak", sy.Vpeak))
+			}
+		}
+	}
+	if fo.DvDtOn == 0 && fo.DvDtOff == 0 {
+		return
+	}
+	if fo.Cgd <= 0 || fo.Cgs <= 0 {
+		sy.Flags |= FlagFalseOnUnchecked
+		return
+	}
+	fo.Checked = true
+	if fo.DvDtOn > 0 {
+		fo.Bounce = GateBounce(fo.Cgd, fo.Cgs, v, ct.Trans.Tvf, fo.R)
+	}
+	if fo.DvDtOff > 0 {
+		fo.Spike = GateBounce(fo.Cgd, fo.Cgs, v, ct.Trans.Tvr, fo.R)
+	}
+	gap := fo.Vth - drv.VOff
+	fo.Margin = gap - fo.Bounce
+	fo.SpikeMargin = drv.VOff - fo.Spike - d.VgsMin
+	switch {
+	case fo.Margin <= 0:
+		sy.Screens |= ScreenFalseTurnOn
+	case fo.Bounce > gap/2:
+		sy.Flags |= FlagFalseOnThin
+	}
+	if fo.SpikeMargin < 0 {
+		sy.Flags |= FlagGateSpike
+	}
+	if tr != nil {
+		tr.add(sy.Role.String(), "false turn-on", "ΔV = Cgd·dv/dt·R·(1 − exp(−t/(R·(Cgs + Cgd)))), dv/dt = V/t_vf (control turn-on) or V/t_vr (its turn-off); margin = Vth(Tj) − (Voff + ΔV)",
+			T("V", v), N("dv/dt on (V/ns)", fo.DvDtOn*1e-9), N("dv/dt off (V/ns)", fo.DvDtOff*1e-9),
+			T("Cgd (charge-equivalent)", fo.Cgd), T("Cgs", fo.Cgs), T("R off loop", fo.R),
+			T("bounce", fo.Bounce), T("Vth at Tj", fo.Vth), T("Voff", drv.VOff), T("margin", fo.Margin),
+			T("negative spike", fo.Spike), T("vgs_min", d.VgsMin), T("spike margin", fo.SpikeMargin))
+	}
+}
+
+// reverseDrop is the drop of the reverse-conducting device at current i and
+// junction temperature tj: the datasheet vsd (taken at 25 °C) moved by the
+// diode coefficient for silicon and SiC body diodes; for GaN, which has no
+// body diode, Vth(Tj) + |Voff| + I·R(Tj) (Lidow et al., GaN Transistors for
+// Efficient Power Conversion, third-quadrant conduction; team notes,
+// common practice), through the datasheet point when vsd and vsd_if are
+// given (taken at Voff = 0 and 25 °C).
+func (d *Device) reverseDrop(i q.Current, vOff q.Voltage, tj q.Temperature) q.Voltage {
 	p := d.Part
 	if p.Technology == devices.GaN {
-		v := d.Vth + q.Voltage(math.Abs(float64(vOff))) + q.Voltage(float64(i)*float64(d.Gate.At(p.RdsOnVgs)))
+		r0 := float64(d.Gate.At(p.RdsOnVgs)) // at rds_on_tj
+		r, r25 := r0*d.Temp.Factor(tj), r0*d.Temp.Factor(25)
+		voff := q.Voltage(math.Abs(float64(vOff)))
+		v := d.ThresholdAt(tj) + voff + q.Voltage(float64(i)*r)
 		if p.Vsd.OK && p.VsdIf.OK {
-			// Shift the datasheet point (at Voff = 0) to this current and off level.
-			v = p.Vsd.V + q.Voltage(math.Abs(float64(vOff))) + q.Voltage(float64(i-p.VsdIf.V)*float64(d.Gate.At(p.RdsOnVgs)))
+			// Shift the datasheet point (at Voff = 0) to this current,
+			// off level and temperature.
+			v = p.Vsd.V + (d.ThresholdAt(tj) - d.Vth) + voff + q.Voltage(float64(i)*r-float64(p.VsdIf.V)*r25)
 		}
 		return max(v, 0)
 	}
-	if p.Vsd.OK {
-		return p.Vsd.V
+	v := vsdSi
+	switch {
+	case p.Vsd.OK:
+		v = p.Vsd.V
+	case p.Technology == devices.SiC:
+		v = vsdSiC
 	}
-	if p.Technology == devices.SiC {
-		return vsdSiC
-	}
-	return vsdSi
+	return DiodeDropAt(v, d.VsdTC, tj)
 }

@@ -35,6 +35,16 @@ const (
 	FlagVgsMinDefault                      // vgs_min missing: taken as −vgs_max (0 V for GaN)
 	FlagIdPulseMissing                     // no pulsed current rating: peak not screened
 	FlagQrrInModel                         // informational: recovery charge counted
+	FlagLcs                                // common-source inductance counted in the current edges
+	FlagLoopL                              // power-loop inductance counted: overshoot and ½·L·I²
+	FlagRdsDyn                             // dynamic on-resistance factor applied
+	FlagRdsDynFar                          // dynamic factor used above its test voltage or without one
+	FlagVthTempDefault                     // threshold, plateau and diode drop moved to Tj by technology defaults
+	FlagQrrTempDefault                     // recovered charge raised with Tj by the default law
+	FlagFalseOnThin                        // gate bounce uses more than half the off-state margin
+	FlagFalseOnUnchecked                   // no capacitance data: false turn-on not screened
+	FlagGateSpike                          // negative gate bounce below vgs_min (transient)
+	FlagSiCLowDrive                        // SiC part driven below 15 V
 	flagCount
 )
 
@@ -54,7 +64,7 @@ var flagText = [...]struct{ code, text string }{
 	{"gate-lin", "gate-charge curve unknown: linear gate, Qg scaled with the drive and half the energy per edge"},
 	{"rth-jc", "only junction-to-case resistance and no --rth-ca: case taken at ambient"},
 	{"rth?", "no thermal resistance: junction taken at ambient"},
-	{"qrr?", "no qrr for a silicon part: reverse recovery not counted"},
+	{"qrr?", "no qrr for a part with a body diode: reverse recovery not counted"},
 	{"qrr-coss", "qrr includes the output-capacitance charge: the partner's Q_oss is subtracted from it"},
 	{"vsd?", "vsd not given: the technology's default diode drop is used"},
 	{"tjmax?", "tj_max not given: 150 °C assumed"},
@@ -62,6 +72,16 @@ var flagText = [...]struct{ code, text string }{
 	{"vgsmin?", "vgs_min not given: taken as −vgs_max (0 V for GaN)"},
 	{"ipulse?", "no pulsed current rating (id_pulse): peak current not screened"},
 	{"qrr", "the partner's reverse-recovery charge is counted"},
+	{"l-cs", "common-source inductance (l_cs) slows the current edges: turn-on and turn-off energies raised"},
+	{"l-loop", "power-loop inductance counted: turn-off overshoot in the voltage screen; ½·L·I² taken from the turn-on overlap and dissipated at turn-off"},
+	{"rds-dyn", "dynamic on-resistance (rds_dyn) applied, linear in the blocked voltage"},
+	{"rds-dyn?", "dynamic on-resistance used above rds_dyn_vds (extrapolated linearly) or without rds_dyn_vds (factor as stated)"},
+	{"vth-tc", "threshold, plateau and diode drop moved to the junction temperature with the technology's default coefficients"},
+	{"qrr-tc", "no qrr_hot: recovered charge raised with temperature by the common-practice law (2× from 25 to 125 °C)"},
+	{"fto-thin", "false turn-on: the dv/dt gate bounce uses more than half of the gap between the off level and the hot threshold"},
+	{"fto?", "no ciss/crss or gate-charge data: false turn-on of the off switch not screened"},
+	{"vgs-spike", "the dv/dt at the other switch's turn-off pulls the gate below vgs_min (a transient: check the transient rating)"},
+	{"sic-drive", "SiC part driven below 15 V: its on-resistance and switching data are usually given at 15-20 V"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".
@@ -109,4 +129,5 @@ const (
 	ScreenTjMax                              // junction temperature above tj_max
 	ScreenRunaway                            // no steady junction temperature
 	ScreenNoOutputCap                        // no usable output-capacitance data for the position
+	ScreenFalseTurnOn                        // the off switch's gate reaches its hot threshold (dv/dt bounce or off level)
 )

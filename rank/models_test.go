@@ -206,7 +206,7 @@ func TestCurrentRatingAt(t *testing.T) {
 func handCasePart() devices.Part {
 	return devices.Part{
 		Name: "hand-a", VdsMax: 30, IdMax: 60, VgsMax: 20, VgsTh: 1.8,
-		RdsOn: 5e-3, RdsOnVgs: 5, RdsOnTj: q.Some[q.Temperature](100),
+		RdsOn: 5e-3, RdsOnVgs: 5, RdsOnTj: q.Some[q.Temperature](25),
 		Qg: 8e-9, QgVgs: 5, QgVds: q.Some[q.Voltage](12), QgId: q.Some[q.Current](10),
 		Qgs: q.Some[q.Charge](2e-9), Qgd: q.Some[q.Charge](2e-9), QgTh: q.Some[q.Charge](1e-9),
 		VPlateau: q.Some[q.Voltage](2.5), RgInt: q.Some[q.Resistance](1),
@@ -218,7 +218,9 @@ func handCasePart() devices.Part {
 
 // Hand case A end to end through Evaluate, synchronous buck 12 V → 1.2 V at
 // 10 A, no ripple, 500 kHz, 20 ns dead time, the same part in both places,
-// junction pinned at the 100 °C of its 5 mΩ value. Expected values from
+// junction pinned at 25 °C, where the part's threshold, plateau, recovered
+// charge and diode drop are stated (so no temperature law moves them) and
+// where its 5 mΩ is given. Expected values from
 // the team notes (re-derived above from the cited methods): control switch
 // overlap 0.1795 W (refined variant), V·Q_oss 57.6 mW, recovery 0.1200 W,
 // conduction 0.0500 W, gate 20.00 mW in all; sync switch dead time 0.1600 W,
@@ -233,7 +235,7 @@ func TestEvaluateHandCaseA(t *testing.T) {
 		Topology: Buck, Vin: 12, Vout: 1.2, Iout: 10, Fsw: 500e3,
 		Ripple: q.Some[q.Ratio](0), DeadTime: q.Some[q.Time](20e-9),
 		Driver:  Driver{VOn: 5, RSource: 2, RSink: 1},
-		TjFixed: q.Some[q.Temperature](100),
+		TjFixed: q.Some[q.Temperature](25),
 	}
 	pt, err := st.Resolve()
 	if err != nil {

@@ -140,7 +140,7 @@ func (s *Stage) fill(pt *Point) error {
 		{"ripple", float64(s.Ripple.V)}, {"inductance", float64(s.Inductance)}, {"dead-time", float64(s.DeadTime.V)},
 		{"vdrive", float64(s.Driver.VOn)}, {"vdrive-off", float64(s.Driver.VOff)}, {"ta", float64(s.Ambient)},
 		{"derate", float64(s.Derate)}, {"vblock", float64(s.Vblock)}, {"ion", float64(s.Ion)}, {"ioff", float64(s.Ioff)},
-		{"irms", float64(s.Irms)}} {
+		{"irms", float64(s.Irms)}, {"l-loop", float64(s.LoopInductance)}} {
 		finite(f.n, f.v)
 	}
 	if s.Fsw <= 0 {
@@ -170,6 +170,9 @@ func (s *Stage) fill(pt *Point) error {
 	}
 	if s.Ambient < -60 || s.Ambient > 200 {
 		bad("ta: ambient %s outside -60 to 200 °C", s.Ambient)
+	}
+	if s.LoopInductance < 0 {
+		bad("l-loop: loop inductance must be ≥ 0 H (got %s)", s.LoopInductance)
 	}
 	if s.RthCA.OK && s.RthCA.V < 0 {
 		bad("rth-ca: must be ≥ 0 K/W")

@@ -159,6 +159,13 @@ type Stage struct {
 
 	Diode Diode // the rectifier diode when Rectifier is DiodeRect
 
+	// LoopInductance is the power-loop (commutation-loop) inductance of
+	// the layout: board traces, input capacitors, and the package of an
+	// external rectifier diode, H. The transistors' own package share
+	// (their l_loop column) is added to it. ≥ 0; default 0 (no loop
+	// inductance counted). See docs/second-order.md.
+	LoopInductance q.Inductance
+
 	// Custom stage: the switch stresses directly.
 	Vblock q.Voltage // blocking voltage at the hard edges, V; > 0
 	Ion    q.Current // drain current at turn-on, A; ≥ 0

@@ -118,30 +118,31 @@ func rankStream(in *inputs, stderr io.Writer) (report, error) {
 	if err != nil {
 		return report{}, fmt.Errorf("operating point: %w", err)
 	}
-	var r io.Reader
-	name := in.parts
 	switch {
 	case in.demo && in.parts != "":
 		return report{}, errors.New("give --parts or --demo, not both")
 	case in.demo:
-		r, name = bytes.NewReader(devices.DemoCSV()), "demo"
+		return rankReader(in, &pt, bytes.NewReader(devices.DemoCSV()), "demo", stderr)
 	case in.parts != "":
 		f, err := os.Open(in.parts)
 		if err != nil {
 			return report{}, err
 		}
 		defer f.Close()
-		r = bufio.NewReaderSize(f, 1<<16)
-	default:
-		return report{}, errors.New("no parts library: give --parts FILE.csv or --demo")
+		return rankReader(in, &pt, bufio.NewReaderSize(f, 1<<16), in.parts, stderr)
 	}
+	return report{}, errors.New("no parts library: give --parts FILE.csv or --demo")
+}
+
+// rankReader ranks the library read from r at pt.
+func rankReader(in *inputs, pt *rank.Point, r io.Reader, name string, stderr io.Writer) (report, error) {
 	best := rank.Best{N: in.top}
 	hdr, probs := devices.Scan(r, name, func(p *devices.Part) error {
 		d, err := rank.Prepare(p)
 		if err != nil {
 			return err
 		}
-		res := rank.Evaluate(&pt, &d, nil, nil)
+		res := rank.Evaluate(pt, &d, nil, nil)
 		best.Offer(&res)
 		return nil
 	})
@@ -151,7 +152,7 @@ func rankStream(in *inputs, stderr io.Writer) (report, error) {
 	for _, w := range probs.Warnings() {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
-	return report{pt: &pt, source: hdr.Source, parts: best.Passed + best.Screened, results: best.Results(),
+	return report{pt: pt, source: hdr.Source, parts: best.Passed + best.Screened, results: best.Results(),
 		screened: best.Screened, all: in.all, top: in.top}, nil
 }
 

@@ -1,0 +1,186 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"fmt"
+	"io"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"sync"
+	"syscall"
+	"testing"
+	"time"
+
+	"swrank/devices"
+	"swrank/devices/synth"
+	"swrank/rank"
+)
+
+// TestMain lets the benchmarks run the command line in a child process of
+// this test binary (to read the process's memory high-water mark).
+func TestMain(m *testing.M) {
+	if os.Getenv("SWRANK_RUN_MAIN") == "1" {
+		os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	}
+	os.Exit(m.Run())
+}
+
+var libCache sync.Map // n → []byte
+
+// library returns a generated library of n parts (seed 1), made once.
+func library(b *testing.B, n int) []byte {
+	if v, ok := libCache.Load(n); ok {
+		return v.([]byte)
+	}
+	var buf bytes.Buffer
+	if err := synth.Generate(&buf, n, 1); err != nil {
+		b.Fatal(err)
+	}
+	libCache.Store(n, buf.Bytes())
+	return buf.Bytes()
+}
+
+func readEncodingCSV(data []byte) (int, error) {
+	r := csv.NewReader(bytes.NewReader(data))
+	r.Comment = '#'
+	n := 0
+	for {
+		_, err := r.Read()
+		if err == io.EOF {
+			return n, nil
+		}
+		if err != nil {
+			return n, err
+		}
+		n++
+	}
+}
+
+var benchStage = []string{"--vin", "48", "--vout", "12", "--iout", "10", "--fsw", "250k", "--vdrive", "10", "--rth-ca", "8"}
+
+// BenchmarkEndToEnd is the whole rank command on an in-memory library:
+// parse, validate, evaluate at one operating point, select and sort, render
+// the top 20 as a table. Each iteration also reads the same bytes with a
+// plain encoding/csv reader (ReuseRecord off) and reports the ratio, so the
+// two are measured under the same load. Target (docs/performance.md):
+// ratio ≤ 2 at 100k parts.
+func BenchmarkEndToEnd(b *testing.B) {
+	for _, n := range []int{1000, 10000, 100000} {
+		b.Run(fmt.Sprintf("%dk", n/1000), func(b *testing.B) {
+			data := library(b, n)
+			var in inputs
+			fs := newFlagSet("rank", "", io.Discard)
+			in.register(fs)
+			in.registerOutput(fs)
+			if err := fs.Parse(append(benchStage, "--top", "20")); err != nil {
+				b.Fatal(err)
+			}
+			pt, err := in.stage.Resolve()
+			if err != nil {
+				b.Fatal(err)
+			}
+			b.SetBytes(int64(len(data)))
+			b.ReportAllocs()
+			var tCSV, tE2E time.Duration
+			b.ResetTimer()
+			for i := 0; i < b.N; i++ {
+				t0 := time.Now()
+				if _, err := readEncodingCSV(data); err != nil {
+					b.Fatal(err)
+				}
+				t1 := time.Now()
+				rep, err := rankReader(&in, &pt, bytes.NewReader(data), "bench", io.Discard)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if err := render(io.Discard, "table", rep); err != nil {
+					b.Fatal(err)
+				}
+				t2 := time.Now()
+				tCSV += t1.Sub(t0)
+				tE2E += t2.Sub(t1)
+				if rep.parts != n {
+					b.Fatalf("ranked %d of %d parts", rep.parts, n)
+				}
+			}
+			b.ReportMetric(float64(tE2E.Nanoseconds())/float64(b.N), "e2e-ns/op")
+			b.ReportMetric(float64(tCSV.Nanoseconds())/float64(b.N), "csv-ns/op")
+			b.ReportMetric(float64(tE2E)/float64(tCSV), "x-csv")
+			b.ReportMetric(float64(tE2E.Nanoseconds())/float64(b.N)/float64(n), "ns/part")
+		})
+	}
+}
+
+// BenchmarkPeakMemory runs the rank command on a generated library file in
+// a child process and reports the process's high-water mark against the
+// file's size. Target (docs/performance.md): ≤ 3× the CSV size at 100k.
+func BenchmarkPeakMemory(b *testing.B) {
+	for _, n := range []int{10000, 100000} {
+		b.Run(fmt.Sprintf("%dk", n/1000), func(b *testing.B) {
+			path := filepath.Join(b.TempDir(), "lib.csv")
+			if err := os.WriteFile(path, library(b, n), 0o644); err != nil {
+				b.Fatal(err)
+			}
+			var peak int64
+			for i := 0; i < b.N; i++ {
+				cmd := exec.Command(os.Args[0], append([]string{"rank", "--parts", path, "--top", "20"}, benchStage...)...)
+				cmd.Env = append(os.Environ(), "SWRANK_RUN_MAIN=1")
+				cmd.Stdout, cmd.Stderr = io.Discard, io.Discard
+				if err := cmd.Run(); err != nil {
+					b.Fatal(err)
+				}
+				if ru, ok := cmd.ProcessState.SysUsage().(*syscall.Rusage); ok {
+					peak = max(peak, ru.Maxrss*1024)
+				}
+			}
+			size := float64(len(library(b, n)))
+			b.ReportMetric(float64(peak)/(1<<20), "peak-MiB")
+			b.ReportMetric(float64(peak)/size, "x-csv-size")
+		})
+	}
+}
+
+// BenchmarkEvaluate is one part at one operating point, thermal solve
+// included (target: ≥ 1,000,000 per second on one core, 0 allocations).
+func BenchmarkEvaluate(b *testing.B) {
+	lib, err := rankReaderDevices(library(b, 1000))
+	if err != nil {
+		b.Fatal(err)
+	}
+	var in inputs
+	fs := newFlagSet("rank", "", io.Discard)
+	in.register(fs)
+	if err := fs.Parse(benchStage); err != nil {
+		b.Fatal(err)
+	}
+	pt, err := in.stage.Resolve()
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		r := rank.Evaluate(&pt, &lib[i%len(lib)], nil, nil)
+		if r.N == 0 {
+			b.Fatal("no result")
+		}
+	}
+	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "evals/s")
+}
+
+// rankReaderDevices loads and prepares a library from memory.
+func rankReaderDevices(data []byte) ([]rank.Device, error) {
+	lib, err := devices.Read(bytes.NewReader(data), "bench")
+	if err != nil {
+		return nil, err
+	}
+	devs := make([]rank.Device, len(lib.Parts))
+	for i := range lib.Parts {
+		if devs[i], err = rank.Prepare(&lib.Parts[i]); err != nil {
+			return nil, err
+		}
+	}
+	return devs, nil
+}
