@@ -26,24 +26,31 @@ func ClassEConduction(d ClassE, rds q.Resistance) (q.Power, error) {
 }
 
 // ClassETurnOffSmall is the small-fall-time approximation of the turn-off
-// loss for a linear current fall lasting tf (0 to 100 %):
-// P_tf ≈ (ω·t_f)²/12·P_o. Source: Kazimierczuk, RF Power Amplifiers,
-// 2008, ch. 4. It takes the current into the shunt capacitor as the
-// turn-off current minus the falling switch current, i.e. it ignores the
-// change of the circuit current during the fall; ClassETurnOff keeps it.
+// loss for a linear current fall lasting tf (0 to 100 %): the capacitor
+// takes I_off·t/t_f, so v = I_off·t²/(2C₁t_f) and
+// P_tf ≈ f·I_off²·t_f²/(24·C₁), which for the ideal design
+// (I_off = 2·I_DC, C₁ = 0.1836/(ωR)) is (ω·t_f)²/12·P_o. Source:
+// Kazimierczuk, RF Power Amplifiers, 2008, ch. 4 (the design's own I_off
+// and C₁ are used for a finite-Q design). It ignores the change of the
+// circuit current during the fall; ClassETurnOffWaveform keeps it and
+// ClassETurnOff also lets the steady state adjust.
 func ClassETurnOffSmall(d ClassE, tf q.Time) (q.Power, error) {
 	if err := nonNegative("current fall time tf", float64(tf)); err != nil {
 		return 0, err
 	}
-	e := 2 * math.Pi * float64(d.F) * float64(tf)
-	return q.Power(e * e / 12 * float64(d.Po)), nil
+	if err := positive("shunt capacitance C1 of the design", float64(d.C1)); err != nil {
+		return 0, err
+	}
+	i, t := float64(d.IOff), float64(tf)
+	return q.Power(float64(d.F) * i * i * t * t / (24 * float64(d.C1))), nil
 }
 
-// ClassETurnOff is the turn-off loss for a linear current fall lasting tf
-// (0 to 100 %; a datasheet 90–10 % time is 0.8 of it), from the exact
-// integral of v·i over the fall: the switch current falls from I_off to 0
-// in t_f while the circuit current keeps its lossless-design waveform
-// n(t), so the shunt capacitor takes n(t) − i_S(t),
+// ClassETurnOffWaveform is the turn-off loss for a linear current fall
+// lasting tf (0 to 100 %) from the exact integral of v·i over the fall
+// with the rest of the lossless design's waveform held fixed: the switch
+// current falls from I_off to 0 in t_f while the circuit current keeps its
+// lossless-design waveform n(t), so the shunt capacitor takes
+// n(t) − i_S(t),
 //
 //	C₁·v(t) = ∫₀ᵗ [n(τ) − I_off·(1 − τ/t_f)] dτ,   E = ∫₀^t_f v·I_off·(1 − t/t_f) dt.
 //
@@ -56,10 +63,13 @@ func ClassETurnOffSmall(d ClassE, tf q.Time) (q.Power, error) {
 // = ε²/12·(1 − πε/4 − ε²/10 + …); the first term is the small-t_f formula
 // of Kazimierczuk, RF Power Amplifiers, 2008, ch. 4 (ClassETurnOffSmall).
 // The method is that of Kazimierczuk's derivation with the circuit current
-// kept; the series is derived here (docs/resonant.md). The load branch is
-// taken as unperturbed by the fall (valid for a small fall and a high Q).
-// At zero-voltage turn-on there is no overlap loss.
-func ClassETurnOff(d ClassE, tf q.Time) (q.Power, error) {
+// kept; the series is derived here (docs/resonant.md). Because the
+// circuit current falls after turn-off this is below the small-t_f value
+// (by about πε/4). It holds the turn-off current at the lossless value;
+// in the real steady state the fall raises it (ClassETurnOff), which
+// undoes most of the difference, so use ClassETurnOff for losses. At
+// zero-voltage turn-on there is no overlap loss.
+func ClassETurnOffWaveform(d ClassE, tf q.Time) (q.Power, error) {
 	if err := nonNegative("current fall time tf", float64(tf)); err != nil {
 		return 0, err
 	}
@@ -87,7 +97,7 @@ func ClassETurnOff(d ClassE, tf q.Time) (q.Power, error) {
 	return q.Power(energy * float64(d.F)), nil
 }
 
-// idealTurnOffFraction is J(ε) = P_tf/P_o of ClassETurnOff for the ideal
+// idealTurnOffFraction is J(ε) = P_tf/P_o of ClassETurnOffWaveform for the ideal
 // design in closed form (derived, docs/resonant.md); a series for small ε
 // avoids the cancellation in 1 − sin ε/ε.
 func idealTurnOffFraction(e float64) float64 {
@@ -178,6 +188,7 @@ type ClassESwitch struct {
 type ClassELoss struct {
 	Conduction q.Power // I_rms²·r_DS
 	TurnOff    q.Power // current-fall overlap (ClassETurnOff)
+	TurnOn     q.Power // hard turn-on if the voltage is not back to zero (ClassETurnOff)
 	Hysteresis q.Power // output-capacitance hysteresis
 	Driver     q.Power // gate-drive supply power (outside the power stage)
 	// StageEfficiency is P_o/(P_o + switch losses), the power stage alone.
@@ -187,7 +198,7 @@ type ClassELoss struct {
 }
 
 // Switch is the loss that heats the transistor.
-func (l ClassELoss) Switch() q.Power { return l.Conduction + l.TurnOff + l.Hysteresis }
+func (l ClassELoss) Switch() q.Power { return l.Conduction + l.TurnOff + l.TurnOn + l.Hysteresis }
 
 // ClassELosses adds up the losses of switch s in design d and the
 // efficiencies, first order: each loss from the lossless waveforms, the
@@ -200,9 +211,11 @@ func ClassELosses(d ClassE, s ClassESwitch) (ClassELoss, error) {
 	if l.Conduction, err = ClassEConduction(d, s.RDS); err != nil {
 		return l, err
 	}
-	if l.TurnOff, err = ClassETurnOff(d, s.Tf); err != nil {
+	toff, err := ClassETurnOff(d, s.Tf)
+	if err != nil {
 		return l, err
 	}
+	l.TurnOff, l.TurnOn = toff.TurnOff, toff.TurnOn
 	if l.Hysteresis, err = HysteresisLoss(s.Hysteresis, d.VPeak, d.F); err != nil {
 		return l, err
 	}
