@@ -500,7 +500,8 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	rdyn := r0 * q.Resistance(out.RdsDyn)
 	rthv, fl := rth(p, s)
 	out.Rth, out.Flags = rthv, out.Flags|fl
-	fixed := out.Losses.Coss + out.Losses.Recovery
+	esoft := softTurnOn(out, pt, d, st, k, tr) // light-load turn-on (point.go)
+	fixed := out.Losses.Coss + out.Losses.Recovery + q.Power(float64(esoft)*f)
 	other := func(t q.Temperature) q.Power {
 		var a tempState
 		m.at(t, &a)
@@ -535,6 +536,8 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	out.Losses.TurnOff = q.Power(float64(a.eoff) * f)
 	out.Vsd1, out.Vsd2, out.Edead = a.vsd1, a.vsd2, a.edead
 	out.Losses.DeadTime = q.Power(float64(a.edead) * f)
+	out.Edead += esoft
+	out.Losses.DeadTime += q.Power(float64(esoft) * f)
 	if m.dead && !p.Vsd.OK {
 		out.Flags |= FlagVsdDefault
 	}

@@ -34,6 +34,47 @@ type SwitchStress struct {
 	// in the dead time before its turn-on (IDead1) and after its turn-off
 	// (IDead2), A.
 	IDead1, IDead2 q.Current
+
+	// A turn-on that is not hard (HardOn false) may still cost output
+	// charge. VSoftOn > 0: the switch turns on with VSoftOn across it
+	// (discontinuous conduction: the resting or the valley voltage of the
+	// ringing), V; 0 ≤ VSoftOn ≤ V. ISoftOn > 0: a reversed inductor current
+	// of ISoftOn swings the switch node during the dead time before the
+	// turn-on (forced-continuous conduction), A; the swing may fall short
+	// and leave a residual voltage, and once complete the switch's reverse
+	// conduction carries ISoftOn for the rest of the dead time.
+	// Both 0: a soft turn-on without loss.
+	VSoftOn q.Voltage
+	ISoftOn q.Current
+}
+
+// Mode is the conduction mode a buck or boost stage runs in at a point.
+type Mode uint8
+
+// Modes.
+const (
+	ModeCCM   Mode = iota // continuous conduction: the inductor current stays positive
+	ModeDCM               // discontinuous: a diode rectifier stops conducting, the inductor current rests at zero
+	ModeFCCM              // forced continuous: a synchronous stage whose inductor current reverses at the valley
+	ModeGiven             // custom stage: the switch stresses are given
+)
+
+var modeNames = [...]string{ModeCCM: "continuous", ModeDCM: "discontinuous", ModeFCCM: "forced-continuous", ModeGiven: "given"}
+
+func (m Mode) String() string {
+	if int(m) < len(modeNames) {
+		return modeNames[m]
+	}
+	return fmt.Sprintf("mode(%d)", m)
+}
+
+// LightLoad says how a stage runs where its inductor current would
+// reverse. The zero value is the default.
+type LightLoad struct {
+	// Valley makes the control switch of a diode-rectified stage in
+	// discontinuous conduction turn on at the first valley of the ringing
+	// of the switch node, instead of at its resting voltage. Default false.
+	Valley bool
 }
 
 // Point is a resolved operating point: the stage with defaults filled and
@@ -52,26 +93,40 @@ type Point struct {
 	// DiodeLoss is the external rectifier's conduction loss Vf·I·(1−D), W;
 	// the same for every part, reported with the operating point.
 	DiodeLoss q.Power
+	// Mode is the conduction mode the stage runs in at this point.
+	Mode Mode
+	// LightLoad is how the stage was taken to run at light load.
+	LightLoad LightLoad
 	// Notes are what Resolve assumed or noticed, for the user.
 	Notes []string
 }
 
 // Resolve checks the stage, fills its defaults and computes the switch
-// stresses. It is called once per operating point, not per part.
+// stresses. It is called once per operating point, not per part. It is
+// ResolveLight with the default light-load behaviour.
+func (s Stage) Resolve() (Point, error) { return s.ResolveLight(LightLoad{}) }
+
+// ResolveLight is Resolve with a choice of light-load behaviour. Where the
+// inductor ripple would take the current below zero, a diode-rectified
+// stage runs in discontinuous conduction (ModeDCM) and a synchronous stage
+// in forced-continuous conduction with a negative valley current
+// (ModeFCCM); Point.Mode says which mode ran.
 //
 // Source of the stress equations: Erickson & Maksimović, Fundamentals of
 // Power Electronics, 2nd ed., 2001, ch. 2 (steady-state buck and boost in
 // continuous conduction: D = Vout/Vin and D = 1 − Vin/Vout, ripple
-// ΔI = V_L·D/(L·f)), and the rms of a trapezoidal current
-// I_rms² = D·(I² + ΔI²/12).
-func (s Stage) Resolve() (Point, error) {
+// ΔI = V_L·D/(L·f)), ch. 5 (discontinuous conduction: see dcm), and the
+// rms of a trapezoidal current I_rms² = D·(I² + ΔI²/12), which holds for
+// a current that crosses zero as well.
+func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 	var pt Point
 	if err := s.fill(&pt); err != nil {
 		return Point{}, err
 	}
-	pt.Stage = s
+	pt.Stage, pt.LightLoad = s, ll
 	switch s.Topology {
 	case Custom:
+		pt.Mode = ModeGiven
 		pt.Ctrl = SwitchStress{
 			V: s.Vblock, IOn: s.Ion, IOff: s.Ioff, IRms: s.Irms,
 			IPeak: max(s.Ion, s.Ioff, s.Irms), HardOn: true, HardOff: true,
@@ -100,11 +155,9 @@ func (s Stage) Resolve() (Point, error) {
 	pt.IL, pt.Ripple = il, ripple
 	ipk := il + ripple/2
 	ival := il - ripple/2
-	if ival < 0 {
-		pt.Notes = append(pt.Notes, fmt.Sprintf(
-			"ripple %s exceeds twice the inductor current %s: the stage would leave continuous conduction; the continuous-conduction stresses are used with the valley current taken as zero",
-			ripple, il))
-		ival = 0
+	if ival < 0 && s.Rectifier == DiodeRect {
+		s.dcm(&pt)
+		return pt, nil
 	}
 	ms := float64(il*il) + float64(ripple*ripple)/12
 	pt.Ctrl = SwitchStress{
@@ -121,7 +174,82 @@ func (s Stage) Resolve() (Point, error) {
 		V: v, IOn: ival, IOff: ival, IRms: q.Current(math.Sqrt((1 - d) * ms)), IPeak: ipk,
 		Duty: q.Ratio(1 - d), IDead1: ipk, IDead2: ival,
 	}
+	if ival >= 0 {
+		return pt, nil
+	}
+	// Forced-continuous conduction: the current reverses before the
+	// synchronous switch turns off. That switch now turns off hard with
+	// |valley| in its channel; the reversed current swings the node towards
+	// the other rail in the dead time, so the control switch's body diode
+	// (not the synchronous one's) conducts, and the control switch turns on
+	// softly: without overlap, recovery or (once the swing is complete)
+	// output-capacitance loss.
+	neg := -ival
+	pt.Mode = ModeFCCM
+	pt.Ctrl.IOn, pt.Ctrl.HardOn, pt.Ctrl.ISoftOn = 0, false, neg
+	pt.Ctrl.IPeak = max(ipk, neg)
+	pt.Sync.IOff, pt.Sync.HardOff, pt.Sync.IDead2 = neg, true, 0
+	pt.Sync.IPeak = max(ipk, neg)
+	pt.Notes = append(pt.Notes, fmt.Sprintf(
+		"forced-continuous conduction: the inductor current reverses to %s at the valley; the synchronous switch turns off hard at %s and the control switch turns on softly once the reversed current has swung the switch node",
+		ival, neg))
 	return pt, nil
+}
+
+// dcm fills the stresses of a diode-rectified buck or boost in
+// discontinuous conduction. The control switch conducts a triangle from 0
+// to Ipk during D·T; the diode then carries it down to zero during D2·T;
+// the inductor current rests at zero for the rest of the period. With the
+// output voltage held, the controller sets
+//
+//	buck:  D = √(2·L·f·Iout·Vout / (Vin·(Vin − Vout))), Ipk = (Vin − Vout)·D/(L·f), D2 = D·(Vin − Vout)/Vout
+//	boost: D = √(2·L·f·Iout·(Vout − Vin)) / Vin,        Ipk = Vin·D/(L·f),          D2 = D·Vin/(Vout − Vin)
+//
+// and the control switch's rms current is Ipk·√(D/3). It turns on at zero
+// current (no overlap, no recovery: the diode has stopped), but with the
+// node's resting voltage across it (buck Vin − Vout, boost Vin), or with
+// LightLoad.Valley at the first valley of the undamped ringing about that
+// rest (buck Vin − 2·Vout, boost 2·Vin − Vout, not below zero).
+//
+// Source: Erickson & Maksimović 2001, ch. 5 (discontinuous conduction mode:
+// buck M = 2/(1 + √(1 + 4K/D²)), boost M = (1 + √(1 + 4D²/K))/2, K =
+// 2L/(R·T), solved here for D); the ringing amplitude (the node leaves the
+// rest from the other rail's voltage and rings about the rest without
+// loss) is derived, damping ignored.
+func (s *Stage) dcm(pt *Point) {
+	L, f := float64(s.Inductance), float64(s.Fsw)
+	vin, vout, iout := float64(s.Vin), float64(s.Vout), float64(s.Iout)
+	var d, ipk, d2, v, vRest, vValley float64
+	if s.Topology == Buck {
+		d = math.Sqrt(2 * L * f * iout * vout / (vin * (vin - vout)))
+		ipk = (vin - vout) * d / (L * f)
+		d2 = d * (vin - vout) / vout
+		v, vRest, vValley = vin, vin-vout, vin-2*vout
+		pt.DiodeLoss = q.Power(float64(s.Diode.Vf) * ipk * d2 / 2)
+	} else {
+		d = math.Sqrt(2*L*f*iout*(vout-vin)) / vin
+		ipk = vin * d / (L * f)
+		d2 = d * vin / (vout - vin)
+		v, vRest, vValley = vout, vin, 2*vin-vout
+		pt.DiodeLoss = q.Power(float64(s.Diode.Vf) * iout)
+	}
+	von := vRest
+	if pt.LightLoad.Valley {
+		von = max(vValley, 0)
+	}
+	pt.Mode, pt.HasDiode = ModeDCM, true
+	pt.IL, pt.Ripple = q.Current(ipk*(d+d2)/2), q.Current(ipk)
+	pt.Ctrl = SwitchStress{
+		V: q.Voltage(v), IOn: 0, IOff: q.Current(ipk), IRms: q.Current(ipk * math.Sqrt(d/3)), IPeak: q.Current(ipk),
+		Duty: q.Ratio(d), HardOn: false, HardOff: true, VSoftOn: q.Voltage(von),
+	}
+	how := "at the resting voltage of the switch node (valley switching not asked)"
+	if pt.LightLoad.Valley {
+		how = "at the first valley of the ringing"
+	}
+	pt.Notes = append(pt.Notes, fmt.Sprintf(
+		"discontinuous conduction: duty %.4f, peak current %s, the diode conducts for %.4f of the period and the inductor current rests at zero for %.4f; the control switch turns on at zero current %s, %s across it",
+		d, q.Current(ipk), d2, 1-d-d2, how, q.Voltage(von)))
 }
 
 // fill checks ranges and sets the defaults of zero fields.
@@ -241,4 +369,106 @@ func (s *Stage) fill(pt *Point) error {
 		}
 	}
 	return errors.Join(errs...)
+}
+
+// SoftTurnOnEnergy is the output-capacitance energy switch S dissipates
+// when it turns on with only vr of the cell voltage v left across it,
+// while the complementary device K goes from v − vr to v:
+//
+//	E = E_S(vr) + v·[Q_K(v) − Q_K(v − vr)] − [E_K(v) − E_K(v − vr)].
+//
+// At vr = v this is the hard turn-on, HardTurnOnCossEnergy; at vr = 0 (a
+// complete zero-voltage swing) it is zero; in between it is continuous.
+// A diode partner is a linear capacitor: OssLaw{K: Cj, N: 0}.
+//
+// Source: energy bookkeeping of the commutation (team notes on partial
+// zero-voltage switching, checked by hand: the supply delivers
+// v·ΔQ_K, the capacitors' stored energy changes by ΔE_K − E_S(vr), the rest
+// is dissipated); Q_oss and E_oss as defined in IEC 60747-8:2010.
+func SoftTurnOnEnergy(s, k OssLaw, v, vr q.Voltage) q.Energy {
+	if vr <= 0 {
+		return 0
+	}
+	vr = min(vr, v)
+	dq := k.Q(v) - k.Q(v-vr)
+	de := k.E(v) - k.E(v-vr)
+	return max(0, s.E(vr)+q.Energy(float64(v)*float64(dq))-de)
+}
+
+// SwingResidual is the voltage left across switch S when a charge dq has
+// been moved through the switch node from the state S at v, K at 0: the
+// node moves by x with Q_K(x) + Q_S(v) − Q_S(v − x) = dq, and the residual
+// is v − x (0 once dq ≥ Q_S(v) + Q_K(v), the whole swing). The inductor
+// current is taken as constant during the swing (an inductor much larger
+// than the resonance with the node capacitance needs).
+//
+// Source: charge balance of the switch node (Kirchhoff's current law on the
+// two output capacitances in series across the cell); team notes on partial
+// zero-voltage switching.
+func SwingResidual(s, k OssLaw, v q.Voltage, dq q.Charge) q.Voltage {
+	if dq <= 0 {
+		return v
+	}
+	qs := s.Q(v)
+	if dq >= qs+k.Q(v) {
+		return 0
+	}
+	g := func(x float64) float64 {
+		return float64(k.Q(q.Voltage(x))+qs-s.Q(v-q.Voltage(x))) - float64(dq)
+	}
+	r, err := FindRoot(g, 0, float64(v), 1e-9, 1e-12*float64(v))
+	if err != nil {
+		// g(0) < 0 < g(v) and g is continuous and increasing: FindRoot
+		// cannot fail here, but stay on the safe side (a hard edge).
+		return v
+	}
+	return v - q.Voltage(r.X)
+}
+
+// softTurnOn adds to out what a turn-on that is not hard costs (see
+// SwitchStress.VSoftOn and ISoftOn): the output-capacitance energy at the
+// voltage left across the switch, from the partner's charge k (qoss and
+// eoss at st.V, which fix its power law). It returns the reverse-conduction
+// energy per cycle of a forced-continuous control switch between the end
+// of the node swing and its turn-on, J, with the drop at ambient (the
+// caller adds it to the dead-time loss; it is a small, nearly
+// temperature-independent share).
+func softTurnOn(out *DeviceResult, pt *Point, d *Device, st *SwitchStress, k *partnerCharge, tr *Trace) q.Energy {
+	if st.HardOn || st.VSoftOn <= 0 && st.ISoftOn <= 0 {
+		return 0
+	}
+	s := &pt.Stage
+	var kl OssLaw
+	if k != nil && k.qoss > 0 && k.eoss > 0 {
+		kl = OssFromChargeEnergy(k.qoss, k.eoss, st.V)
+	}
+	vr := st.VSoftOn
+	var edead q.Energy
+	var tcond q.Time
+	if st.ISoftOn > 0 {
+		tdt := s.DeadTime.V
+		full := d.Oss.Q(st.V) + kl.Q(st.V)
+		if dq := q.Charge(float64(st.ISoftOn) * float64(tdt)); dq >= full {
+			vr = 0
+			tcond = tdt - q.Time(float64(full)/float64(st.ISoftOn))
+			vsd := d.reverseDrop(st.ISoftOn, s.Driver.VOff, s.Ambient)
+			edead = q.Energy(float64(vsd) * float64(st.ISoftOn) * float64(tcond))
+		} else {
+			vr = SwingResidual(d.Oss, kl, st.V, dq)
+		}
+	}
+	e := SoftTurnOnEnergy(d.Oss, kl, st.V, vr)
+	out.Ecoss += e
+	out.Losses.Coss += q.Power(float64(e) * float64(s.Fsw))
+	if tr != nil {
+		if st.ISoftOn > 0 {
+			tr.add(out.Role.String(), "soft turn-on", "the reversed current I swings the node in the dead time: Q_K(x) + Q_S(V) − Q_S(V − x) = I·t_dt; residual V_r = V − x; E = E_S(V_r) + V·[Q_K(V) − Q_K(V − V_r)] − [E_K(V) − E_K(V − V_r)]; then reverse conduction for t_dt − (Q_S + Q_K)/I",
+				T("I reversed", st.ISoftOn), T("t_dt", s.DeadTime.V), T("Q_S(V) + Q_K(V)", d.Oss.Q(st.V)+kl.Q(st.V)),
+				T("V residual", vr), T("E/cycle", e), T("reverse conduction", tcond), T("E reverse/cycle", edead))
+		} else {
+			tr.add(out.Role.String(), "soft turn-on", "discontinuous conduction: turn-on at zero current with V_r across the switch; E = E_S(V_r) + V·[Q_K(V) − Q_K(V − V_r)] − [E_K(V) − E_K(V − V_r)]",
+				T("V", st.V), T("V_r", vr), T("E/cycle", e), T("P", q.Power(float64(e)*float64(s.Fsw))))
+		}
+	}
+	return edead
 }
