@@ -205,7 +205,7 @@ func num(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 // temperature (the datasheet reference), and tight local-truncation-error
 // control (team notes: the default control is off by up to 10 % on
 // switching energies).
-const optionsLine = ".options temp=25 tnom=25 method=gear reltol=1e-5 vntol=1e-7 abstol=1e-10 chgtol=1e-16\n"
+const optionsLine = ".options temp=25 tnom=25 method=gear reltol=1e-5 vntol=1e-7 abstol=1e-10 chgtol=1e-16 trtol=1\n"
 
 // clampCard is the clamp (freewheel) diode: no stored charge, no junction
 // capacitance, a small drop.

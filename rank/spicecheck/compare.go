@@ -1,0 +1,210 @@
+package spicecheck
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"swrank/devices"
+	q "swrank/devices/quantity"
+	"swrank/rank"
+)
+
+// Component names, in report order.
+const (
+	CompConduction = "conduction"
+	CompTurnOn     = "turn-on"
+	CompTurnOff    = "turn-off"
+	CompCoss       = "coss"
+	CompGate       = "gate"
+	CompTotal      = "total"
+)
+
+// Components lists the compared loss components.
+var Components = []string{CompConduction, CompTurnOn, CompTurnOff, CompCoss, CompGate, CompTotal}
+
+// Stage is swrank's custom stage for the simulated cell: the blocking
+// voltage the simulation applied (bus plus clamp drop), the load current at
+// both edges, the rms current of a flat on-state current over the gate duty,
+// the same driver, an ideal partner, and the junction pinned to the
+// simulation's 25 °C.
+func Stage(p *Point, e *CellEnergies) rank.Stage {
+	return rank.Stage{
+		Topology: rank.Custom,
+		Vblock:   q.Voltage(e.VBlock),
+		Ion:      q.Current(p.Current), Ioff: q.Current(p.Current),
+		Irms: q.Current(p.Current * math.Sqrt(p.Duty)),
+		Fsw:  q.Frequency(p.Fsw),
+		Driver: rank.Driver{VOn: q.Voltage(p.VOn), VOff: 0,
+			RSource: q.Resistance(p.RSource), RSink: q.Resistance(p.RSink), RgExt: q.Resistance(p.RgExt)},
+		TjFixed: q.Some[q.Temperature](25),
+		Derate:  q.Ratio(p.Derate),
+	}
+}
+
+// Predict runs swrank's models for the part at the simulated cell.
+func Predict(part *devices.Part, p *Point, e *CellEnergies) (rank.Result, error) {
+	st := Stage(p, e)
+	pt, err := st.Resolve()
+	if err != nil {
+		return rank.Result{}, fmt.Errorf("point %s: %w", p.Name, err)
+	}
+	dev, err := rank.Prepare(part)
+	if err != nil {
+		return rank.Result{}, fmt.Errorf("point %s: %w", p.Name, err)
+	}
+	res := rank.Evaluate(&pt, &dev, nil, nil)
+	res.Dev = nil // the prepared device does not outlive this call
+	for i := range res.Devices {
+		res.Devices[i].Dev = nil
+	}
+	return res, nil
+}
+
+// Row is one device at one point: the predicted and simulated power of each
+// component, W.
+type Row struct {
+	Device, Point string
+	Pred, Sim     map[string]float64
+	Screened      bool   // swrank set the part aside at this point
+	ScreenNote    string // why
+	Method        string // swrank's overlap method
+	SimE          *CellEnergies
+	Trans         rank.Transitions // swrank's edge intervals
+	VplOn         float64          // swrank's plateau at the load current
+}
+
+// NewRow pairs a prediction with a simulation.
+func NewRow(dev string, p *Point, res *rank.Result, e *CellEnergies) Row {
+	f := p.Fsw
+	l := res.Losses
+	d := &res.Devices[0]
+	r := Row{Device: dev, Point: p.Name, SimE: e, Screened: res.Screened(), Method: d.Method.String(),
+		Trans: d.Trans, VplOn: float64(d.VplOn)}
+	if r.Screened {
+		r.ScreenNote = fmt.Sprintf("screens %#x", uint64(res.Screens))
+	}
+	r.Pred = map[string]float64{
+		CompConduction: float64(l.Conduction),
+		CompTurnOn:     float64(l.TurnOn),
+		CompTurnOff:    float64(l.TurnOff),
+		CompCoss:       float64(l.Coss),
+		CompGate:       float64(l.GateRint + l.GateDriver + l.GateRext),
+		CompTotal:      float64(l.Total()),
+	}
+	r.Sim = map[string]float64{
+		CompConduction: e.Cond * f,
+		CompTurnOn:     e.OnOverlap * f,
+		CompTurnOff:    e.Off * f,
+		CompCoss:       e.OnCoss * f,
+		CompGate:       e.Gate() * f,
+		CompTotal:      e.Total() * f,
+	}
+	return r
+}
+
+// RelErr is (predicted − simulated)/simulated.
+func RelErr(pred, sim float64) float64 {
+	if sim == 0 {
+		if pred == 0 {
+			return 0
+		}
+		return math.Inf(1)
+	}
+	return (pred - sim) / sim
+}
+
+// Err returns the relative error of one component.
+func (r *Row) Err(comp string) float64 { return RelErr(r.Pred[comp], r.Sim[comp]) }
+
+// SwitchingShare is the simulated share of turn-on, turn-off and
+// output-capacitance loss in the total.
+func (r *Row) SwitchingShare() float64 {
+	return (r.Sim[CompTurnOn] + r.Sim[CompTurnOff] + r.Sim[CompCoss]) / r.Sim[CompTotal]
+}
+
+// Stats are the median and the worst (largest magnitude) relative error.
+type Stats struct {
+	N             int
+	Median, Worst float64 // of |error|
+	WorstSigned   float64
+	WorstAt       string
+}
+
+// ErrStats summarises the relative errors of a component over rows.
+func ErrStats(rows []Row, comp string) Stats {
+	var abs []float64
+	s := Stats{}
+	for _, r := range rows {
+		e := r.Err(comp)
+		abs = append(abs, math.Abs(e))
+		if math.Abs(e) >= s.Worst {
+			s.Worst, s.WorstSigned, s.WorstAt = math.Abs(e), e, r.Device+" @ "+r.Point
+		}
+	}
+	s.N = len(abs)
+	s.Median = median(abs)
+	return s
+}
+
+func median(x []float64) float64 {
+	if len(x) == 0 {
+		return math.NaN()
+	}
+	y := append([]float64(nil), x...)
+	sort.Float64s(y)
+	n := len(y)
+	if n%2 == 1 {
+		return y[n/2]
+	}
+	return (y[n/2-1] + y[n/2]) / 2
+}
+
+// Order returns the device names sorted by the total loss of one side
+// (pred or sim), lowest first.
+func Order(rows []Row, pred bool) []string {
+	idx := make([]int, len(rows))
+	for i := range idx {
+		idx[i] = i
+	}
+	val := func(i int) float64 {
+		if pred {
+			return rows[i].Pred[CompTotal]
+		}
+		return rows[i].Sim[CompTotal]
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return val(idx[a]) < val(idx[b]) })
+	out := make([]string, len(rows))
+	for i, k := range idx {
+		out[i] = rows[k].Device
+	}
+	return out
+}
+
+// Pairs counts the concordant and discordant pairs of the two orderings of
+// rows by total loss (ties count as neither).
+func Pairs(rows []Row) (conc, disc int) {
+	for i := 0; i < len(rows); i++ {
+		for j := i + 1; j < len(rows); j++ {
+			a := rows[i].Pred[CompTotal] - rows[j].Pred[CompTotal]
+			b := rows[i].Sim[CompTotal] - rows[j].Sim[CompTotal]
+			switch {
+			case a*b > 0:
+				conc++
+			case a*b < 0:
+				disc++
+			}
+		}
+	}
+	return conc, disc
+}
+
+// KendallTau is (concordant − discordant)/(all pairs), Kendall's τ_a
+// (Kendall, "A new measure of rank correlation", Biometrika 30, 1938).
+func KendallTau(conc, disc, n int) float64 {
+	pairs := n * (n - 1) / 2
+	if pairs == 0 {
+		return math.NaN()
+	}
+	return float64(conc-disc) / float64(pairs)
+}
