@@ -176,9 +176,12 @@ type ClassESwitch struct {
 	RDS q.Resistance
 	// Tf is the drain-current fall time at turn-off, 0 to 100 %, s. ≥ 0.
 	Tf q.Time
-	// Hysteresis is the optional output-capacitance hysteresis loss,
-	// applied at the design's peak switch voltage.
+	// Hysteresis is the optional output-capacitance hysteresis loss.
 	Hysteresis Hysteresis
+	// VSwing is the peak switch voltage the hysteresis is scaled to, V.
+	// ≥ 0; default (0) the design's VPeak (pass ClassEShunt's VPeak for a
+	// nonlinear output capacitance).
+	VSwing q.Voltage
 	// Driver is the gate-drive power drawn from the driver supply, W
 	// (e.g. Qg·V_drive·f plus quiescent). ≥ 0.
 	Driver q.Power
@@ -216,7 +219,14 @@ func ClassELosses(d ClassE, s ClassESwitch) (ClassELoss, error) {
 		return l, err
 	}
 	l.TurnOff, l.TurnOn = toff.TurnOff, toff.TurnOn
-	if l.Hysteresis, err = HysteresisLoss(s.Hysteresis, d.VPeak, d.F); err != nil {
+	vsw := s.VSwing
+	if err = nonNegative("hysteresis voltage swing", float64(vsw)); err != nil {
+		return l, err
+	}
+	if vsw == 0 {
+		vsw = d.VPeak
+	}
+	if l.Hysteresis, err = HysteresisLoss(s.Hysteresis, vsw, d.F); err != nil {
 		return l, err
 	}
 	if err = nonNegative("gate-driver power", float64(s.Driver)); err != nil {

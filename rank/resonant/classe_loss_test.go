@@ -247,6 +247,13 @@ func TestClassELossesHandCaseC(t *testing.T) {
 	sw := 0.1644 + float64(l.TurnOff+l.TurnOn) + float64(l.Hysteresis)
 	check(t, "stage efficiency", float64(l.StageEfficiency), 10/(10+sw), 1e-4, "Kazimierczuk 2008 ch. 1")
 	check(t, "efficiency with driver", float64(l.Efficiency), 10/(10+sw+0.2), 1e-4, "Kazimierczuk 2008 ch. 1")
+	// A stated swing (e.g. ClassEShunt's higher peak) replaces the design's.
+	l2, err := ClassELosses(d, ClassESwitch{RDS: 0.1, Tf: 2e-9, VSwing: 50,
+		Hysteresis: Hysteresis{E: 10e-9, VStated: 400}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	check(t, "hysteresis at 50 V", float64(l2.Hysteresis), 10e-9*math.Pow(50.0/400, 1.5)*6.78e6, 1e-9, "assumed power law (docs)")
 }
 
 func TestHysteresisLoss(t *testing.T) {
