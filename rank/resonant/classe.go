@@ -215,7 +215,8 @@ type ClassESpec struct {
 	QL q.Ratio
 	// FeedRatio is ωL_f/R of the DC-feed choke. 0 (the default) means an
 	// ideal RF choke; otherwise > 0 (finite-Q solver only; values below
-	// about 1 may have no nominal solution).
+	// about 1 may have no nominal solution, and small values at low QL may
+	// give a low-power solution branch: check KP; see docs/resonant.md).
 	FeedRatio q.Ratio
 }
 
