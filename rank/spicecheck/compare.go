@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"swrank/devices"
 	q "swrank/devices/quantity"
@@ -82,7 +83,7 @@ func NewRow(dev string, p *Point, res *rank.Result, e *CellEnergies) Row {
 	r := Row{Device: dev, Point: p.Name, SimE: e, Screened: res.Screened(), Method: d.Method.String(),
 		Trans: d.Trans, VplOn: float64(d.VplOn)}
 	if r.Screened {
-		r.ScreenNote = fmt.Sprintf("screens %#x", uint64(res.Screens))
+		r.ScreenNote = screenNames(res.Screens)
 	}
 	r.Pred = map[string]float64{
 		CompConduction: float64(l.Conduction),
@@ -207,4 +208,28 @@ func KendallTau(conc, disc, n int) float64 {
 		return math.NaN()
 	}
 	return float64(conc-disc) / float64(pairs)
+}
+
+// screenNames spells out the screens that set a part aside.
+func screenNames(s rank.Screens) string {
+	names := []struct {
+		s rank.Screens
+		n string
+	}{{rank.ScreenVoltage, "voltage rating"}, {rank.ScreenPeakCurrent, "peak current"},
+		{rank.ScreenRmsCurrent, "rms current"}, {rank.ScreenGateMax, "drive above vgs_max"},
+		{rank.ScreenGateMin, "drive below vgs_min"}, {rank.ScreenBelowThreshold, "drive below threshold"},
+		{rank.ScreenBelowPlateau, "drive below plateau"}, {rank.ScreenTjMax, "tj_max"},
+		{rank.ScreenRunaway, "thermal runaway"}, {rank.ScreenNoOutputCap, "no output-capacitance data"},
+		{rank.ScreenFalseTurnOn, "false turn-on"}}
+	var out []string
+	for _, x := range names {
+		if s&x.s != 0 {
+			out = append(out, x.n)
+			s &^= x.s
+		}
+	}
+	if s != 0 {
+		out = append(out, fmt.Sprintf("other (%#x)", uint32(s)))
+	}
+	return strings.Join(out, ", ")
 }

@@ -52,7 +52,8 @@ type Model struct {
 	N      float64 `toml:"n"`      // body-diode emission coefficient; default 1
 }
 
-// Point is one operating point of the switching cell.
+// Point is one operating point of the switching cell. Its candidates are
+// the devices rated above Vbus/Derate (and at most MaxRating when given).
 type Point struct {
 	Name    string  `toml:"name"`
 	Vbus    float64 `toml:"vbus"`    // clamp supply, V; > 0
@@ -64,13 +65,27 @@ type Point struct {
 	RSink   float64 `toml:"rsink"`   // driver pull-down resistance, Ω; > 0
 	RgExt   float64 `toml:"rg_ext"`  // external gate resistor, Ω; > 0
 	Derate  float64 `toml:"derate"`  // voltage derating for the candidate set; default 0.8
-	Comment string  `toml:"comment"` // why the point is there
+	// MaxRating leaves out parts rated above it, V (a designer does not
+	// put a 100 V part on a 20 V bus); 0 = no limit.
+	MaxRating float64 `toml:"max_rating"`
+	Comment   string  `toml:"comment"` // why the point is there
+}
+
+// Swap names a fast, low-capacitance part and a slow, low-Rds(on) part
+// whose order must reverse between a low-frequency and a high-frequency
+// point.
+type Swap struct {
+	Fast      string `toml:"fast"`
+	Slow      string `toml:"slow"`
+	LowPoint  string `toml:"low_point"`
+	HighPoint string `toml:"high_point"`
 }
 
 // Config is the device set and the operating points of the suite.
 type Config struct {
 	Devices []Model `toml:"device"`
 	Points  []Point `toml:"point"`
+	Swap    Swap    `toml:"swap"`
 }
 
 // LoadConfig reads and checks a TOML file of devices and points.
@@ -106,6 +121,19 @@ func LoadConfig(path string) (*Config, error) {
 		}
 		if err := p.check(); err != nil {
 			return nil, fmt.Errorf("%s: point %d (%s): %w", path, i+1, p.Name, err)
+		}
+	}
+	pts := map[string]bool{}
+	for _, p := range c.Points {
+		if pts[p.Name] {
+			return nil, fmt.Errorf("%s: point %s listed twice", path, p.Name)
+		}
+		pts[p.Name] = true
+	}
+	w := c.Swap
+	if w.Fast != "" || w.Slow != "" {
+		if !seen[w.Fast] || !seen[w.Slow] || !pts[w.LowPoint] || !pts[w.HighPoint] {
+			return nil, fmt.Errorf("%s: swap names an unknown device or point (%+v)", path, w)
 		}
 	}
 	return &c, nil
@@ -170,6 +198,9 @@ func (p *Point) check() error {
 	if p.Duty < 0.1 || p.Duty > 0.8 {
 		return fmt.Errorf("duty must be within [0.1, 0.8] (got %g)", p.Duty)
 	}
+	if p.MaxRating < 0 {
+		return fmt.Errorf("max_rating must be ≥ 0 (got %g)", p.MaxRating)
+	}
 	if p.Derate <= 0 || p.Derate > 1 {
 		return fmt.Errorf("derate must be within (0, 1] (got %g)", p.Derate)
 	}
@@ -210,3 +241,8 @@ const optionsLine = ".options temp=25 tnom=25 method=gear reltol=1e-5 vntol=1e-7
 // clampCard is the clamp (freewheel) diode: no stored charge, no junction
 // capacitance, a small drop.
 const clampCard = ".model dclamp D(is=1e-9 n=0.3 rs=1m tt=0 cjo=0)\n"
+
+// Candidate reports whether the device is rated for the point.
+func (p *Point) Candidate(m *Model) bool {
+	return m.VdsMax*p.Derate > p.Vbus && (p.MaxRating == 0 || m.VdsMax <= p.MaxRating)
+}
