@@ -6,8 +6,8 @@ import (
 	"testing"
 
 	"swrank/devices"
-	"swrank/devices/synth"
 	q "swrank/devices/quantity"
+	"swrank/devices/synth"
 )
 
 // linearParts are invented parts whose stage loss in a custom cell with no
