@@ -254,7 +254,10 @@ func rth(p *devices.Part, s *Stage) (q.ThermalResistance, Flags) {
 }
 
 // devModel is what one device's evaluation fixes before the thermal solve;
-// at computes everything that depends on the junction temperature.
+// at computes everything that depends on the junction temperature. The
+// temperature moves the threshold and the plateau by the same amount, so
+// the plateau overdrives, the Qgs2 segments and the Miller charges are
+// fixed here once (the thermal loop calls at at every iterate).
 type devModel struct {
 	d             *Device
 	s             *Stage
@@ -267,6 +270,45 @@ type devModel struct {
 	vdsGate       q.Voltage    // drain voltage of the gate-charge curve
 	lcs           q.Inductance // common-source inductance in the gate loop
 	lloop         q.Inductance // power-loop inductance at the hard edges
+
+	// Fixed by prepare.
+	odOn, odOff, odPk       q.Voltage    // plateau overdrive Vpl − Vth at the turn-on, turn-off and peak currents
+	qgs2On, qgs2Off, qgs2Pk q.Charge     // threshold-to-plateau charge at those currents
+	qgdV, qgdGate           q.Charge     // Miller charge at the switched voltage and at the gate curve's voltage
+	qthPerV                 float64      // charge to the threshold per volt of threshold, C/V
+	linGate                 tempState    // gate figures of the linear gate (tr/tf method: temperature-independent)
+	split                   [2]GateSplit // SplitGateEnergy's shares of 1 J at turn-on and at turn-off
+	rRev, rRev25            float64      // GaN reverse-conduction resistance at rds_on_tj and at 25 °C, Ω
+}
+
+// prepare fixes the temperature-independent parts of at.
+func (m *devModel) prepare() {
+	d, st, drv := m.d, m.st, &m.s.Driver
+	od := func(i q.Current) (q.Voltage, q.Charge) {
+		v := max(PlateauAt(d.Vth, d.VplSpec, d.QgId, i)-d.Vth, 1e-3)
+		return v, d.Qgs2 * q.Charge(v/(d.VplSpec-d.Vth))
+	}
+	m.odOn, m.qgs2On = od(st.IOn)
+	m.odOff, m.qgs2Off = od(st.IOff)
+	m.odPk, m.qgs2Pk = od(st.IPeak)
+	m.qgdV = MillerChargeAt(d.Qgd, d.QgVds, st.V)
+	m.qgdGate = MillerChargeAt(d.Qgd, d.QgVds, m.vdsGate)
+	if d.Vth > 0 {
+		m.qthPerV = float64(d.Qth) / float64(d.Vth)
+	}
+	m.split[0] = SplitGateEnergy(1, 0, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
+	m.split[1] = SplitGateEnergy(1, 1, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
+	if d.Method != MethodGateCharge {
+		g := &m.linGate
+		g.qg = d.Part.Qg * q.Charge((drv.VOn-drv.VOff)/d.Part.QgVgs)
+		g.egate = q.Energy(float64(g.qg) * float64(drv.VOn-drv.VOff))
+		g.stored = g.egate / 2
+		g.split = SplitGateEnergy(g.egate, g.stored, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
+	}
+	if m.dead && d.Part.Technology == devices.GaN {
+		m.rRev = float64(d.Gate.At(d.Part.RdsOnVgs))
+		m.rRev25 = m.rRev * d.Temp.Factor(25)
+	}
 }
 
 // tempState is a device's temperature-dependent results at one Tj.
@@ -291,43 +333,52 @@ type tempState struct {
 func (m *devModel) at(tj q.Temperature, a *tempState) {
 	d, st, drv := m.d, m.st, &m.s.Driver
 	p := d.Part
-	a.vth = d.ThresholdAt(tj)
-	dv := a.vth - d.Vth
-	a.vplOn = PlateauAt(a.vth, d.VplSpec+dv, d.QgId, st.IOn)
-	a.vplOff = PlateauAt(a.vth, d.VplSpec+dv, d.QgId, st.IOff)
+	vth := d.ThresholdAt(tj)
+	a.vth, a.vplOn, a.vplOff = vth, vth+m.odOn, vth+m.odOff
 	a.vpeak = st.V
 
-	// Gate drive over the curve at temperature.
+	// Gate drive over the curve at temperature (Qth follows the threshold:
+	// a constant Cgs).
 	if d.Method == MethodGateCharge {
-		c := d.curve(m.vdsGate, st.IPeak, dv)
-		a.qg = c.Charge(drv.VOn) - c.Charge(drv.VOff)
-		a.egate = GateEnergy(c, drv.VOff, drv.VOn)
-		a.stored = c.StoredEnergy(drv.VOff, drv.VOn)
+		c := GateCurve{Qth: q.Charge(m.qthPerV * float64(vth)), Qgs2: m.qgs2Pk, Qgd: m.qgdGate, Vth: vth, Vpl: vth + m.odPk, Slope: d.Slope}
+		if m.qthPerV == 0 {
+			c.Qth = d.Qth
+		}
+		qOn, qOff := c.Charge(drv.VOn), c.Charge(drv.VOff)
+		a.qg = qOn - qOff
+		a.egate = q.Energy(float64(a.qg) * float64(drv.VOn-drv.VOff)) // GateEnergy
+		a.stored = c.storedEnergy(drv.VOff, drv.VOn, qOff, qOn)
+		// SplitGateEnergy(egate, stored, ...) through its ratios: the
+		// turn-on edge dissipates egate − stored, the turn-off edge stored.
+		on, off := float64(a.egate-a.stored), float64(a.stored)
+		k0, k1 := &m.split[0], &m.split[1]
+		a.split = GateSplit{
+			Driver: q.Energy(on*float64(k0.Driver) + off*float64(k1.Driver)),
+			Rext:   q.Energy(on*float64(k0.Rext) + off*float64(k1.Rext)),
+			Rint:   q.Energy(on*float64(k0.Rint) + off*float64(k1.Rint)),
+		}
 	} else {
-		a.qg = p.Qg * q.Charge((drv.VOn-drv.VOff)/p.QgVgs)
-		a.egate = q.Energy(float64(a.qg) * float64(drv.VOn-drv.VOff))
-		a.stored = a.egate / 2
+		a.qg, a.egate, a.stored, a.split = m.linGate.qg, m.linGate.egate, m.linGate.stored, m.linGate.split
 	}
-	a.split = SplitGateEnergy(a.egate, a.stored, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
 
 	// Hard edges.
 	if m.hard && m.driveOK {
 		v := st.V
 		if d.Method == MethodGateCharge {
-			loop := GateLoop{VOn: drv.VOn, VOff: drv.VOff, ROn: m.rOn, ROff: m.rOff, IPkOn: drv.IPeakSource, IPkOff: drv.IPeakSink}
-			qgd := MillerChargeAt(d.Qgd, d.QgVds, v)
-			cOn := d.curve(v, st.IOn, dv)
-			cOff := d.curve(v, st.IOff, dv)
-			tOn := GateChargeTransitions(cOn.Qgs2, qgd, a.vth, a.vplOn, loop, true)
-			tOff := GateChargeTransitions(cOff.Qgs2, qgd, a.vth, a.vplOff, loop, true)
-			a.trans = Transitions{Tir: tOn.Tir, Tvf: tOn.Tvf, Tvr: tOff.Tvr, Tif: tOff.Tif}
+			// Gate-charge intervals (GateChargeTransitions with the mean
+			// gate voltage; the current intervals through
+			// CurrentTransitionTime, which adds the common-source term).
+			hOn := max(drv.VOn-(vth+a.vplOn)/2, 1e-3)
+			hOff := max((vth+a.vplOff)/2-drv.VOff, 1e-3)
+			a.trans.Tir = CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, m.lcs, st.IOn)
+			a.trans.Tif = CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, m.lcs, st.IOff)
 			a.tir0, a.tif0 = a.trans.Tir, a.trans.Tif
 			if m.lcs > 0 {
-				hOn := max(drv.VOn-(a.vth+a.vplOn)/2, 1e-3)
-				hOff := max((a.vth+a.vplOff)/2-drv.VOff, 1e-3)
-				a.trans.Tir = CurrentTransitionTime(cOn.Qgs2, hOn, m.rOn, drv.IPeakSource, m.lcs, st.IOn)
-				a.trans.Tif = CurrentTransitionTime(cOff.Qgs2, hOff, m.rOff, drv.IPeakSink, m.lcs, st.IOff)
+				a.tir0 = CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, 0, st.IOn)
+				a.tif0 = CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, 0, st.IOff)
 			}
+			a.trans.Tvf = chargeTime(m.qgdV, GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource))
+			a.trans.Tvr = chargeTime(m.qgdV, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink))
 			a.tRise, a.tFall = a.trans.Tir, a.trans.Tif
 		} else {
 			ron, roff := m.rOn, m.rOff
@@ -351,32 +402,60 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 		if st.HardOn {
 			eMiller := OverlapEnergy(v, st.IOn, 0, a.trans.Tvf)
 			if d.Method == MethodGateCharge {
-				a.eon = CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop) + eMiller
-				a.elcsOn = a.eon - CurrentRiseEnergy(v, st.IOn, a.tir0, m.lloop) - eMiller
-				a.eloop = a.eon - CurrentRiseEnergy(v, st.IOn, a.trans.Tir, 0) - eMiller
+				eir := CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop)
+				a.eon = eir + eMiller
+				if m.lcs > 0 {
+					a.elcsOn = eir - CurrentRiseEnergy(v, st.IOn, a.tir0, m.lloop)
+				}
+				if m.lloop > 0 {
+					a.eloop = eir - CurrentRiseEnergy(v, st.IOn, a.trans.Tir, 0)
+				}
 			} else {
 				a.eon = eMiller
 			}
 		}
 		if st.HardOff {
-			eMiller := OverlapEnergy(v, st.IOff, a.trans.Tvr, 0)
 			a.eoff = CurrentFallEnergy(v, st.IOff, a.tFall, m.lloop)
 			if d.Method == MethodGateCharge {
-				a.eoff += eMiller
-				a.elcsOff = CurrentFallEnergy(v, st.IOff, a.trans.Tif, 0) - CurrentFallEnergy(v, st.IOff, a.tif0, 0)
+				a.eoff += OverlapEnergy(v, st.IOff, a.trans.Tvr, 0)
+				if m.lcs > 0 {
+					a.elcsOff = OverlapEnergy(v, st.IOff, a.trans.Tif-a.tif0, 0)
+				}
 			}
-			a.eloop += q.Energy(0.5 * float64(m.lloop) * float64(st.IOff) * float64(st.IOff))
-			a.vpeak = LoopOvershoot(v, m.lloop, st.IOff, a.tFall)
+			if m.lloop > 0 {
+				a.eloop += q.Energy(0.5 * float64(m.lloop) * float64(st.IOff) * float64(st.IOff))
+				a.vpeak = LoopOvershoot(v, m.lloop, st.IOff, a.tFall)
+			}
 		}
 	}
 
 	// Dead-time reverse conduction.
 	if m.dead {
-		a.vsd1 = d.reverseDrop(st.IDead1, drv.VOff, tj)
-		a.vsd2 = d.reverseDrop(st.IDead2, drv.VOff, tj)
+		a.vsd1, a.vsd2 = m.reverseDrops(tj)
 		a.edead = DeadTimeEnergy(a.vsd1, st.IDead1, m.s.DeadTime.V, a.vsd2, st.IDead2, m.s.DeadTime.V)
 	}
 	a.p = q.Power(float64(a.eon+a.eoff+a.edead+a.split.Rint) * m.f)
+}
+
+// chargeTime is the time gate current i takes to move charge qq (+Inf when
+// no current flows).
+func chargeTime(qq q.Charge, i q.Current) q.Time {
+	if i <= 0 {
+		return q.Time(math.Inf(1))
+	}
+	return q.Time(float64(qq) / float64(i))
+}
+
+// reverseDrops are the reverse-conduction drops in the two dead times at
+// tj (Device.reverseDrop, with the GaN resistances fixed by prepare).
+func (m *devModel) reverseDrops(tj q.Temperature) (q.Voltage, q.Voltage) {
+	d, st := m.d, m.st
+	voff := m.s.Driver.VOff
+	if m.rRev == 0 {
+		return d.reverseDrop(st.IDead1, voff, tj), d.reverseDrop(st.IDead2, voff, tj)
+	}
+	r := m.rRev * d.Temp.Factor(tj)
+	return d.ganReverseDrop(st.IDead1, voff, tj, r, m.rRev25), d.ganReverseDrop(st.IDead2, voff, tj, r, m.rRev25)
 }
 
 func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchStress, k *partnerCharge, tr *Trace) {
@@ -454,6 +533,8 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		}
 	}
 
+	m.prepare()
+
 	// Output capacitance and recovery at the hard turn-on: independent of
 	// this switch's temperature (the partner's recovered charge is taken at
 	// the partner's junction temperature).
@@ -502,9 +583,13 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	out.Rth, out.Flags = rthv, out.Flags|fl
 	esoft := softTurnOn(out, pt, d, st, k, tr) // light-load turn-on (point.go)
 	fixed := out.Losses.Coss + out.Losses.Recovery + q.Power(float64(esoft)*f)
+	// The solver's last evaluation is usually at the temperature it
+	// returns: keep it and compute again only when it is not.
+	var a tempState
+	lastT := q.Temperature(math.NaN())
 	other := func(t q.Temperature) q.Power {
-		var a tempState
 		m.at(t, &a)
+		lastT = t
 		return a.p
 	}
 	tm := ThermalModel{Fixed: fixed, Cond: Conduction(st.IRms, rdyn), Law: d.Temp, Other: other}
@@ -522,8 +607,9 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	}
 
 	// Everything at the solved temperature.
-	var a tempState
-	m.at(tj, &a)
+	if lastT != tj {
+		m.at(tj, &a)
+	}
 	out.Vth, out.VplOn, out.VplOff = a.vth, a.vplOn, a.vplOff
 	out.Qg, out.Egate = a.qg, a.egate
 	out.Losses.GateDriver = q.Power(float64(a.split.Driver) * f)
@@ -738,15 +824,7 @@ func (d *Device) reverseDrop(i q.Current, vOff q.Voltage, tj q.Temperature) q.Vo
 	p := d.Part
 	if p.Technology == devices.GaN {
 		r0 := float64(d.Gate.At(p.RdsOnVgs)) // at rds_on_tj
-		r, r25 := r0*d.Temp.Factor(tj), r0*d.Temp.Factor(25)
-		voff := q.Voltage(math.Abs(float64(vOff)))
-		v := d.ThresholdAt(tj) + voff + q.Voltage(float64(i)*r)
-		if p.Vsd.OK && p.VsdIf.OK {
-			// Shift the datasheet point (at Voff = 0) to this current,
-			// off level and temperature.
-			v = p.Vsd.V + (d.ThresholdAt(tj) - d.Vth) + voff + q.Voltage(float64(i)*r-float64(p.VsdIf.V)*r25)
-		}
-		return max(v, 0)
+		return d.ganReverseDrop(i, vOff, tj, r0*d.Temp.Factor(tj), r0*d.Temp.Factor(25))
 	}
 	v := vsdSi
 	switch {
@@ -756,4 +834,19 @@ func (d *Device) reverseDrop(i q.Current, vOff q.Voltage, tj q.Temperature) q.Vo
 		v = vsdSiC
 	}
 	return DiodeDropAt(v, d.VsdTC, tj)
+}
+
+// ganReverseDrop is reverseDrop for GaN with the channel resistance r at tj
+// and r25 at 25 °C given, Ω.
+func (d *Device) ganReverseDrop(i q.Current, vOff q.Voltage, tj q.Temperature, r, r25 float64) q.Voltage {
+	p := d.Part
+	voff := q.Voltage(math.Abs(float64(vOff)))
+	vth := d.ThresholdAt(tj)
+	v := vth + voff + q.Voltage(float64(i)*r)
+	if p.Vsd.OK && p.VsdIf.OK {
+		// Shift the datasheet point (at Voff = 0, 25 °C) to this current,
+		// off level and temperature.
+		v = p.Vsd.V + (vth - d.Vth) + voff + q.Voltage(float64(i)*r-float64(p.VsdIf.V)*r25)
+	}
+	return max(v, 0)
 }

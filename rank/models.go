@@ -147,6 +147,11 @@ func (c GateCurve) Charge(v q.Voltage) q.Charge {
 // Source: Balogh 2001 (energy bookkeeping of the gate drive); the integral
 // is taken exactly over the piecewise-linear curve.
 func (c GateCurve) StoredEnergy(vOff, vOn q.Voltage) q.Energy {
+	return c.storedEnergy(vOff, vOn, c.Charge(vOff), c.Charge(vOn))
+}
+
+// storedEnergy is StoredEnergy with the charges at the two ends given.
+func (c GateCurve) storedEnergy(vOff, vOn q.Voltage, qOff, qOn q.Charge) q.Energy {
 	// Breakpoints of the curve in voltage; the plateau is a jump in charge at Vpl.
 	type pt struct {
 		v q.Voltage
@@ -155,7 +160,7 @@ func (c GateCurve) StoredEnergy(vOff, vOn q.Voltage) q.Energy {
 	var pts [6]pt
 	n := 0
 	add := func(v q.Voltage, qq q.Charge) { pts[n] = pt{v, qq}; n++ }
-	add(vOff, c.Charge(vOff))
+	add(vOff, qOff)
 	if vOff < 0 && vOn > 0 {
 		add(0, 0)
 	}
@@ -166,7 +171,7 @@ func (c GateCurve) StoredEnergy(vOff, vOn q.Voltage) q.Energy {
 		add(c.Vpl, c.Qth+c.Qgs2)
 		add(c.Vpl, c.Qth+c.Qgs2+c.Qgd)
 	}
-	add(vOn, c.Charge(vOn))
+	add(vOn, qOn)
 	var e float64
 	for i := 1; i < n; i++ {
 		dq := float64(pts[i].q - pts[i-1].q)

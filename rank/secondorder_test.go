@@ -261,3 +261,31 @@ func TestSolveJunctionWholeLoss(t *testing.T) {
 	m.Other = nil
 	near(t, "Tj without switching", float64(SolveJunction(&m, 50, 40, 175).Tj), 111.01, 1e-4)
 }
+
+// A steep loss law has two roots of Tj = Ta + Rth·P(Tj): the stable steady
+// state (loop gain < 1) and an unstable one above it (gain > 1), beyond
+// which the loss runs away. P = 0.2 W + 0.3 W·(T/298.15 K)⁸ on 35 K/W from
+// 25 °C: g(T) = T − Ta − Rth·P(T) changes sign between 50 and 60 °C
+// (stable) and again between 100 and 120 °C (unstable), by hand. The solver
+// must return the stable one (fixed-point theory: only a root with
+// |G′| < 1 attracts the iteration), found here independently by bisection.
+func TestSolveJunctionStableRoot(t *testing.T) {
+	m := ThermalModel{Fixed: 0.2, Cond: 0.3, Law: TempLaw{T0: 25, Alpha: 8}}
+	g := func(t float64) float64 { return t - 25 - 35*m.At(q.Temperature(t)) }
+	lo, hi := 50.0, 60.0
+	if g(lo) >= 0 || g(hi) <= 0 || g(100) <= 0 || g(120) >= 0 {
+		t.Fatalf("the law does not have the two roots worked by hand: g(50) %g, g(60) %g, g(100) %g, g(120) %g", g(50), g(60), g(100), g(120))
+	}
+	for range 60 {
+		if mid := (lo + hi) / 2; g(mid) > 0 {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	s := SolveJunction(&m, 25, 35, 175)
+	if !s.Found || s.Status != ThermalSolved || s.Gain >= 1 {
+		t.Fatalf("got %+v", s)
+	}
+	near(t, "stable Tj", float64(s.Tj), lo, 1e-5)
+}

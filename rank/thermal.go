@@ -71,42 +71,105 @@ type ThermalSolution struct {
 }
 
 const (
-	thermalTol     = 1e-6 // K
+	thermalTol     = 1e-4 // K: residual of Tj = Ta + Rth·P(Tj) (Tj is reported to 0.01 K)
 	thermalMaxIter = 100
 )
 
-// SolveJunction solves Tj = Ta + Rth·P(Tj) by fixed-point iteration from Ta,
-// falling back to bisection on [Ta, tjMax] (and above it, to report how far
-// above the rating the steady state lies). The loop gain g = Rth·dP/dT tells
-// stability: the iteration converges when g < 1; with g ≥ 1 at every
-// temperature up to the search limit there is no steady state (runaway).
+// SolveJunction solves Tj = Ta + Rth·P(Tj) to a residual
+// |Ta + Rth·P(Tj) − Tj| below 0.1 mK: by the secant method from one
+// fixed-point step off Ta; by the plain fixed-point iteration from Ta when
+// the secant iteration misbehaves; by bisection on [Ta, tjMax] (and above
+// it, to report how far above the rating the steady state lies) when the
+// iteration fails. The returned Tj is the last temperature at which P was
+// evaluated whenever the loop gain came from the iteration itself. The loop
+// gain g = Rth·dP/dT tells stability: the fixed-point iteration converges
+// when g < 1; with g ≥ 1 at every temperature up to the search limit there
+// is no steady state (runaway). A root with g ≥ 1 found by the secant
+// iteration is an unstable one, not a steady state: the plain iteration
+// decides.
 //
 // Source: the steady-state junction temperature of a device with a single
 // thermal resistance (IEC 60747-8 thermal characteristics); the stability
 // condition of the electro-thermal loop is standard fixed-point theory
-// (a contraction when |g| < 1).
+// (a contraction when |g| < 1); the secant method and Aitken's Δ² as in
+// Burden & Faires, Numerical Analysis, ch. 2.
 func SolveJunction(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) ThermalSolution {
-	p := m.At
+	p := func(t q.Temperature) float64 { return m.At(t) }
 	g := func(t q.Temperature) float64 { return float64(t) - float64(ta) - float64(rth)*p(t) }
 	gain := func(t q.Temperature) float64 {
 		h := 1e-3
 		return float64(rth) * (p(t+q.Temperature(h)) - p(t-q.Temperature(h))) / (2 * h)
 	}
+	G := func(t q.Temperature) q.Temperature { return ta + q.Temperature(float64(rth)*p(t)) }
 	var s ThermalSolution
+	record := func(t q.Temperature) {
+		if s.Iterations < len(s.History) {
+			s.History[s.Iterations] = t
+		}
+		s.Iterations++
+	}
+	done := func(t q.Temperature, gn float64) ThermalSolution {
+		s.Tj, s.Gain, s.Found = t, gn, true
+		if t > tjMax {
+			s.Status = ThermalAboveMax
+		}
+		return s
+	}
+	bad := func(t q.Temperature) bool {
+		return math.IsNaN(float64(t)) || math.IsInf(float64(t), 0) || t > tjMax+500 || t < ta-1
+	}
+
+	// Secant iteration on r(T) = G(T) − T, G(T) = Ta + Rth·P(T), started
+	// with one fixed-point step from Ta (its first step is Aitken's Δ²
+	// extrapolation of the fixed-point iteration). The loop gain at the
+	// root, G′ = 1 + r′, comes from the last secant when its points lie
+	// within 1 K of each other, else by central difference.
+	t0 := ta
+	record(t0)
+	r0 := float64(G(t0) - t0)
+	if math.Abs(r0) < thermalTol {
+		if gn := gain(t0); gn < 1 {
+			return done(t0, gn)
+		}
+	}
+	t1 := t0 + q.Temperature(r0)
+	for range thermalMaxIter / 2 {
+		if bad(t1) {
+			break
+		}
+		record(t1)
+		g1 := G(t1)
+		if bad(g1) {
+			break
+		}
+		r1 := float64(g1 - t1)
+		slope := (r1 - r0) / float64(t1-t0)
+		if math.Abs(r1) < thermalTol {
+			gn := 1 + slope
+			if math.Abs(float64(t1-t0)) > 1 || math.IsNaN(gn) || math.IsInf(gn, 0) {
+				gn = gain(t1)
+			}
+			if gn < 1 {
+				return done(t1, gn)
+			}
+			break // an unstable root: let the plain iteration decide
+		}
+		next := g1 // fixed-point step when the secant is unusable
+		if slope != 0 && !math.IsNaN(slope) && !math.IsInf(slope, 0) {
+			if x := t1 - q.Temperature(r1/slope); !bad(x) {
+				next = x
+			}
+		}
+		t0, r0, t1 = t1, r1, next
+	}
+
+	// Plain fixed-point iteration from Ta.
 	t := ta
 	for i := 0; i < thermalMaxIter; i++ {
-		if i < len(s.History) {
-			s.History[i] = t
-		}
-		next := ta + q.Temperature(float64(rth)*p(t))
-		s.Iterations = i + 1
+		record(t)
+		next := G(t)
 		if math.Abs(float64(next-t)) < thermalTol {
-			t = next
-			s.Tj, s.Gain, s.Found = t, gain(t), true
-			if t > tjMax {
-				s.Status = ThermalAboveMax
-			}
-			return s
+			return done(t, gain(t))
 		}
 		if next > tjMax+500 || math.IsNaN(float64(next)) {
 			break
