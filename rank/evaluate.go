@@ -118,7 +118,8 @@ type Result struct {
 	Losses   Losses // sum over the devices and their drivers
 	Flags    Flags
 	Screens  Screens
-	Derate   q.Ratio // the stage's voltage derating, for the screen's message
+	Derate   q.Ratio  // the stage's voltage derating, for the screen's message
+	RF       RFResult // class E and class D values (zero for other stages)
 }
 
 // Screened reports whether the part is set aside.
@@ -158,7 +159,9 @@ func (r *Result) Tj() (q.Temperature, bool) {
 // temperature (docs/second-order.md).
 func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 	r := Result{Dev: dev, Position: pt.Stage.Position, Derate: pt.Stage.Derate}
-	if !pt.HasSync {
+	if pt.Stage.Topology.resonant() {
+		evaluateRF(&r, pt, dev, partner, tr)
+	} else if !pt.HasSync {
 		r.N = 1
 		var k partnerCharge
 		if pt.HasDiode {

@@ -45,6 +45,7 @@ const (
 	FlagFalseOnUnchecked                   // no capacitance data: false turn-on not screened
 	FlagGateSpike                          // negative gate bounce below vgs_min (transient)
 	FlagSiCLowDrive                        // SiC part driven below 15 V
+	FlagNoHysteresis                       // class E: no eoss_loss column, hysteresis loss not counted
 	flagCount
 )
 
@@ -82,6 +83,7 @@ var flagText = [...]struct{ code, text string }{
 	{"fto?", "no ciss/crss or gate-charge data: false turn-on of the off switch not screened"},
 	{"vgs-spike", "the dv/dt at the other switch's turn-off pulls the gate below vgs_min (a transient: check the transient rating)"},
 	{"sic-drive", "SiC part driven below 15 V: its on-resistance and switching data are usually given at 15-20 V"},
+	{"hyst?", "no eoss_loss: output-capacitance hysteresis loss under soft switching not counted"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".
@@ -130,4 +132,6 @@ const (
 	ScreenRunaway                            // no steady junction temperature
 	ScreenNoOutputCap                        // no usable output-capacitance data for the position
 	ScreenFalseTurnOn                        // the off switch's gate reaches its hot threshold (dv/dt bounce or off level)
+	ScreenShuntTooSmall                      // class E: the part's output capacitance alone exceeds the shunt the design needs
+	ScreenTooSlow                            // class E: the current fall takes too large a part of the period
 )

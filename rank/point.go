@@ -97,6 +97,8 @@ type Point struct {
 	Mode Mode
 	// LightLoad is how the stage was taken to run at light load.
 	LightLoad LightLoad
+	// RF is the resonant design of a class E or class D point.
+	RF RFPoint
 	// Notes are what Resolve assumed or noticed, for the user.
 	Notes []string
 }
@@ -132,9 +134,15 @@ func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 			IPeak: max(s.Ion, s.Ioff, s.Irms), HardOn: true, HardOff: true,
 		}
 		return pt, nil
+	case ClassE, ClassD:
+		if err := s.resolveRF(&pt); err != nil {
+			return Point{}, err
+		}
+		pt.Stage = s
+		return pt, nil
 	case Buck, Boost:
 	default:
-		return Point{}, fmt.Errorf("topology %s: use its own command path", s.Topology)
+		return Point{}, fmt.Errorf("unknown topology %s", s.Topology)
 	}
 	var v q.Voltage // cell voltage
 	var d float64   // control-switch duty

@@ -105,7 +105,10 @@ func (r *Result) Reasons() []string {
 		add := func(format string, a ...any) { out = append(out, who+": "+fmt.Sprintf(format, a...)) }
 		if s&ScreenVoltage != 0 {
 			v := max(d.Vpeak, d.Stress.V)
-			if v > d.Stress.V {
+			if r.RF.VPeak > 0 {
+				add("peak switch voltage %s (with this part's own output capacitance in the resonant stage) exceeds %.0f %% of vds_max %s",
+					r.RF.VPeak, 100*float64(r.Derate), p.VdsMax)
+			} else if v > d.Stress.V {
 				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %.0f %% of vds_max %s",
 					v, d.Stress.V, 100*float64(r.Derate), p.VdsMax)
 			} else {
@@ -141,6 +144,16 @@ func (r *Result) Reasons() []string {
 			f := &d.FalseOn
 			add("false turn-on: the off gate rises %s by dv/dt bounce and comes within %s of its hot threshold %s (margin ≤ 0)",
 				f.Bounce, f.Margin, f.Vth)
+		}
+		if s&ScreenShuntTooSmall != 0 {
+			add("its output capacitance (%s over the swing) exceeds the %s shunt capacitance the class E design needs; it holds class E only up to %s",
+				r.RF.CDevice, r.RF.CRequired, r.RF.FMax)
+		}
+		if s&ScreenTooSlow != 0 {
+			add("its current fall time %s is too long a part of the period for class E", r.RF.Tf)
+		}
+		if s&ScreenNoOutputCap != 0 {
+			add("its output-capacitance law cannot be evaluated over this swing")
 		}
 		if s&ScreenRunaway != 0 {
 			add("thermal runaway: the loss rises faster with temperature than the heat path removes it (no steady temperature up to %s)", d.Dev.TjMax+500)

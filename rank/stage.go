@@ -172,6 +172,20 @@ type Stage struct {
 	Ioff   q.Current // drain current at turn-off, A; ≥ 0
 	Irms   q.Current // rms drain current, A; ≥ 0
 
+	// Resonant stages (class E, class D).
+	// RLoad is the load resistance seen by the stage, Ω; give it or Pout.
+	RLoad q.Resistance
+	// QL is the loaded Q of the series tank, ωL/R. 0 means the ideal
+	// limit (class E: Q_L → ∞, closed form); class E needs ≥ 1.7879.
+	// Class D: required with F0.
+	QL q.Ratio
+	// F0 is the tank's resonant frequency (class D), Hz; with QL it sets
+	// the load phase at Fsw.
+	F0 q.Frequency
+	// Phase is the load phase at Fsw (class D), rad; > 0 above resonance.
+	// Overrides F0 and QL.
+	Phase q.Opt[q.Ratio]
+
 	Driver Driver
 
 	// Ambient is the ambient temperature, °C. Default 25 °C.

@@ -72,8 +72,8 @@ func prepare(in *inputs, stderr io.Writer) (*rank.Point, []rank.Device, *rank.De
 	}
 	var partner *rank.Device
 	if in.partner != "" {
-		if !pt.HasSync {
-			return nil, nil, nil, nil, errors.New("--partner needs a synchronous buck or boost stage")
+		if !pt.HasSync || pt.Stage.Topology == rank.ClassD {
+			return nil, nil, nil, nil, errors.New("--partner needs a synchronous buck or boost stage (class D ranks the part in both places)")
 		}
 		if partner, err = findDevice(devs, in.partner); err != nil {
 			return nil, nil, nil, nil, fmt.Errorf("--partner: %w", err)

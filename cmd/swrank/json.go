@@ -26,39 +26,44 @@ type jsonStress struct {
 }
 
 type jsonPoint struct {
-	Topology     string      `json:"topology"`
-	Rectifier    string      `json:"rectifier,omitempty"`
-	Position     string      `json:"position"`
-	VinV         float64     `json:"vin_v,omitempty"`
-	VoutV        float64     `json:"vout_v,omitempty"`
-	IoutA        float64     `json:"iout_a,omitempty"`
-	PoutW        float64     `json:"pout_w"`
-	FswHz        float64     `json:"fsw_hz"`
-	ILA          float64     `json:"inductor_current_a,omitempty"`
-	RippleA      float64     `json:"ripple_a"`
-	InductanceH  float64     `json:"inductance_h,omitempty"`
-	DeadTimeS    *float64    `json:"dead_time_s,omitempty"`
-	DiodeVfV     *float64    `json:"diode_vf_v,omitempty"`
-	DiodeQrrC    *float64    `json:"diode_qrr_coulomb,omitempty"`
-	DiodeCjF     *float64    `json:"diode_cj_farad,omitempty"`
-	DiodeLossW   *float64    `json:"diode_loss_w,omitempty"`
-	VdriveV      float64     `json:"vdrive_v"`
-	VdriveOffV   float64     `json:"vdrive_off_v"`
-	RsrcOhm      float64     `json:"rsrc_ohm"`
-	RsnkOhm      float64     `json:"rsnk_ohm"`
-	IpkSrcA      float64     `json:"ipk_src_a"`
-	IpkSnkA      float64     `json:"ipk_snk_a"`
-	RgExtOhm     float64     `json:"rg_ext_ohm"`
-	IqA          float64     `json:"iq_a"`
-	TaDegC       float64     `json:"ta_degc"`
-	RthCAKperW   *float64    `json:"rth_ca_k_per_w,omitempty"`
-	TjFixedDegC  *float64    `json:"tj_fixed_degc,omitempty"`
-	Derate       float64     `json:"derate"`
-	Control      jsonStress  `json:"control"`
-	Sync         *jsonStress `json:"sync,omitempty"`
-	Notes        []string    `json:"notes"`
-	Library      string      `json:"library,omitempty"`
-	LibraryParts int         `json:"library_parts,omitempty"`
+	Topology           string      `json:"topology"`
+	Rectifier          string      `json:"rectifier,omitempty"`
+	Position           string      `json:"position"`
+	VinV               float64     `json:"vin_v,omitempty"`
+	VoutV              float64     `json:"vout_v,omitempty"`
+	IoutA              float64     `json:"iout_a,omitempty"`
+	PoutW              float64     `json:"pout_w"`
+	FswHz              float64     `json:"fsw_hz"`
+	ILA                float64     `json:"inductor_current_a,omitempty"`
+	RippleA            float64     `json:"ripple_a"`
+	InductanceH        float64     `json:"inductance_h,omitempty"`
+	DeadTimeS          *float64    `json:"dead_time_s,omitempty"`
+	DiodeVfV           *float64    `json:"diode_vf_v,omitempty"`
+	DiodeQrrC          *float64    `json:"diode_qrr_coulomb,omitempty"`
+	DiodeCjF           *float64    `json:"diode_cj_farad,omitempty"`
+	DiodeLossW         *float64    `json:"diode_loss_w,omitempty"`
+	VdriveV            float64     `json:"vdrive_v"`
+	VdriveOffV         float64     `json:"vdrive_off_v"`
+	RsrcOhm            float64     `json:"rsrc_ohm"`
+	RsnkOhm            float64     `json:"rsnk_ohm"`
+	IpkSrcA            float64     `json:"ipk_src_a"`
+	IpkSnkA            float64     `json:"ipk_snk_a"`
+	RgExtOhm           float64     `json:"rg_ext_ohm"`
+	IqA                float64     `json:"iq_a"`
+	TaDegC             float64     `json:"ta_degc"`
+	RthCAKperW         *float64    `json:"rth_ca_k_per_w,omitempty"`
+	TjFixedDegC        *float64    `json:"tj_fixed_degc,omitempty"`
+	Derate             float64     `json:"derate"`
+	RLoadOhm           float64     `json:"rload_ohm,omitempty"`
+	QL                 float64     `json:"ql,omitempty"`
+	F0Hz               float64     `json:"f0_hz,omitempty"`
+	PhaseRad           *float64    `json:"phase_rad,omitempty"`
+	ShuntRequiredFarad *float64    `json:"shunt_required_farad,omitempty"`
+	Control            jsonStress  `json:"control"`
+	Sync               *jsonStress `json:"sync,omitempty"`
+	Notes              []string    `json:"notes"`
+	Library            string      `json:"library,omitempty"`
+	LibraryParts       int         `json:"library_parts,omitempty"`
 }
 
 type jsonLosses struct {
@@ -103,6 +108,17 @@ type jsonResult struct {
 	Screened bool         `json:"screened"`
 	Reasons  []string     `json:"reasons"`
 	Devices  []jsonDevice `json:"devices"`
+	// Class E and class D stages.
+	PeakV              *float64 `json:"peak_v,omitempty"`
+	PeakA              *float64 `json:"peak_a,omitempty"`
+	ShuntRequiredFarad *float64 `json:"shunt_required_farad,omitempty"`
+	ShuntDeviceFarad   *float64 `json:"shunt_device_farad,omitempty"`
+	ShuntExternalFarad *float64 `json:"shunt_external_farad,omitempty"`
+	FmaxHz             *float64 `json:"fmax_hz,omitempty"`
+	FallTimeS          *float64 `json:"fall_time_s,omitempty"`
+	ZVS                *bool    `json:"zvs,omitempty"`
+	ResidualV          *float64 `json:"residual_v,omitempty"`
+	EffWithDriver      *float64 `json:"eff_with_driver,omitempty"`
 }
 
 type jsonReport struct {
@@ -129,7 +145,17 @@ func pointJSON(pt *rank.Point) jsonPoint {
 	if j.Notes == nil {
 		j.Notes = []string{}
 	}
-	if s.Topology != rank.Custom {
+	if s.Topology == rank.ClassE || s.Topology == rank.ClassD {
+		j.VinV, j.RLoadOhm, j.QL = float64(s.Vin), float64(s.RLoad), float64(s.QL)
+		if s.Topology == rank.ClassE {
+			e := &pt.RF.E
+			j.ShuntRequiredFarad = ptr(float64(e.C1))
+		} else {
+			j.F0Hz = float64(s.F0)
+			j.PhaseRad = ptr(float64(pt.RF.D.Phase))
+			j.DeadTimeS = ptr(float64(s.DeadTime.V))
+		}
+	} else if s.Topology != rank.Custom {
 		j.Rectifier = s.Rectifier.String()
 		j.VinV, j.VoutV, j.IoutA, j.ILA = float64(s.Vin), float64(s.Vout), float64(s.Iout), float64(pt.IL)
 		j.InductanceH = float64(s.Inductance)
@@ -187,6 +213,17 @@ func resultJSON(i int, x *rank.Result, pout q.Power) jsonResult {
 	if pout > 0 {
 		j.EffStage = ptr(float64(pout) / float64(pout+x.Losses.Total()))
 		j.LossPct = ptr(100 * float64(x.Losses.Total()) / float64(pout))
+	}
+	if rf := &x.RF; rf.VPeak > 0 {
+		j.PeakV, j.PeakA, j.FallTimeS = ptr(float64(rf.VPeak)), ptr(float64(rf.IPeak)), ptr(float64(rf.Tf))
+		j.EffStage, j.EffWithDriver = ptr(float64(rf.EffStage)), ptr(float64(rf.EffWithDriver))
+		if rf.CRequired > 0 {
+			j.ShuntRequiredFarad, j.ShuntDeviceFarad = ptr(float64(rf.CRequired)), ptr(float64(rf.CDevice))
+			j.ShuntExternalFarad, j.FmaxHz = ptr(float64(rf.CExternal)), ptr(float64(rf.FMax))
+		} else {
+			z := rf.ZVS
+			j.ZVS, j.ResidualV = &z, ptr(float64(rf.VResidual))
+		}
 	}
 	for k := 0; k < x.N; k++ {
 		d := &x.Devices[k]

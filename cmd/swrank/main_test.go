@@ -289,3 +289,43 @@ func TestDemoExplainEqualsRank(t *testing.T) {
 		}
 	}
 }
+
+// Class E and class D through the command line: the JSON carries the
+// resonant values, and the hand case C design (Sokal & Sokal 1975; Raab
+// 1977: 12 V, 10 W, 6.78 MHz → C₁ 518.9 pF, R 8.3059 Ω) is what the
+// operating point reports.
+func TestResonantCLI(t *testing.T) {
+	code, out, e := runCLI(t, "rank", "--demo", "--topology", "class-e", "--vin", "12", "--pout", "10", "--fsw", "6.78M",
+		"--vdrive", "5", "--format", "json")
+	if code != 0 {
+		t.Fatalf("%d %s", code, e)
+	}
+	var rep jsonReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	op := rep.OperatingPoint
+	if op.ShuntRequiredFarad == nil || math.Abs(*op.ShuntRequiredFarad-518.9e-12) > 0.5e-12 || math.Abs(op.RLoadOhm-8.3059) > 1e-3 {
+		t.Errorf("operating point: %+v", op)
+	}
+	if len(rep.Results) == 0 {
+		t.Fatal("no results")
+	}
+	for _, r := range rep.Results {
+		if r.PeakV == nil || r.ShuntExternalFarad == nil || r.FmaxHz == nil || r.EffStage == nil || r.EffWithDriver == nil {
+			t.Fatalf("%s: missing class E fields", r.Part)
+		}
+		if *r.EffWithDriver > *r.EffStage || *r.PeakV < 3.5*12 {
+			t.Errorf("%s: eff %v/%v, peak %v", r.Part, *r.EffStage, *r.EffWithDriver, *r.PeakV)
+		}
+	}
+	code, out, e = runCLI(t, "rank", "--demo", "--topology", "class-d", "--vin", "48", "--pout", "50", "--fsw", "1M",
+		"--f0", "900k", "--ql", "5", "--dead-time", "40n", "--vdrive", "5")
+	if code != 0 || !strings.Contains(out, "class D half-bridge") || !strings.Contains(out, "ZVS") {
+		t.Errorf("class D: %d %s %s", code, out, e)
+	}
+	if code, _, e := runCLI(t, "rank", "--demo", "--topology", "class-e", "--vin", "12", "--pout", "10", "--fsw", "6.78M",
+		"--ql", "1.5", "--vdrive", "5"); code == 0 || !strings.Contains(e, "1.7879") {
+		t.Errorf("Q_L 1.5: %d %s", code, e)
+	}
+}

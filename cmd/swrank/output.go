@@ -84,9 +84,35 @@ func tableRow(i int, x *rank.Result, pout q.Power) []string {
 	if x.Screened() {
 		rankNo = "x"
 	}
-	return []string{rankNo, name, fmtP(l.Conduction), fmtP(l.TurnOn), fmtP(l.TurnOff), fmtP(l.Coss),
+	row := []string{rankNo, name, fmtP(l.Conduction), fmtP(l.TurnOn), fmtP(l.TurnOff), fmtP(l.Coss),
 		fmtP(l.DeadTime + l.Recovery), fmtP(l.GateRint), fmtP(l.Switch()), fmtP(l.Driver()), fmtP(l.Total()),
-		tj, pct, methods(x) + flagCodes(x.Flags)}
+		tj, pct}
+	if rf := &x.RF; rf.VPeak > 0 {
+		pc := func(v q.Ratio) string { return strconv.FormatFloat(100*float64(v), 'f', 2, 64) }
+		if rf.CRequired > 0 {
+			row = append(row, q.Format(rf.VPeak, 3), q.Format(rf.CExternal, 3), q.Format(rf.FMax, 3))
+		} else {
+			zvs := "full"
+			if !rf.ZVS {
+				zvs = "from " + q.Format(rf.VResidual, 3)
+			}
+			row = append(row, q.Format(rf.VPeak, 3), zvs)
+		}
+		row = append(row, pc(rf.EffStage), pc(rf.EffWithDriver))
+	}
+	return append(row, methods(x)+flagCodes(x.Flags))
+}
+
+// header returns the table's column names for the stage.
+func header(pt *rank.Point) []string {
+	h := append([]string(nil), tableHeader[:len(tableHeader)-1]...)
+	switch pt.Stage.Topology {
+	case rank.ClassE:
+		h = append(h, "peak V", "C ext", "f max", "η stage %", "η +driver %")
+	case rank.ClassD:
+		h = append(h, "V", "ZVS", "η stage %", "η +driver %")
+	}
+	return append(h, tableHeader[len(tableHeader)-1])
 }
 
 func methods(x *rank.Result) string {
@@ -110,6 +136,19 @@ func describePoint(w io.Writer, pt *rank.Point, source string, parts int) {
 	s := &pt.Stage
 	d := &s.Driver
 	switch s.Topology {
+	case rank.ClassE:
+		e := &pt.RF.E
+		ql := "ideal (Q → ∞)"
+		if s.QL > 0 {
+			ql = strconv.FormatFloat(float64(s.QL), 'g', 4, 64)
+		}
+		fmt.Fprintf(w, "class E %s supply, %s into %s at %s, loaded Q %s\n", s.Vin, e.Po, e.R, s.Fsw, ql)
+		fmt.Fprintf(w, "switch: %s dc, %s rms, %s peak, %s at turn-off; peak voltage %s with a linear shunt; shunt needed %s\n",
+			e.IDC, e.IRms, e.IPeak, e.IOff, e.VPeak, e.C1)
+	case rank.ClassD:
+		d := &pt.RF.D
+		fmt.Fprintf(w, "class D half-bridge %s, %s into %s at %s, load phase %.3f rad; tank current %s peak, %s at the edges; dead time %s\n",
+			s.Vin, d.Po, d.R, s.Fsw, float64(d.Phase), d.Im, d.ISwitch, s.DeadTime.V)
 	case rank.Custom:
 		fmt.Fprintf(w, "custom switch: %s blocked, %s at turn-on, %s at turn-off, %s rms, %s\n",
 			s.Vblock, s.Ion, s.Ioff, s.Irms, s.Fsw)
@@ -171,12 +210,16 @@ func renderTable(w io.Writer, r report, markdown bool) error {
 		describePoint(w, r.pt, r.source, r.parts)
 		fmt.Fprintln(w)
 	}
+	h := header(r.pt)
+	align := make([]tw.Align, len(h))
+	for i := range align {
+		align[i] = tw.AlignRight
+	}
+	align[1], align[len(h)-1] = tw.AlignLeft, tw.AlignLeft
 	opts := []tablewriter.Option{
 		tablewriter.WithHeaderAutoFormat(tw.Off),
-		tablewriter.WithHeader(tableHeader),
-		tablewriter.WithRowAlignmentConfig(tw.CellAlignment{PerColumn: []tw.Align{
-			tw.AlignRight, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight,
-			tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignLeft}}),
+		tablewriter.WithHeader(h),
+		tablewriter.WithRowAlignmentConfig(tw.CellAlignment{PerColumn: align}),
 	}
 	if markdown {
 		opts = append(opts, tablewriter.WithRenderer(renderer.NewMarkdown()))
