@@ -78,10 +78,14 @@ func (s *Suite) Summarise() Summary {
 }
 
 // pct prints a relative error as a signed percentage; an infinite one (a
-// simulated zero) as "n/a".
+// simulated zero) as "n/a", and one beyond +1000 % (a nearly lossless
+// simulated edge) as ">+1000%".
 func pct(x float64) string {
-	if math.IsInf(x, 0) || math.IsNaN(x) {
+	switch {
+	case math.IsInf(x, 0) || math.IsNaN(x):
 		return "n/a"
+	case x > 10:
+		return ">+1000%"
 	}
 	return fmt.Sprintf("%+.1f%%", 100*x)
 }
