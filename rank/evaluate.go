@@ -347,7 +347,17 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 		if m.qthPerV == 0 {
 			c.Qth = d.Qth
 		}
-		qOn, qOff := c.Charge(drv.VOn), c.Charge(drv.VOff)
+		var qOn, qOff q.Charge
+		if drv.VOn > c.Vpl { // GateCurve.Charge above the plateau
+			qOn = c.Qth + c.Qgs2 + c.Qgd + q.Charge(float64(c.Slope)*float64(drv.VOn-c.Vpl))
+		} else {
+			qOn = c.Charge(drv.VOn)
+		}
+		if drv.VOff <= 0 && m.qthPerV != 0 { // first segment, whatever Tj
+			qOff = q.Charge(m.qthPerV * float64(drv.VOff))
+		} else {
+			qOff = c.Charge(drv.VOff)
+		}
 		a.qg = qOn - qOff
 		a.egate = q.Energy(float64(a.qg) * float64(drv.VOn-drv.VOff)) // GateEnergy
 		a.stored = c.storedEnergy(drv.VOff, drv.VOn, qOff, qOn)
