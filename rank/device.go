@@ -127,7 +127,9 @@ func Prepare(p *devices.Part) (Device, error) {
 	case p.Technology == devices.GaN:
 		d.VgsMin, d.Flags = 0, d.Flags|FlagVgsMinDefault
 	default:
-		d.VgsMin, d.Flags = -p.VgsMax, d.Flags|FlagVgsMinDefault
+		// Flagged at evaluation, and only for a negative off level: a
+		// 0 V off level is inside any silicon or SiC gate rating.
+		d.VgsMin = -p.VgsMax
 	}
 	if !p.IdPulse.OK {
 		d.Flags |= FlagIdPulseMissing

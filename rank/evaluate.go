@@ -495,6 +495,9 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	if drv.VOff < d.VgsMin {
 		out.Screens |= ScreenGateMin
 	}
+	if drv.VOff < 0 && !p.VgsMin.OK {
+		out.Flags |= FlagVgsMinDefault
+	}
 	if drv.VOn <= d.Vth {
 		out.Screens |= ScreenBelowThreshold
 	} else if drv.VOn <= vplPk {

@@ -142,8 +142,12 @@ func (r *Result) Reasons() []string {
 		}
 		if s&ScreenFalseTurnOn != 0 {
 			f := &d.FalseOn
-			add("false turn-on: the off gate rises %s by dv/dt bounce and comes within %s of its hot threshold %s (margin ≤ 0)",
-				f.Bounce, f.Margin, f.Vth)
+			if f.Bounce == 0 {
+				add("false turn-on: the off level does not hold the gate below its hot threshold %s", f.Vth)
+			} else {
+				add("false turn-on: dv/dt lifts the off gate by %s, beyond its hot threshold %s (margin %s)",
+					f.Bounce, f.Vth, f.Margin)
+			}
 		}
 		if s&ScreenShuntTooSmall != 0 {
 			add("its output capacitance (%s over the swing) exceeds the %s shunt capacitance the class E design needs; it holds class E only up to %s",

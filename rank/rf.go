@@ -155,6 +155,9 @@ func rfScreens(out *DeviceResult, d *Device, s *Stage, vpeak q.Voltage) {
 	if drv.VOff < d.VgsMin {
 		out.Screens |= ScreenGateMin
 	}
+	if drv.VOff < 0 && !p.VgsMin.OK {
+		out.Flags |= FlagVgsMinDefault
+	}
 	vpl := PlateauAt(d.Vth, d.VplSpec, d.QgId, out.Stress.IPeak)
 	if drv.VOn <= d.Vth {
 		out.Screens |= ScreenBelowThreshold

@@ -110,6 +110,7 @@ func (in *inputs) register(fs *flag.FlagSet) {
 	fs.Var(qty[q.Ratio]{&s.QL}, "ql", "class E and D: loaded `Q` of the series tank (class E default: the ideal Q → ∞; at least 1.7879)")
 	fs.Var(qty[q.Frequency]{&s.F0}, "f0", "class D: resonant frequency of the tank, `Hz` (with --ql)")
 	fs.Var(opt[q.Ratio]{&s.Phase}, "phase", "class D: load phase at fsw, `RAD` (> 0 above resonance; instead of --f0 and --ql)")
+	fs.Var(qty[q.Inductance]{&s.LoopInductance}, "l-loop", "layout power-loop inductance added to the parts' own l_loop, `H` (default 0)")
 	fs.Var(qty[q.Voltage]{&s.Driver.VOn}, "vdrive", "gate drive on level, `V` (required)")
 	fs.Var(qty[q.Voltage]{&s.Driver.VOff}, "vdrive-off", "gate drive off level, `V`; negative for bipolar drive (default 0)")
 	fs.Var(qty[q.Resistance]{&s.Driver.RSource}, "rsrc", "driver source (pull-up) resistance, `OHM` (default 2)")
