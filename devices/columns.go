@@ -28,6 +28,7 @@ type column struct {
 	okOff    uintptr      // cellOpt: offset of Opt.OK within the field
 	kind     cellKind     //
 	qkind    q.Kind       // cellQty, cellOpt: the quantity's kind
+	parser   *q.Parser    // cellQty, cellOpt: parses the quantity
 	required bool         // the column must be present and every cell filled
 }
 
@@ -75,6 +76,9 @@ func buildSchema() *schema {
 		if name == "part" {
 			c.required = true
 		}
+		if c.kind == cellQty || c.kind == cellOpt {
+			c.parser = q.NewParser(c.qkind)
+		}
 		s.byName[name] = len(s.cols)
 		s.cols = append(s.cols, c)
 	}
@@ -109,7 +113,7 @@ func (c *column) set(p *Part, cell string) error {
 	ptr := unsafe.Add(unsafe.Pointer(p), c.offset)
 	switch c.kind {
 	case cellQty:
-		v, err := q.ParseFloat(cell, c.qkind)
+		v, err := c.parser.Parse(cell)
 		if err != nil {
 			return err
 		}
@@ -121,7 +125,7 @@ func (c *column) set(p *Part, cell string) error {
 			*(*bool)(unsafe.Add(ptr, c.okOff)) = false
 			return nil
 		}
-		v, err := q.ParseFloat(cell, c.qkind)
+		v, err := c.parser.Parse(cell)
 		if err != nil {
 			return err
 		}

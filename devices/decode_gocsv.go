@@ -29,11 +29,11 @@ func (r *rowsReader) ReadAll() ([][]string, error) {
 // the first cell that does not decode; the rows before it are already in
 // place, the failing row is decoded alone until every bad cell is known, and
 // the run resumes after it.
-func (l *loader) readGocsv(cr *csv.Reader) {
+func (l *loader) readGocsv(src source) {
 	var rows [][]string
 	var lines []int
 	for {
-		rec, line := l.next(cr)
+		rec, line := l.next(src)
 		if rec == nil {
 			break
 		}
@@ -65,11 +65,16 @@ func (l *loader) readGocsv(cr *csv.Reader) {
 		parts[i], errs[i] = l.gocsvRow(header, rows[i])
 		k = i + 1
 	}
+	if len(rows) > 0 {
+		l.sizeFor(rows[0])
+	}
 	for i := range rows {
 		if l.stopped {
 			return
 		}
-		l.finish(&parts[i], rows[i], lines[i], errs[i])
+		if l.finish(&parts[i], rows[i], lines[i], errs[i]) && l.parts != nil {
+			*l.parts = append(*l.parts, parts[i])
+		}
 	}
 }
 

@@ -2,13 +2,18 @@ package devices
 
 import (
 	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"testing"
 )
 
-// FuzzRead feeds arbitrary bytes to both decoders: no panic, the same
-// problems from both, every problem located in the file, and no invalid
+// FuzzRead feeds arbitrary bytes to every decoder: no panic, the same
+// problems from all, every problem located in the file, and no invalid
 // part accepted.
 func FuzzRead(f *testing.F) {
 	files, _ := filepath.Glob("testdata/parts/*.csv")
@@ -21,12 +26,14 @@ func FuzzRead(f *testing.F) {
 	}
 	f.Fuzz(func(t *testing.T, b []byte) {
 		a, pa := check(bytes.NewReader(b), "f.csv", decodeFast)
-		g, pg := check(bytes.NewReader(b), "f.csv", decodeGocsv)
-		if pa.Error() != pg.Error() {
-			t.Fatalf("decoders disagree:\n%v\n--\n%v", pa, pg)
-		}
-		if len(a.Parts) != len(g.Parts) {
-			t.Fatalf("parts %d vs %d", len(a.Parts), len(g.Parts))
+		for _, d := range []decoderKind{decodeParallel, decodeGocsv} {
+			g, pg := check(bytes.NewReader(b), "f.csv", d)
+			if pa.Error() != pg.Error() {
+				t.Fatalf("decoder %d disagrees:\n%v\n--\n%v", d, pa, pg)
+			}
+			if len(a.Parts) != len(g.Parts) {
+				t.Fatalf("decoder %d: parts %d vs %d", d, len(a.Parts), len(g.Parts))
+			}
 		}
 		for _, p := range pa {
 			if p.File != "f.csv" || p.Err == nil {
@@ -39,4 +46,39 @@ func FuzzRead(f *testing.F) {
 			}
 		}
 	})
+}
+
+// FuzzRows checks the row reader against encoding/csv, configured as the
+// loader configures it: the same records, lines and errors.
+func FuzzRows(f *testing.F) {
+	files, _ := filepath.Glob("testdata/parts/*.csv")
+	for _, name := range files {
+		b, err := os.ReadFile(name)
+		if err != nil {
+			f.Fatal(err)
+		}
+		f.Add(b)
+	}
+	for _, s := range []string{"a,\"b\"\"c\",d\r\n", "\"a\nb\",c\n", "\"abc", "a\"b,c\n", "\"a\"b\n", "x\r", "#c\n\n\na\n", "\"\"\n"} {
+		f.Add([]byte(s))
+	}
+	f.Fuzz(func(t *testing.T, b []byte) {
+		rowsAgree(t, b)
+	})
+}
+
+func rowsAgree(t *testing.T, b []byte) {
+	t.Helper()
+	want := csvSource{newCSVReader(bytes.NewReader(b), false)}
+	got := newRowReader(bytes.NewReader(b))
+	for i := 0; i < 1e6; i++ {
+		wr, wl, werr := want.next()
+		gr, gl, gerr := got.next()
+		if fmt.Sprint(werr) != fmt.Sprint(gerr) || !slices.Equal(wr, gr) || (wr != nil && wl != gl) {
+			t.Fatalf("record %d: encoding/csv %q line %d %v; rowReader %q line %d %v", i, wr, wl, werr, gr, gl, gerr)
+		}
+		if werr == io.EOF || (werr != nil && !errors.As(werr, new(*csv.ParseError))) {
+			return
+		}
+	}
 }

@@ -57,15 +57,18 @@ func Load(path string) (*Library, error) {
 // warnings included, in file order: what a user needs to fix. The library
 // is unusable when any problem is fatal (probs.Fatal()).
 func Check(r io.Reader, name string) (*Library, ProblemList) {
-	return check(r, name, decodeFast)
+	return check(r, name, defaultDecoder())
 }
 
 func check(r io.Reader, name string, d decoderKind) (*Library, ProblemList) {
 	lib := &Library{Source: name}
-	hdr, probs := scan(r, name, d, func(p *Part) error {
-		lib.Parts = append(lib.Parts, *p)
-		return nil
-	})
+	l := newLoader(name, nil)
+	l.parts = &lib.Parts
+	l.sizeHint = sizeOf(r)
+	hdr, probs := l.scan(r, d)
+	if len(lib.Parts) == 0 {
+		lib.Parts = nil
+	}
 	lib.Columns, lib.Unknown = hdr.Columns, hdr.Unknown
 	for _, p := range probs {
 		if !p.Fatal {
@@ -75,13 +78,29 @@ func check(r io.Reader, name string, d decoderKind) (*Library, ProblemList) {
 	return lib, probs
 }
 
+// sizeOf returns the number of bytes left in r when r can tell (an open
+// file, a bytes or strings reader), else 0. It only sizes the part slice.
+func sizeOf(r io.Reader) int64 {
+	switch r := r.(type) {
+	case interface{ Len() int }:
+		return int64(r.Len())
+	case *os.File:
+		if st, err := r.Stat(); err == nil && st.Mode().IsRegular() {
+			return st.Size()
+		}
+	}
+	return 0
+}
+
 // Scan reads a parts library like Check but holds no parts: it calls fn
 // for each valid part, in file order, with a pointer to a Part that is
 // reused for the next row (copy it to keep it). When fn returns an error,
 // Scan stops and the list ends with a fatal problem wrapping that error.
 // Duplicate names are still detected, from the names seen so far.
 func Scan(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) {
-	return scan(r, name, decodeFast, fn)
+	l := newLoader(name, fn)
+	l.sizeHint = sizeOf(r)
+	return l.scan(r, defaultDecoder())
 }
 
 // decoderKind chooses how cells become Part fields. Both give the same
@@ -89,9 +108,18 @@ func Scan(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) 
 type decoderKind uint8
 
 const (
-	decodeFast  decoderKind = iota // per-column setters built from Part's tags, streaming
-	decodeGocsv                    // gocsv's reflective unmarshal of the whole file
+	decodeFast     decoderKind = iota // per-column setters built from Part's tags, streaming
+	decodeParallel                    // the same, with rows decoded by several goroutines
+	decodeGocsv                       // gocsv's reflective unmarshal of the whole file
 )
+
+// defaultDecoder is the parallel decoder when there is more than one CPU.
+func defaultDecoder() decoderKind {
+	if workerCount() > 1 {
+		return decodeParallel
+	}
+	return decodeFast
+}
 
 // cellErr is a cell that did not decode.
 type cellErr struct {
@@ -107,13 +135,43 @@ type loader struct {
 	fileCol []int           // index in partSchema.cols → 1-based file column, or 0
 	missing map[string]bool // required columns absent from the header
 	probs   ProblemList
-	names   map[string]int // lower-cased part name → line of its first row
-	fn      func(*Part) error
+	names   *nameSet          // part names seen, with their lines
+	fn      func(*Part) error // called with each valid part (Scan)
+	parts   *[]Part           // or: valid parts are decoded in place here (Check)
 	stopped bool
 	rows    int // data rows seen
+	// sizeHint is the input size in bytes when known; with the length of
+	// the first row it sizes *parts once instead of growing it.
+	sizeHint int64
+}
+
+func newLoader(name string, fn func(*Part) error) *loader {
+	return &loader{file: name, fn: fn}
 }
 
 var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
+
+// source yields records with the file line of their first field.
+type source interface {
+	next() (rec []string, line int, err error)
+}
+
+// csvSource reads with encoding/csv (the gocsv decoder's path).
+type csvSource struct{ r *csv.Reader }
+
+func (c csvSource) next() ([]string, int, error) {
+	rec, err := c.r.Read()
+	if rec == nil {
+		return nil, 0, err
+	}
+	line, _ := c.r.FieldPos(0)
+	return rec, line, err
+}
+
+func (t *rowReader) next() ([]string, int, error) {
+	rec, err := t.read()
+	return rec, t.line, err
+}
 
 // newCSVReader configures encoding/csv for parts libraries: '#' comment
 // lines, ragged rows reported by the loader, a UTF-8 BOM skipped. Blank
@@ -143,18 +201,25 @@ func normalizeHeader(h string) string {
 	return strings.ToLower(strings.TrimSpace(h))
 }
 
-func scan(r io.Reader, name string, d decoderKind, fn func(*Part) error) (Header, ProblemList) {
-	l := &loader{file: name, fn: fn, names: map[string]int{}}
+func (l *loader) scan(r io.Reader, d decoderKind) (Header, ProblemList) {
+	name := l.file
 	l.hdr.Source = name
-	cr := newCSVReader(r, d == decodeFast)
-	if !l.readHeader(cr) {
+	var src source
+	if d == decodeGocsv {
+		src = csvSource{newCSVReader(r, false)}
+	} else {
+		src = newRowReader(r)
+	}
+	if !l.readHeader(src) {
 		return l.hdr, l.probs
 	}
 	switch d {
 	case decodeGocsv:
-		l.readGocsv(cr)
+		l.readGocsv(src)
+	case decodeParallel:
+		l.readParallel(src)
 	default:
-		l.readFast(cr)
+		l.readFast(src)
 	}
 	if l.rows == 0 && !l.stopped {
 		l.probs = append(l.probs, &Problem{File: name, Line: l.hdr.Line, Err: ErrNoParts, Fatal: true})
@@ -177,8 +242,8 @@ func (l *loader) problem(p *Problem) {
 
 // readHeader reads the header row and matches it to Part's columns. It
 // returns false when there is no usable header.
-func (l *loader) readHeader(cr *csv.Reader) bool {
-	rec, err := cr.Read()
+func (l *loader) readHeader(src source) bool {
+	rec, line, err := src.next()
 	for err != nil {
 		var pe *csv.ParseError
 		switch {
@@ -193,14 +258,13 @@ func (l *loader) readHeader(cr *csv.Reader) bool {
 			return false
 		}
 	}
-	line, _ := cr.FieldPos(0)
 	l.hdr.Line = line
 	sch := partSchema
 	l.colOf = make([]int, len(rec))
 	l.fileCol = make([]int, len(sch.cols))
 	l.hdr.Columns = make([]string, len(rec))
 	for j, h := range rec {
-		n := normalizeHeader(h)
+		n := strings.Clone(normalizeHeader(h))
 		l.hdr.Columns[j] = n
 		l.colOf[j] = -1
 		ci, known := sch.byName[n]
@@ -210,10 +274,10 @@ func (l *loader) readHeader(cr *csv.Reader) bool {
 		case !known:
 			if !slices.Contains(l.hdr.Unknown, n) { // report each name once
 				l.hdr.Unknown = append(l.hdr.Unknown, n)
-				l.problem(&Problem{Line: line, Column: j + 1, Field: n, Text: h, Err: ErrUnknownColumn})
+				l.problem(&Problem{Line: line, Column: j + 1, Field: n, Text: strings.Clone(h), Err: ErrUnknownColumn})
 			}
 		case l.fileCol[ci] != 0:
-			l.problem(&Problem{Line: line, Column: j + 1, Field: n, Text: h, Fatal: true,
+			l.problem(&Problem{Line: line, Column: j + 1, Field: n, Text: strings.Clone(h), Fatal: true,
 				Err: fmt.Errorf("%w (first as column %d)", ErrDuplicateColumn, l.fileCol[ci])})
 		default:
 			l.colOf[j] = ci
@@ -234,31 +298,36 @@ func (l *loader) readHeader(cr *csv.Reader) bool {
 
 // next reads the next record, reporting syntax errors and ragged rows as
 // problems. It returns nil at the end of the input.
-func (l *loader) next(cr *csv.Reader) (rec []string, line int) {
+func (l *loader) next(src source) (rec []string, line int) {
+	return l.nextRow(src, &l.probs, &l.rows)
+}
+
+// nextRow is next with the problems and the row count kept where the
+// caller says (the reading goroutine of the parallel decoder keeps its own).
+func (l *loader) nextRow(src source, probs *ProblemList, rows *int) (rec []string, line int) {
 	for {
-		rec, err := cr.Read()
+		rec, line, err := src.next()
 		if err != nil {
 			var pe *csv.ParseError
 			switch {
 			case errors.Is(err, io.EOF):
 				return nil, 0
 			case errors.As(err, &pe):
-				l.rows++
-				l.problem(&Problem{Line: pe.Line, Err: fmt.Errorf("byte %d of the line: %w", pe.Column, pe.Err), Fatal: true})
+				*rows++
+				*probs = append(*probs, &Problem{File: l.file, Line: pe.Line, Err: fmt.Errorf("byte %d of the line: %w", pe.Column, pe.Err), Fatal: true})
 				continue
 			default:
-				l.problem(&Problem{Err: fmt.Errorf("reading: %w", err), Fatal: true})
+				*probs = append(*probs, &Problem{File: l.file, Err: fmt.Errorf("reading: %w", err), Fatal: true})
 				return nil, 0
 			}
 		}
-		l.rows++
-		line, _ := cr.FieldPos(0)
+		*rows++
 		if len(rec) != len(l.colOf) {
 			col := 0
 			if len(rec) > len(l.colOf) {
 				col = len(l.colOf) + 1
 			}
-			l.problem(&Problem{Line: line, Column: col, Fatal: true,
+			*probs = append(*probs, &Problem{File: l.file, Line: line, Column: col, Fatal: true,
 				Err: fmt.Errorf("%w: the row has %d, the header %d", ErrFieldCount, len(rec), len(l.colOf))})
 			continue
 		}
@@ -267,37 +336,93 @@ func (l *loader) next(cr *csv.Reader) (rec []string, line int) {
 }
 
 // readFast streams the rows through the per-column setters.
-func (l *loader) readFast(cr *csv.Reader) {
-	var p Part
+func (l *loader) readFast(src source) {
+	var own Part
 	var errs []cellErr
 	for !l.stopped {
-		rec, line := l.next(cr)
+		rec, line := l.next(src)
 		if rec == nil {
 			return
 		}
-		p = Part{}
-		errs = errs[:0]
-		for j, cell := range rec {
-			if ci := l.colOf[j]; ci >= 0 {
-				if err := partSchema.cols[ci].set(&p, cell); err != nil {
-					errs = append(errs, cellErr{j, err})
-				}
+		if l.names == nil {
+			l.sizeFor(rec)
+		}
+		p := &own
+		if l.parts != nil {
+			*l.parts = append(*l.parts, Part{})
+			p = &(*l.parts)[len(*l.parts)-1]
+		}
+		probs, fatal := l.decode(p, rec, line, &errs)
+		l.probs = append(l.probs, probs...)
+		if fatal || !l.commit(p, rec, line) {
+			if l.parts != nil {
+				*l.parts = (*l.parts)[:len(*l.parts)-1]
 			}
 		}
-		l.finish(&p, rec, line, errs)
 	}
 }
 
-// finish completes a decoded row: cell problems, validation, duplicate
-// names; it hands a valid part to fn.
-func (l *loader) finish(p *Part, rec []string, line int, errs []cellErr) {
+// decode fills p from a record and checks it; it only reads the loader's
+// header state, so that several goroutines may decode at once.
+func (l *loader) decode(p *Part, rec []string, line int, errs *[]cellErr) (ProblemList, bool) {
+	*p = Part{}
+	e := (*errs)[:0]
+	cols := partSchema.cols
+	for j, cell := range rec {
+		if ci := l.colOf[j]; ci >= 0 {
+			if err := cols[ci].set(p, cell); err != nil {
+				e = append(e, cellErr{j, err})
+			}
+		}
+	}
+	*errs = e
+	return l.checkRow(p, rec, line, e)
+}
+
+// sizeFor sizes the name set and the part slice from the first data row
+// and the input size, when known.
+func (l *loader) sizeFor(rec []string) {
+	rows := 64
+	if l.sizeHint > 0 {
+		rows = estimateRows(l.sizeHint, rec)
+	}
+	l.names = newNameSet(rows)
+	if l.parts != nil && cap(*l.parts) == 0 && l.sizeHint > 0 {
+		*l.parts = make([]Part, 0, rows)
+	}
+}
+
+// estimateRows guesses the number of rows from the input size and the
+// length of the first row, with a margin.
+func estimateRows(size int64, rec []string) int {
+	n := len(rec)
+	for _, c := range rec {
+		n += len(c)
+	}
+	est := size / int64(max(n, 16))
+	return int(min(est+est/8+16, 1<<24))
+}
+
+// finish completes a decoded row (gocsv decoder): checks, then commit.
+func (l *loader) finish(p *Part, rec []string, line int, errs []cellErr) bool {
+	probs, fatal := l.checkRow(p, rec, line, errs)
+	l.probs = append(l.probs, probs...)
+	return !fatal && l.commit(p, rec, line)
+}
+
+// checkRow completes a decoded row: trims the text columns, turns the
+// cells that did not decode into problems and validates the part. It
+// reports whether any problem is fatal. The part's strings share the row's
+// one allocation. It only reads the loader's header state.
+func (l *loader) checkRow(p *Part, rec []string, line int, errs []cellErr) (ProblemList, bool) {
 	p.Line = line
-	p.Name = strings.Clone(strings.TrimSpace(p.Name))
-	p.Package = strings.Clone(strings.TrimSpace(p.Package))
-	p.Notes = strings.Clone(strings.TrimSpace(p.Notes))
-	p.RdsCurve = strings.Clone(strings.TrimSpace(p.RdsCurve))
+	p.Name = strings.TrimSpace(p.Name)
+	p.Package = strings.TrimSpace(p.Package)
+	p.Notes = strings.TrimSpace(p.Notes)
+	p.RdsCurve = strings.TrimSpace(p.RdsCurve)
+	var probs ProblemList
 	fatal := l.missing != nil // without a required column no part is complete
-	v := validator{p: p, bad: l.missing}
+	v := validator{p: p, bad: l.missing, parsed: true}
 	if len(errs) > 0 {
 		v.bad = make(map[string]bool, len(errs)+len(l.missing))
 		for k := range l.missing {
@@ -306,7 +431,7 @@ func (l *loader) finish(p *Part, rec []string, line int, errs []cellErr) {
 		for _, e := range errs {
 			n := l.hdr.Columns[e.col]
 			v.bad[n] = true
-			l.problem(&Problem{Line: line, Column: e.col + 1, Field: n, Part: p.Name, Text: rec[e.col], Err: e.err, Fatal: true})
+			probs = append(probs, &Problem{File: l.file, Line: line, Column: e.col + 1, Field: n, Part: p.Name, Text: rec[e.col], Err: e.err, Fatal: true})
 		}
 		fatal = true
 	}
@@ -318,24 +443,28 @@ func (l *loader) finish(p *Part, rec []string, line int, errs []cellErr) {
 				pr.Text = rec[pr.Column-1]
 			}
 		}
-		pr.Line = line
+		pr.File, pr.Line = l.file, line
 		fatal = fatal || pr.Fatal
-		l.problem(pr)
+		probs = append(probs, pr)
 	}
-	if fatal {
-		return
-	}
-	key := strings.ToLower(p.Name)
-	if first, dup := l.names[key]; dup {
+	return probs, fatal
+}
+
+// commit accepts a checked part unless its name was seen before: it hands
+// the part to fn, or keeps it (when decoding in place, the caller has).
+func (l *loader) commit(p *Part, rec []string, line int) bool {
+	if first, ok := l.names.add(p.Name, line); !ok {
 		col := l.fileCol[partSchema.byName["part"]]
 		l.problem(&Problem{Line: line, Column: col, Field: "part", Part: p.Name, Text: rec[col-1], Fatal: true,
 			Err: &valueError{msg: fmt.Sprintf("%q: %v: the part on line %d has the same name (names are compared ignoring case)",
 				p.Name, ErrDuplicatePart, first), kind: ErrDuplicatePart}})
-		return
+		return false
 	}
-	l.names[strings.Clone(key)] = line
-	if err := l.fn(p); err != nil {
-		l.problem(&Problem{Line: line, Part: p.Name, Err: err, Fatal: true})
-		l.stopped = true
+	if l.fn != nil {
+		if err := l.fn(p); err != nil {
+			l.problem(&Problem{Line: line, Part: p.Name, Err: err, Fatal: true})
+			l.stopped = true
+		}
 	}
+	return true
 }

@@ -19,7 +19,7 @@ import (
 var decoders = []struct {
 	name string
 	kind decoderKind
-}{{"fast", decodeFast}, {"gocsv", decodeGocsv}}
+}{{"fast", decodeFast}, {"parallel", decodeParallel}, {"gocsv", decodeGocsv}}
 
 func checkFile(t *testing.T, file string, d decoderKind) (*Library, ProblemList) {
 	t.Helper()
@@ -146,12 +146,14 @@ func TestDecodersAgree(t *testing.T) {
 	}
 	for _, f := range files {
 		a, pa := checkFile(t, filepath.Base(f), decodeFast)
-		b, pb := checkFile(t, filepath.Base(f), decodeGocsv)
-		if !reflect.DeepEqual(a, b) {
-			t.Errorf("%s: libraries differ:\n%+v\n%+v", f, a, b)
-		}
-		if pa.Error() != pb.Error() {
-			t.Errorf("%s: problems differ", f)
+		for _, d := range []decoderKind{decodeParallel, decodeGocsv} {
+			b, pb := checkFile(t, filepath.Base(f), d)
+			if !reflect.DeepEqual(a, b) {
+				t.Errorf("%s, decoder %d: libraries differ:\n%+v\n%+v", f, d, a, b)
+			}
+			if pa.Error() != pb.Error() {
+				t.Errorf("%s, decoder %d: problems differ", f, d)
+			}
 		}
 	}
 }

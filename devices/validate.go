@@ -3,6 +3,7 @@ package devices
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	q "swrank/devices/quantity"
@@ -35,9 +36,10 @@ func Validate(p *Part) []Problem {
 // cells did not parse: checks that involve them are skipped, so that one
 // wrong cell gives one problem.
 type validator struct {
-	p     *Part
-	bad   map[string]bool
-	probs []Problem
+	p      *Part
+	bad    map[string]bool
+	parsed bool // the values came from the parser, which refuses NaN and Inf
+	probs  []Problem
 }
 
 func (v *validator) ok(fields ...string) bool {
@@ -99,7 +101,9 @@ func tempRange(v *validator, field string, t q.Opt[q.Temperature]) {
 
 func (v *validator) run() {
 	p := v.p
-	v.finite()
+	if !v.parsed {
+		v.finite()
+	}
 	if len(v.probs) > 0 {
 		return // NaN or Inf in a part built in code: nothing else is meaningful
 	}
@@ -220,7 +224,8 @@ func (v *validator) run() {
 		}
 	}
 	if strings.TrimSpace(p.RdsCurve) != "" && v.ok("rds_on_curve") {
-		if _, err := ParseCurve(p.RdsCurve); err != nil {
+		var pts [maxCurvePoints]CurvePoint
+		if _, err := scanCurve(p.RdsCurve, &pts); err != nil {
 			v.probs = append(v.probs, Problem{Field: "rds_on_curve", Part: p.Name, Fatal: true, Err: err})
 		}
 	}
@@ -324,24 +329,56 @@ type CurvePoint struct {
 // temperatures (°C, optionally written "100°C") strictly increasing and
 // factors positive plain numbers. Errors wrap ErrCurve.
 func ParseCurve(s string) ([]CurvePoint, error) {
-	f := strings.FieldsFunc(s, func(r rune) bool { return r == ' ' || r == '\t' || r == ',' || r == ';' })
-	if len(f) < 2 || len(f) > 8 {
-		return nil, &valueError{msg: fmt.Sprintf("%q: %v: want 2 to 8 points written T:factor", s, ErrCurve), kind: ErrCurve}
+	var pts [maxCurvePoints]CurvePoint
+	n, err := scanCurve(s, &pts)
+	if err != nil {
+		return nil, err
 	}
-	pts := make([]CurvePoint, 0, len(f))
-	for _, pt := range f {
+	return slices.Clone(pts[:n]), nil
+}
+
+const maxCurvePoints = 8
+
+func curveSep(c byte) bool { return c == ' ' || c == '\t' || c == ',' || c == ';' }
+
+// scanCurve parses s into pts without allocating; it returns the number of
+// points.
+func scanCurve(s string, pts *[maxCurvePoints]CurvePoint) (int, error) {
+	n := 0
+	for i := 0; i < len(s); {
+		if curveSep(s[i]) {
+			i++
+			continue
+		}
+		j := i
+		for j < len(s) && !curveSep(s[j]) {
+			j++
+		}
+		pt := s[i:j]
+		i = j
+		if n == maxCurvePoints {
+			return 0, curveError(s, "want 2 to 8 points written T:factor")
+		}
 		a, b, ok := strings.Cut(pt, ":")
 		t, err1 := q.Parse[q.Temperature](a)
 		r, err2 := q.Parse[q.Ratio](b)
-		if !ok || err1 != nil || err2 != nil || strings.Contains(b, "%") || !(r > 0) {
-			return nil, &valueError{msg: fmt.Sprintf("%q: %v: point %q is not T:factor with a factor > 0", s, ErrCurve, pt), kind: ErrCurve}
+		if !ok || err1 != nil || err2 != nil || strings.IndexByte(b, '%') >= 0 || !(r > 0) {
+			return 0, curveError(s, fmt.Sprintf("point %q is not T:factor with a factor > 0", pt))
 		}
-		if len(pts) > 0 && t <= pts[len(pts)-1].Tj {
-			return nil, &valueError{msg: fmt.Sprintf("%q: %v: temperatures must increase", s, ErrCurve), kind: ErrCurve}
+		if n > 0 && t <= pts[n-1].Tj {
+			return 0, curveError(s, "temperatures must increase")
 		}
-		pts = append(pts, CurvePoint{Tj: t, Factor: r})
+		pts[n] = CurvePoint{Tj: t, Factor: r}
+		n++
 	}
-	return pts, nil
+	if n < 2 {
+		return 0, curveError(s, "want 2 to 8 points written T:factor")
+	}
+	return n, nil
+}
+
+func curveError(s, why string) error {
+	return &valueError{msg: fmt.Sprintf("%q: %v: %s", s, ErrCurve, why), kind: ErrCurve}
 }
 
 // Curve parses the part's rds_on_curve; it returns nil, nil when blank.

@@ -15,6 +15,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 )
 
 // Voltage is an electric potential difference in volts.
@@ -197,38 +199,108 @@ func scale(v float64, exp int) float64 {
 	return v * math.Pow10(exp)
 }
 
-// numberEnd returns the length of the leading decimal number in s
-// (sign, digits, point, exponent).
-func numberEnd(s string) int {
+// decimal is a decimal number as scanned: mant·10^exp, negative when neg.
+// fast is false when the mantissa has more than 19 significant digits or
+// the text is malformed (two points): strconv.ParseFloat then decides.
+type decimal struct {
+	mant uint64
+	exp  int
+	neg  bool
+	fast bool
+}
+
+// scanNumber scans the leading decimal number of s (sign, digits and
+// points, an exponent only when digits follow the e, so that "3e" is not
+// swallowed) and returns its length in bytes, 0 when s does not start with
+// a number.
+func scanNumber(s string) (int, decimal) {
+	d := decimal{fast: true}
 	i := 0
 	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		d.neg = s[i] == '-'
 		i++
 	}
-	digits := 0
-	for i < len(s) && (s[i] >= '0' && s[i] <= '9' || s[i] == '.') {
-		if s[i] != '.' {
-			digits++
+	digits, dots, sig := 0, 0, 0
+	for ; i < len(s); i++ {
+		c := s[i]
+		if c == '.' {
+			dots++
+			if dots > 1 {
+				d.fast = false
+			}
+			continue
 		}
-		i++
+		if c < '0' || c > '9' {
+			break
+		}
+		digits++
+		if d.mant == 0 && c == '0' {
+			if dots > 0 {
+				d.exp--
+			}
+			continue
+		}
+		if sig == 19 {
+			d.fast = false
+			continue
+		}
+		d.mant = d.mant*10 + uint64(c-'0')
+		sig++
+		if dots > 0 {
+			d.exp--
+		}
 	}
 	if digits == 0 {
-		return 0
+		return 0, decimal{}
 	}
-	// An exponent only if followed by digits, so that "3e" is not swallowed.
 	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
 		j := i + 1
+		eneg := false
 		if j < len(s) && (s[j] == '+' || s[j] == '-') {
+			eneg = s[j] == '-'
 			j++
 		}
-		k := j
+		k, e := j, 0
 		for k < len(s) && s[k] >= '0' && s[k] <= '9' {
+			if e < 100000 {
+				e = e*10 + int(s[k]-'0')
+			}
 			k++
 		}
 		if k > j {
 			i = k
+			if eneg {
+				e = -e
+			}
+			d.exp += e
 		}
 	}
-	return i
+	return i, d
+}
+
+// numberEnd returns the length of the leading decimal number in s.
+func numberEnd(s string) int {
+	n, _ := scanNumber(s)
+	return n
+}
+
+// trim is strings.TrimSpace with a fast exit for text that starts and ends
+// with a printable character.
+func trim(s string) string {
+	if len(s) > 0 {
+		a, b := s[0], s[len(s)-1]
+		if a > ' ' && a < utf8.RuneSelf {
+			if b > ' ' && b < utf8.RuneSelf {
+				return s
+			}
+			if b >= utf8.RuneSelf {
+				if r, _ := utf8.DecodeLastRuneInString(s); !unicode.IsSpace(r) {
+					return s
+				}
+			}
+		}
+	}
+	return strings.TrimSpace(s)
 }
 
 // ParseFloat parses text written as a number with an optional SI prefix and
@@ -239,11 +311,15 @@ func numberEnd(s string) int {
 // NaN, infinities and values beyond the float64 range wrap ErrNotFinite;
 // anything else that is not a number wraps ErrSyntax.
 func ParseFloat(text string, k Kind) (float64, error) {
-	s := strings.TrimSpace(text)
+	return parseFloat(text, &k)
+}
+
+func parseFloat(text string, k *Kind) (float64, error) {
+	s := trim(text)
 	if s == "" {
 		return 0, ErrEmpty
 	}
-	n := numberEnd(s)
+	n, d := scanNumber(s)
 	if n == 0 {
 		low := strings.ToLower(s)
 		if strings.Contains(low, "nan") || strings.Contains(low, "inf") {
@@ -251,7 +327,14 @@ func ParseFloat(text string, k Kind) (float64, error) {
 		}
 		return 0, fmt.Errorf("%q: %w", text, ErrSyntax)
 	}
-	rest := trimGap(s[n:])
+	rest := s[n:]
+	if rest == "" {
+		if v, ok := d.exact(0); ok {
+			return v, nil // the common bare number
+		}
+	} else if c := rest[0]; c == ' ' || c == '\t' || c >= utf8.RuneSelf {
+		rest = trimGap(rest)
+	}
 	pexp, mul := 0, 1.0
 	switch {
 	case rest == "":
@@ -259,24 +342,31 @@ func ParseFloat(text string, k Kind) (float64, error) {
 		if rest == "%" && k.Symbol == "" {
 			pexp = -2
 		} else if !hasUnit(k, rest) {
-			return 0, unitError(text, rest, k)
+			return 0, unitError(text, rest, *k)
 		}
 	case hasUnit(k, rest):
 	default:
-		if m, ok := k.Scaled[rest]; ok {
-			mul = m
-			break
+		if k.Scaled != nil {
+			if m, ok := k.Scaled[rest]; ok {
+				mul = m
+				break
+			}
 		}
 		var plen int
 		pexp, plen = prefix(rest)
 		if plen == 0 {
-			return 0, unitError(text, rest, k)
+			return 0, unitError(text, rest, *k)
 		}
 		if unit := trimGap(rest[plen:]); unit != "" && !hasUnit(k, unit) {
-			return 0, unitError(text, rest, k)
+			return 0, unitError(text, rest, *k)
 		}
 	}
-	v, err := number(s[:n], pexp)
+	if mul == 1 {
+		if v, ok := d.exact(pexp); ok {
+			return v, nil
+		}
+	}
+	v, err := d.value(s[:n], pexp)
 	if err != nil {
 		if errors.Is(err, strconv.ErrRange) {
 			return 0, fmt.Errorf("%q: %w", text, ErrNotFinite)
@@ -293,9 +383,12 @@ func ParseFloat(text string, k Kind) (float64, error) {
 }
 
 // hasUnit reports whether u is one of k's unit spellings.
-func hasUnit(k Kind, u string) bool {
+func hasUnit(k *Kind, u string) bool {
+	if u == "" {
+		return false
+	}
 	for _, x := range k.Units {
-		if u == x {
+		if len(x) == len(u) && x[0] == u[0] && x == u {
 			return true
 		}
 	}
@@ -306,107 +399,69 @@ func hasUnit(k Kind, u string) bool {
 // its unit: ASCII space and tab, no-break space U+00A0, thin space U+2009,
 // narrow no-break space U+202F.
 func trimGap(s string) string {
-	for {
-		switch {
-		case strings.HasPrefix(s, " "), strings.HasPrefix(s, "\t"):
+	for len(s) > 0 {
+		switch c := s[0]; {
+		case c == ' ' || c == '\t':
 			s = s[1:]
-		case strings.HasPrefix(s, "\u00a0"):
+		case c == 0xC2 && strings.HasPrefix(s, "\u00a0"):
 			s = s[len("\u00a0"):]
-		case strings.HasPrefix(s, "\u2009"), strings.HasPrefix(s, "\u202f"):
+		case c == 0xE2 && (strings.HasPrefix(s, "\u2009") || strings.HasPrefix(s, "\u202f")):
 			s = s[len("\u2009"):]
 		default:
 			return s
 		}
 	}
+	return s
 }
 
 // number converts the decimal number s (as delimited by numberEnd) times
-// 10^pexp to the nearest float64. Numbers with at most 19 significant digits
-// whose mantissa fits in 53 bits and whose total power of ten is within ±22
-// take an exact fast path: one correctly rounded multiplication or division
-// of two exactly representable values, so the result is the correctly
-// rounded value [Clinger, "How to read floating point numbers accurately",
-// PLDI 1990]. Everything else goes through strconv.ParseFloat, whose errors
-// (ErrSyntax, ErrRange) are returned unchanged.
+// 10^pexp to the nearest float64; see decimal.value.
 func number(s string, pexp int) (float64, error) {
-	i, neg := 0, false
-	if s[0] == '+' || s[0] == '-' {
-		neg = s[0] == '-'
-		i++
-	}
-	var mant uint64
-	exp, digits, dot, fast := 0, 0, false, true
-	for ; i < len(s); i++ {
-		c := s[i]
-		if c == '.' {
-			if dot {
-				fast = false
-				break
-			}
-			dot = true
-			continue
-		}
-		if c < '0' || c > '9' {
-			break
-		}
-		if mant == 0 && c == '0' {
-			if dot {
-				exp--
-			}
-			continue
-		}
-		if digits == 19 {
-			fast = false
-			break
-		}
-		mant = mant*10 + uint64(c-'0')
-		digits++
-		if dot {
-			exp--
-		}
-	}
-	if fast && i < len(s) { // exponent: numberEnd guarantees [eE][+-]?digits
-		i++
-		eneg := false
-		if s[i] == '+' || s[i] == '-' {
-			eneg = s[i] == '-'
-			i++
-		}
-		e := 0
-		for ; i < len(s); i++ {
-			if e < 100000 {
-				e = e*10 + int(s[i]-'0')
-			}
-		}
-		if eneg {
-			e = -e
-		}
-		exp += e
-	}
-	if fast && mant <= 1<<53 {
-		e := exp + pexp
-		var v float64
-		switch {
-		case mant == 0:
-			v = 0
-		case e >= 0 && e <= 22:
-			v = float64(mant) * pow10[e]
-		case e < 0 && e >= -22:
-			v = float64(mant) / pow10[-e]
-		default:
-			goto slow
-		}
-		if neg {
-			v = -v
-		}
+	_, d := scanNumber(s)
+	return d.value(s, pexp)
+}
+
+// value returns d·10^pexp, s being the text d was scanned from. Numbers
+// with at most 19 significant digits whose mantissa fits in 53 bits and
+// whose total power of ten is within ±22 take an exact fast path: one
+// correctly rounded multiplication or division of two exactly
+// representable values, so the result is the correctly rounded value
+// [Clinger, "How to read floating point numbers accurately", PLDI 1990].
+// Everything else goes through strconv.ParseFloat, whose errors (ErrSyntax,
+// ErrRange) are returned unchanged.
+func (d decimal) value(s string, pexp int) (float64, error) {
+	if v, ok := d.exact(pexp); ok {
 		return v, nil
 	}
-slow:
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil {
 		return 0, err
 	}
 	return scale(v, pexp), nil
+}
+
+// exact returns d·10^pexp when the exact fast path applies (see value);
+// its results are finite.
+func (d decimal) exact(pexp int) (float64, bool) {
+	if !d.fast || d.mant > 1<<53 {
+		return 0, false
+	}
+	e := d.exp + pexp
+	var v float64
+	switch {
+	case d.mant == 0:
+		v = 0
+	case e >= 0 && e <= 22:
+		v = float64(d.mant) * pow10[e]
+	case e < 0 && e >= -22:
+		v = float64(d.mant) / pow10[-e]
+	default:
+		return 0, false
+	}
+	if d.neg {
+		v = -v
+	}
+	return v, true
 }
 
 func unitError(text, unit string, k Kind) error {
@@ -416,9 +471,20 @@ func unitError(text, unit string, k Kind) error {
 // Parse parses text as a quantity of type Q; see ParseFloat.
 func Parse[Q Quantity](text string) (Q, error) {
 	var zero Q
-	v, err := ParseFloat(text, zero.Kind())
+	k := zero.Kind()
+	v, err := parseFloat(text, &k)
 	return Q(v), err
 }
+
+// Parser parses text as a quantity of kind k; it is ParseFloat with the
+// kind bound once, for callers that parse many cells of one column.
+type Parser struct{ k Kind }
+
+// NewParser returns a Parser for kind k.
+func NewParser(k Kind) *Parser { return &Parser{k: k} }
+
+// Parse is ParseFloat(text, k).
+func (p *Parser) Parse(text string) (float64, error) { return parseFloat(text, &p.k) }
 
 // Format prints v with an SI prefix, sig significant digits and the unit
 // symbol, e.g. "280 mΩ", "71.0 pF". Zero prints as "0".

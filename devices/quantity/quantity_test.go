@@ -210,7 +210,7 @@ func TestParseAgainstHumanize(t *testing.T) {
 	}
 	for _, tt := range inputs {
 		ref, unit, herr := humanize.ParseSI(tt.in)
-		if herr != nil || (unit != "" && !hasUnit(tt.p.kind, strings.TrimSpace(unit))) {
+		if herr != nil || (unit != "" && !hasUnit(&tt.p.kind, strings.TrimSpace(unit))) {
 			t.Fatalf("reference does not accept %q (unit %q, %v): fix the table", tt.in, unit, herr)
 		}
 		got, err := tt.p.parse(tt.in)
@@ -317,5 +317,19 @@ func TestOpt(t *testing.T) {
 	var v Voltage
 	if err := v.UnmarshalCSV(""); !errors.Is(err, ErrEmpty) {
 		t.Errorf("required blank: %v", err)
+	}
+}
+
+// BenchmarkParseFloat measures one cell's parse in typical spellings.
+func BenchmarkParseFloat(b *testing.B) {
+	cells := []string{"4.2 mΩ", "12n", "1.1 nF", "30 V", "1.55e-08", "2.44", "100 A/µs", "25", "3.77 ns", "796m"}
+	kinds := []Kind{kindResistance, kindCharge, kindCapacitance, kindVoltage, kindCharge, kindResistance, kindSlew, kindTemperature, kindTime, kindVoltage}
+	b.ReportAllocs()
+	for b.Loop() {
+		for i, c := range cells {
+			if _, err := ParseFloat(c, kinds[i]); err != nil {
+				b.Fatal(err)
+			}
+		}
 	}
 }
