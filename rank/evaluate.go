@@ -207,6 +207,8 @@ type partnerCharge struct {
 	tj    q.Temperature // its junction temperature (transistor partner)
 	lloop q.Inductance  // its package share of the power loop
 	flags Flags
+	dev   *Device   // the partner transistor (nil: diode or ideal)
+	v     q.Voltage // the voltage qoss and eoss were taken at
 }
 
 func diodePartner(d *Diode, v q.Voltage) partnerCharge {
@@ -220,7 +222,8 @@ func diodePartner(d *Diode, v q.Voltage) partnerCharge {
 // devicePartner is the synchronous switch k seen from the control switch,
 // with its recovered charge at its solved junction temperature kr.Thermal.
 func devicePartner(k *Device, v q.Voltage, kr *DeviceResult) partnerCharge {
-	p := partnerCharge{qoss: k.Oss.Q(v), eoss: k.Oss.E(v), lloop: k.Lloop, tj: kr.Thermal.Tj}
+	qk, ek := k.Oss.QE(v)
+	p := partnerCharge{qoss: qk, eoss: ek, lloop: k.Lloop, tj: kr.Thermal.Tj, dev: k, v: v}
 	if !kr.Thermal.Found {
 		p.tj = k.TjMax
 	}
@@ -561,6 +564,9 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 			kq, ke, out.Qrr = k.qoss, k.eoss, k.qrr
 		}
 		es := d.Oss.E(st.V)
+		if k != nil && k.dev == d && k.v == st.V {
+			es = k.eoss // the same device across the cell: already computed
+		}
 		out.Ecoss = HardTurnOnCossEnergy(es, st.V, kq, ke)
 		out.Erec = RecoveryEnergy(out.Qrr, st.V)
 		out.Losses.Coss = q.Power(float64(out.Ecoss) * f)

@@ -346,6 +346,16 @@ func (l OssLaw) E(v q.Voltage) q.Energy {
 	return q.Energy(l.K * math.Pow(float64(v), 2-l.N) / (2 - l.N))
 }
 
+// QE returns Q(v) and E(v) with one power evaluation
+// (E = Q·v·(1−N)/(2−N) for the power law).
+func (l OssLaw) QE(v q.Voltage) (q.Charge, q.Energy) {
+	if v <= 0 {
+		return 0, 0
+	}
+	qq := l.K * math.Pow(float64(v), 1-l.N) / (1 - l.N)
+	return q.Charge(qq), q.Energy(qq * float64(v) * (1 - l.N) / (2 - l.N))
+}
+
 // C returns the small-signal capacitance at v.
 func (l OssLaw) C(v q.Voltage) q.Capacitance {
 	if v <= 0 {
