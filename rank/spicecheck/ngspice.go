@@ -24,7 +24,7 @@ type Runner struct {
 }
 
 // ErrNoNgspice is returned by FindNgspice when no executable is found.
-var ErrNoNgspice = errors.New("ngspice not found in PATH (install the Debian package ngspice)")
+var ErrNoNgspice = errors.New("ngspice not found in PATH")
 
 // FindNgspice returns a Runner for the ngspice found in PATH.
 func FindNgspice(timeout time.Duration) (*Runner, error) {
