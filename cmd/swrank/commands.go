@@ -84,14 +84,22 @@ func prepare(in *inputs, stderr io.Writer) (*rank.Point, []rank.Device, *rank.De
 
 func runRank(args []string, stdout, stderr io.Writer) error {
 	var in inputs
+	var dec decisionFlags // design file, profiles, paralleling (design.go)
 	fs := newFlagSet("rank", rankSynopsis, stderr)
 	in.register(fs)
 	in.registerOutput(fs)
+	dec.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
 	if fs.NArg() > 0 {
 		return fmt.Errorf("unexpected arguments %q (flags come as --name value)", fs.Args())
+	}
+	if err := dec.apply(fs, &in); err != nil {
+		return err
+	}
+	if dec.ownPath() {
+		return runRankDecisions(&in, &dec, stdout, stderr)
 	}
 	if in.partner != "" {
 		pt, devs, partner, lib, err := prepare(&in, stderr)
@@ -99,13 +107,13 @@ func runRank(args []string, stdout, stderr io.Writer) error {
 			return err
 		}
 		res := rank.Rank(pt, devs, partner, rank.Options{})
-		return render(stdout, in.format, report{pt: pt, source: lib.Source, parts: len(lib.Parts), results: res, all: in.all, top: in.top})
+		return decorate(stdout, in.format, report{pt: pt, source: lib.Source, parts: len(lib.Parts), results: res, all: in.all, top: in.top}, partner)
 	}
 	rep, err := rankStream(&in, stderr)
 	if err != nil {
 		return err
 	}
-	return render(stdout, in.format, rep)
+	return decorate(stdout, in.format, rep, nil)
 }
 
 // rankStream ranks a library without holding it: each part is read,
