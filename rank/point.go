@@ -53,13 +53,14 @@ type Mode uint8
 
 // Modes.
 const (
-	ModeCCM   Mode = iota // continuous conduction: the inductor current stays positive
-	ModeDCM               // discontinuous: a diode rectifier stops conducting, the inductor current rests at zero
-	ModeFCCM              // forced continuous: a synchronous stage whose inductor current reverses at the valley
-	ModeGiven             // custom stage: the switch stresses are given
+	ModeCCM      Mode = iota // continuous conduction: the inductor current stays positive
+	ModeDCM                  // discontinuous: a diode rectifier stops conducting, the inductor current rests at zero
+	ModeFCCM                 // forced continuous: a synchronous stage whose inductor current reverses at the valley
+	ModeGiven                // custom stage: the switch stresses are given
+	ModeResonant             // class E or class D: the resonant design sets the stresses
 )
 
-var modeNames = [...]string{ModeCCM: "continuous", ModeDCM: "discontinuous", ModeFCCM: "forced-continuous", ModeGiven: "given"}
+var modeNames = [...]string{ModeCCM: "continuous", ModeDCM: "discontinuous", ModeFCCM: "forced-continuous", ModeGiven: "given", ModeResonant: "resonant"}
 
 func (m Mode) String() string {
 	if int(m) < len(modeNames) {
@@ -138,7 +139,7 @@ func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 		if err := s.resolveRF(&pt); err != nil {
 			return Point{}, err
 		}
-		pt.Stage = s
+		pt.Stage, pt.Mode = s, ModeResonant
 		return pt, nil
 	case Buck, Boost:
 	default:
