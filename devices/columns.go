@@ -120,13 +120,13 @@ func (c *column) set(p *Part, cell string) error {
 		*(*float64)(ptr) = v
 		return nil
 	case cellOpt:
-		if blank(cell) {
-			*(*float64)(ptr) = 0
-			*(*bool)(unsafe.Add(ptr, c.okOff)) = false
-			return nil
-		}
 		v, err := c.parser.Parse(cell)
 		if err != nil {
+			if err == q.ErrEmpty { // blank cell (returned unwrapped): not given
+				*(*float64)(ptr) = 0
+				*(*bool)(unsafe.Add(ptr, c.okOff)) = false
+				return nil
+			}
 			return err
 		}
 		*(*float64)(ptr) = v
@@ -154,18 +154,4 @@ func (c *column) value(p *Part) float64 {
 		return 0
 	}
 	return *(*float64)(unsafe.Add(unsafe.Pointer(p), c.offset))
-}
-
-// blank reports whether a cell is empty or white space only, the way
-// q.Opt's UnmarshalCSV decides it.
-func blank(s string) bool {
-	for i := 0; i < len(s); i++ {
-		if s[i] != ' ' && s[i] != '\t' {
-			if s[i] >= 0x80 {
-				return strings.TrimSpace(s) == ""
-			}
-			return false
-		}
-	}
-	return true
 }

@@ -66,7 +66,7 @@ func (l *loader) readGocsv(src source) {
 		k = i + 1
 	}
 	if len(rows) > 0 {
-		l.sizeFor(rows[0])
+		l.sizeFor(rowBytes(rows[0]))
 	}
 	for i := range rows {
 		if l.stopped {

@@ -217,7 +217,7 @@ func (l *loader) scan(r io.Reader, d decoderKind) (Header, ProblemList) {
 	case decodeGocsv:
 		l.readGocsv(src)
 	case decodeParallel:
-		l.readParallel(src)
+		l.readParallel(src.(*rowReader))
 	default:
 		l.readFast(src)
 	}
@@ -345,7 +345,7 @@ func (l *loader) readFast(src source) {
 			return
 		}
 		if l.names == nil {
-			l.sizeFor(rec)
+			l.sizeFor(rowBytes(rec))
 		}
 		p := &own
 		if l.parts != nil {
@@ -354,10 +354,15 @@ func (l *loader) readFast(src source) {
 		}
 		probs, fatal := l.decode(p, rec, line, &errs)
 		l.probs = append(l.probs, probs...)
-		if fatal || !l.commit(p, rec, line) {
-			if l.parts != nil {
-				*l.parts = (*l.parts)[:len(*l.parts)-1]
+		if !fatal {
+			ok, first := l.commit(p, line)
+			if !ok {
+				l.duplicate(p, line, rec[l.partCol()-1], first)
 			}
+			fatal = !ok
+		}
+		if fatal && l.parts != nil {
+			*l.parts = (*l.parts)[:len(*l.parts)-1]
 		}
 	}
 }
@@ -379,12 +384,13 @@ func (l *loader) decode(p *Part, rec []string, line int, errs *[]cellErr) (Probl
 	return l.checkRow(p, rec, line, e)
 }
 
-// sizeFor sizes the name set and the part slice from the first data row
-// and the input size, when known.
-func (l *loader) sizeFor(rec []string) {
+// sizeFor sizes the name set and the part slice from the length of a
+// typical row, in bytes, and the input size, when known.
+func (l *loader) sizeFor(rowLen int) {
 	rows := 64
 	if l.sizeHint > 0 {
-		rows = estimateRows(l.sizeHint, rec)
+		est := l.sizeHint / int64(max(rowLen, 16))
+		rows = int(min(est+est/8+16, 1<<24))
 	}
 	l.names = newNameSet(rows)
 	if l.parts != nil && cap(*l.parts) == 0 && l.sizeHint > 0 {
@@ -392,22 +398,27 @@ func (l *loader) sizeFor(rec []string) {
 	}
 }
 
-// estimateRows guesses the number of rows from the input size and the
-// length of the first row, with a margin.
-func estimateRows(size int64, rec []string) int {
+// rowBytes is the length of a record as written (without quotes).
+func rowBytes(rec []string) int {
 	n := len(rec)
 	for _, c := range rec {
 		n += len(c)
 	}
-	est := size / int64(max(n, 16))
-	return int(min(est+est/8+16, 1<<24))
+	return n
 }
 
 // finish completes a decoded row (gocsv decoder): checks, then commit.
 func (l *loader) finish(p *Part, rec []string, line int, errs []cellErr) bool {
 	probs, fatal := l.checkRow(p, rec, line, errs)
 	l.probs = append(l.probs, probs...)
-	return !fatal && l.commit(p, rec, line)
+	if fatal {
+		return false
+	}
+	ok, first := l.commit(p, line)
+	if !ok {
+		l.duplicate(p, line, rec[l.partCol()-1], first)
+	}
+	return ok
 }
 
 // checkRow completes a decoded row: trims the text columns, turns the
@@ -450,15 +461,12 @@ func (l *loader) checkRow(p *Part, rec []string, line int, errs []cellErr) (Prob
 	return probs, fatal
 }
 
-// commit accepts a checked part unless its name was seen before: it hands
-// the part to fn, or keeps it (when decoding in place, the caller has).
-func (l *loader) commit(p *Part, rec []string, line int) bool {
+// commit accepts a checked part unless its name was seen before, and hands
+// it to fn (when decoding in place, the caller keeps it). For a duplicate it
+// returns false and the line of the first part of that name.
+func (l *loader) commit(p *Part, line int) (ok bool, first int) {
 	if first, ok := l.names.add(p.Name, line); !ok {
-		col := l.fileCol[partSchema.byName["part"]]
-		l.problem(&Problem{Line: line, Column: col, Field: "part", Part: p.Name, Text: rec[col-1], Fatal: true,
-			Err: &valueError{msg: fmt.Sprintf("%q: %v: the part on line %d has the same name (names are compared ignoring case)",
-				p.Name, ErrDuplicatePart, first), kind: ErrDuplicatePart}})
-		return false
+		return false, first
 	}
 	if l.fn != nil {
 		if err := l.fn(p); err != nil {
@@ -466,5 +474,15 @@ func (l *loader) commit(p *Part, rec []string, line int) bool {
 			l.stopped = true
 		}
 	}
-	return true
+	return true, 0
+}
+
+// partCol is the 1-based file column of the part names.
+func (l *loader) partCol() int { return l.fileCol[partSchema.byName["part"]] }
+
+// duplicate reports a part whose name was seen on line first.
+func (l *loader) duplicate(p *Part, line int, cell string, first int) {
+	l.problem(&Problem{Line: line, Column: l.partCol(), Field: "part", Part: p.Name, Text: cell, Fatal: true,
+		Err: &valueError{msg: fmt.Sprintf("%q: %v: the part on line %d has the same name (names are compared ignoring case)",
+			p.Name, ErrDuplicatePart, first), kind: ErrDuplicatePart}})
 }

@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"encoding/csv"
 	"errors"
+	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -407,6 +409,92 @@ func TestMalformed(t *testing.T) {
 			if lib == nil || !probs.Fatal() {
 				t.Errorf("%s: %.40q: no fatal problem (%v)", d.name, in, probs)
 			}
+		}
+	}
+}
+
+// bigLibrary builds a library of n rows from the fixture parts, with
+// unique names, a bad cell every 97 rows and a duplicate every 89; rows
+// get shorter after the first quarter, so that sizing from the first rows
+// underestimates (the parallel decoder must then fall back to copying).
+func bigLibrary(t *testing.T, n int) []byte {
+	t.Helper()
+	good, err := os.ReadFile("testdata/parts/good.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(good)), "\n")
+	header, rows := lines[1], lines[2:]
+	var b strings.Builder
+	b.WriteString(header + ",notes\n")
+	for i := range n {
+		r := rows[i%len(rows)]
+		name, rest, _ := strings.Cut(r, ",")
+		id := fmt.Sprintf("%s-%d", name, i)
+		switch {
+		case i%89 == 88:
+			id = fmt.Sprintf("%s-%d", name, i-1) // same name as the row before
+		case i%97 == 96:
+			rest = strings.Replace(rest, ",30,", ",30x,", 1)
+		}
+		notes := "n"
+		if i < n/4 {
+			notes = strings.Repeat("long notes ", 20)
+		}
+		if i%50 == 7 {
+			notes = `"quoted, with a comma"`
+		}
+		fmt.Fprintf(&b, "%s,%s,%s\n", id, rest, notes)
+	}
+	return []byte(b.String())
+}
+
+// TestParallelMatchesSequential checks the parallel decoder against the
+// sequential one on a larger library, with a known size (decoding in place,
+// then falling back) and an unknown size (copying).
+func TestParallelMatchesSequential(t *testing.T) {
+	data := bigLibrary(t, 5000)
+	want, wp := check(bytes.NewReader(data), "big.csv", decodeFast)
+	if len(want.Parts) < 4800 || len(wp) < 30 {
+		t.Fatalf("fixture: %d parts, %d problems", len(want.Parts), len(wp))
+	}
+	for _, r := range []func() io.Reader{
+		func() io.Reader { return bytes.NewReader(data) },
+		func() io.Reader { return io.MultiReader(bytes.NewReader(data)) }, // size unknown
+	} {
+		got, gp := check(r(), "big.csv", decodeParallel)
+		if !reflect.DeepEqual(want, got) {
+			t.Errorf("libraries differ: %d vs %d parts", len(want.Parts), len(got.Parts))
+		}
+		if wp.Error() != gp.Error() {
+			t.Errorf("problems differ")
+		}
+	}
+	// Streaming with an early stop gives the same prefix.
+	for _, d := range []decoderKind{decodeFast, decodeParallel} {
+		var names []string
+		l := newLoader("big.csv", func(p *Part) error {
+			names = append(names, p.Name)
+			if len(names) == 1000 {
+				return errors.New("enough")
+			}
+			return nil
+		})
+		_, probs := l.scan(bytes.NewReader(data), d)
+		if len(names) != 1000 || names[999] != want.Parts[999].Name || probs[len(probs)-1].Err.Error() != "enough" {
+			t.Errorf("decoder %d: stop after %d names, last problem %v", d, len(names), probs[len(probs)-1])
+		}
+		if d == decodeFast {
+			continue
+		}
+		_, seq := newLoader("big.csv", func(p *Part) error {
+			if p.Line == want.Parts[999].Line {
+				return errors.New("enough")
+			}
+			return nil
+		}).scan(bytes.NewReader(data), decodeFast)
+		if seq.Error() != probs.Error() {
+			t.Errorf("stop: problems differ between decoders")
 		}
 	}
 }

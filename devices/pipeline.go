@@ -1,38 +1,55 @@
 package devices
 
 import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
 	"runtime"
 	"sync"
 )
 
-// The parallel decoder splits a read in three: one goroutine reads and
-// splits rows into batches, workers decode and validate the batches, and
-// the calling goroutine takes the batches back in file order to check
-// names and hand out parts. Only the last step has state; it runs in the
-// same order as the sequential decoder, so the parts and problems are the
-// same (the tests run every fixture through both).
+// The parallel decoder splits a read in three: one goroutine reads lines
+// into batches, workers split, decode and validate the rows of a batch,
+// and the calling goroutine takes the batches back in file order to check
+// names and hand out parts. Only the last step has state; it runs in file
+// order as the sequential decoder does, so the parts and problems are the
+// same (the tests and the fuzz target run every input through both).
 
 const batchRows = 256
 
 // batch is a run of rows on its way through the pipeline.
 type batch struct {
 	n     int           // rows in use
-	rows  [][]string    // records; their strings are owned by the batch
+	buf   []byte        // text of the unsplit rows, as read (reused)
+	text  string        // buf as one string, made once per batch; the parts' strings point into it
+	span  [][2]int      // unsplit row i is text[span[i][0]:span[i][1]]
+	split [][]string    // or row i as split by the quoted path (nil for unsplit rows)
 	lines []int         // file line of each row
-	cells []string      // backing array of rows
 	parts []Part        // decoded rows
 	probs []ProblemList // problems of each row
-	fatal []bool        // whether row i has a fatal problem
+	fatal []bool        // whether row i has a fatal problem (or is not a part at all)
 	// reading holds the problems met while reading, each before row at[k].
 	reading ProblemList
 	at      []int
-	errs    []cellErr // worker scratch
-	done    chan struct{}
+	// For Check: when final is not nil, row i decodes straight into
+	// final[base+i], the library's own slice, and is not copied again.
+	final []Part
+	base  int
+	done  chan struct{}
+}
+
+// part returns where row i decodes.
+func (b *batch) part(i int) *Part {
+	if b.final != nil {
+		return &b.final[b.base+i]
+	}
+	return &b.parts[i]
 }
 
 func newBatch() *batch {
 	return &batch{
-		rows: make([][]string, batchRows), lines: make([]int, batchRows),
+		span: make([][2]int, batchRows), split: make([][]string, batchRows), lines: make([]int, batchRows),
 		parts: make([]Part, batchRows), probs: make([]ProblemList, batchRows), fatal: make([]bool, batchRows),
 	}
 }
@@ -41,7 +58,7 @@ func newBatch() *batch {
 func workerCount() int { return max(1, min(runtime.GOMAXPROCS(0), 8)) }
 
 // readParallel is readFast spread over goroutines.
-func (l *loader) readParallel(src source) {
+func (l *loader) readParallel(t *rowReader) {
 	workers := workerCount()
 	depth := 2*workers + 2
 	free := make(chan *batch, depth)
@@ -57,6 +74,8 @@ func (l *loader) readParallel(src source) {
 	go func() {
 		defer close(work)
 		defer close(order)
+		var final []Part // Check: the library's slice, sized from the first batch
+		next, inPlace := 0, true
 		for {
 			var b *batch
 			select {
@@ -64,32 +83,17 @@ func (l *loader) readParallel(src source) {
 			case <-quit:
 				return
 			}
-			b.n, b.cells, b.reading, b.at = 0, b.cells[:0], b.reading[:0], b.at[:0]
+			eof := l.fill(t, b, &rows)
+			if l.parts != nil && final == nil && l.sizeHint > 0 && b.n > 0 {
+				est := l.sizeHint / int64(max(len(b.text)/b.n, 16))
+				final = make([]Part, min(est+est/8+16, 1<<24))
+			}
+			b.final, b.base = nil, 0
+			if inPlace = inPlace && next+b.n <= len(final); inPlace {
+				b.final, b.base = final, next
+				next += b.n
+			}
 			b.done = make(chan struct{})
-			eof := false
-			for b.n < batchRows {
-				before := len(b.reading)
-				rec, line := l.nextRow(src, &b.reading, &rows)
-				for range len(b.reading) - before {
-					b.at = append(b.at, b.n)
-				}
-				if rec == nil {
-					eof = true
-					break
-				}
-				start := len(b.cells)
-				b.cells = append(b.cells, rec...)
-				b.rows[b.n] = b.cells[start:len(b.cells):len(b.cells)]
-				b.lines[b.n] = line
-				b.n++
-			}
-			// Rows point into b.cells, which append may have moved: re-slice.
-			off := 0
-			for i := 0; i < b.n; i++ {
-				k := len(b.rows[i])
-				b.rows[i] = b.cells[off : off+k : off+k]
-				off += k
-			}
 			work <- b
 			order <- b
 			if eof {
@@ -98,15 +102,27 @@ func (l *loader) readParallel(src source) {
 		}
 	}()
 
-	// Workers: decode and validate.
+	// Workers: split, decode and validate.
 	var wg sync.WaitGroup
 	for range workers {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			var errs []cellErr
+			var fields []string
 			for b := range work {
 				for i := 0; i < b.n; i++ {
-					b.probs[i], b.fatal[i] = l.decode(&b.parts[i], b.rows[i], b.lines[i], &b.errs)
+					rec := b.split[i]
+					if rec == nil {
+						fields = splitFields(fields[:0], b.text[b.span[i][0]:b.span[i][1]])
+						rec = fields
+						if len(rec) != len(l.colOf) {
+							b.probs[i], b.fatal[i] = ProblemList{l.fieldCountProblem(rec, b.lines[i])}, true
+							continue
+						}
+					}
+					// The cells are substrings of b.text, which is never reused.
+					b.probs[i], b.fatal[i] = l.decode(b.part(i), rec, b.lines[i], &errs)
 				}
 				close(b.done)
 			}
@@ -119,6 +135,8 @@ func (l *loader) readParallel(src source) {
 		if !l.stopped {
 			l.collect(b)
 		}
+		b.final = nil
+		b.text = ""
 		free <- b
 		if l.stopped {
 			select {
@@ -130,6 +148,58 @@ func (l *loader) readParallel(src source) {
 	}
 	wg.Wait()
 	l.rows += rows
+}
+
+// fill reads up to batchRows rows into b and reports whether the input
+// ended. Its problems and row count are those of nextRow.
+func (l *loader) fill(t *rowReader, b *batch, rows *int) (eof bool) {
+	b.n, b.buf, b.reading, b.at = 0, b.buf[:0], b.reading[:0], b.at[:0]
+	defer func() { b.text = string(b.buf) }()
+	for b.n < batchRows {
+		raw, isRaw, rec, err := t.nextRaw()
+		if err != nil {
+			var pe *csv.ParseError
+			switch {
+			case errors.Is(err, io.EOF):
+				return true
+			case errors.As(err, &pe):
+				*rows++
+				b.reading = append(b.reading, &Problem{File: l.file, Line: pe.Line, Err: fmt.Errorf("byte %d of the line: %w", pe.Column, pe.Err), Fatal: true})
+				b.at = append(b.at, b.n)
+				continue
+			default:
+				b.reading = append(b.reading, &Problem{File: l.file, Err: fmt.Errorf("reading: %w", err), Fatal: true})
+				b.at = append(b.at, b.n)
+				return true
+			}
+		}
+		*rows++
+		if isRaw {
+			start := len(b.buf)
+			b.buf = append(b.buf, raw...)
+			b.span[b.n], b.split[b.n] = [2]int{start, len(b.buf)}, nil
+		} else {
+			if len(rec) != len(l.colOf) {
+				b.reading = append(b.reading, l.fieldCountProblem(rec, t.line))
+				b.at = append(b.at, b.n)
+				continue
+			}
+			b.split[b.n] = append([]string(nil), rec...)
+		}
+		b.lines[b.n] = t.line
+		b.n++
+	}
+	return false
+}
+
+// fieldCountProblem reports a ragged row, as nextRow does.
+func (l *loader) fieldCountProblem(rec []string, line int) *Problem {
+	col := 0
+	if len(rec) > len(l.colOf) {
+		col = len(l.colOf) + 1
+	}
+	return &Problem{File: l.file, Line: line, Column: col, Fatal: true,
+		Err: fmt.Errorf("%w: the row has %d, the header %d", ErrFieldCount, len(rec), len(l.colOf))}
 }
 
 // collect commits one decoded batch.
@@ -144,11 +214,29 @@ func (l *loader) collect(b *batch) {
 			continue
 		}
 		if l.names == nil {
-			l.sizeFor(b.rows[i])
+			l.names = newNameSet(len(b.final)) // the reader sized final; 0 when unknown
 		}
-		p := &b.parts[i]
-		if l.commit(p, b.rows[i], b.lines[i]) && l.parts != nil {
+		p := b.part(i)
+		ok, first := l.commit(p, b.lines[i])
+		switch {
+		case ok && l.parts != nil && b.final != nil:
+			// Decoded in place: compact over the rows refused so far.
+			w := len(*l.parts)
+			if w == b.base+i {
+				*l.parts = b.final[:w+1]
+			} else {
+				*l.parts = append(*l.parts, *p)
+			}
+		case ok && l.parts != nil:
 			*l.parts = append(*l.parts, *p)
+		case !ok:
+			cell := ""
+			if rec := b.split[i]; rec != nil {
+				cell = rec[l.partCol()-1]
+			} else {
+				cell = splitFields(nil, b.text[b.span[i][0]:b.span[i][1]])[l.partCol()-1]
+			}
+			l.duplicate(p, b.lines[i], cell, first)
 		}
 	}
 	if !l.stopped {

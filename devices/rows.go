@@ -6,6 +6,7 @@ import (
 	"encoding/csv"
 	"errors"
 	"io"
+	"strings"
 )
 
 // rowReader splits CSV text into records exactly as encoding/csv.Reader
@@ -71,6 +72,19 @@ func lengthNL(b []byte) int {
 // end of the input it returns io.EOF; a syntax error is a *csv.ParseError
 // (the rest of the record's line is skipped, as encoding/csv does).
 func (t *rowReader) read() ([]string, error) {
+	raw, isRaw, rec, err := t.nextRaw()
+	if !isRaw {
+		return rec, err
+	}
+	t.rec = splitFields(t.rec[:0], string(raw))
+	return t.rec, err
+}
+
+// nextRaw reads the next record. A record that is one line without quotes,
+// the usual case, comes back unsplit: raw is its text without the line
+// end, valid until the next call, and isRaw is true. Any other record comes
+// back split, in rec (reused by the next call). err is as for read.
+func (t *rowReader) nextRaw() (raw []byte, isRaw bool, rec []string, err error) {
 	var line []byte
 	var errRead error
 	for errRead == nil {
@@ -86,24 +100,27 @@ func (t *rowReader) read() ([]string, error) {
 		break
 	}
 	if errRead == io.EOF {
-		return nil, errRead
+		return nil, false, nil, errRead
 	}
 	t.line = t.numLine
 	if bytes.IndexByte(line, '"') < 0 {
-		// Fast path: no quotes, fields are the text between commas.
-		s := string(line[:len(line)-lengthNL(line)])
-		rec := t.rec[:0]
-		start := 0
-		for i := 0; i < len(s); i++ {
-			if s[i] == ',' {
-				rec = append(rec, s[start:i])
-				start = i + 1
-			}
-		}
-		t.rec = append(rec, s[start:])
-		return t.rec, errRead
+		return line[:len(line)-lengthNL(line)], true, nil, errRead
 	}
-	return t.readQuoted(line, errRead)
+	rec, err = t.readQuoted(line, errRead)
+	return nil, false, rec, err
+}
+
+// splitFields appends to dst the fields of a record without quotes: the
+// text between commas.
+func splitFields(dst []string, s string) []string {
+	for {
+		i := strings.IndexByte(s, ',')
+		if i < 0 {
+			return append(dst, s)
+		}
+		dst = append(dst, s[:i])
+		s = s[i+1:]
+	}
 }
 
 // readQuoted is encoding/csv's field loop, for lines with quotes.

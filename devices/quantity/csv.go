@@ -46,11 +46,15 @@ func (o Opt[Q]) MarshalCSV() (string, error) {
 	return strconv.FormatFloat(float64(o.V), 'g', -1, 64), nil
 }
 
-// isBlank reports whether s is empty or white space only (Unicode white
-// space too, so that a cell holding a no-break space counts as blank).
+// isBlank reports whether s is empty or white space only, as
+// strings.TrimSpace sees it (Unicode white space too, so that a cell holding
+// a no-break space counts as blank). Parse returns ErrEmpty, unwrapped,
+// exactly for these texts.
 func isBlank(s string) bool {
 	for i := 0; i < len(s); i++ {
-		if s[i] != ' ' && s[i] != '\t' {
+		switch s[i] {
+		case ' ', '\t', '\n', '\v', '\f', '\r':
+		default:
 			if s[i] >= 0x80 {
 				return strings.TrimSpace(s) == ""
 			}

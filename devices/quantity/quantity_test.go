@@ -333,3 +333,14 @@ func BenchmarkParseFloat(b *testing.B) {
 		}
 	}
 }
+
+// TestBlank checks that a blank optional cell is exactly a text for which
+// Parse returns ErrEmpty itself (the loader relies on it).
+func TestBlank(t *testing.T) {
+	for _, s := range []string{"", " ", "\t", "\v \r", "\u00a0", " \u2009 ", "x", " 1", "\u00a0m", "-"} {
+		_, err := Parse[Voltage](s)
+		if isBlank(s) != (err == ErrEmpty) {
+			t.Errorf("%q: isBlank %v, Parse error %v", s, isBlank(s), err)
+		}
+	}
+}
