@@ -103,10 +103,14 @@ type Device struct {
 	Lloop q.Inductance // package share of the power loop
 
 	// Gate capacitances for the false-turn-on screen.
-	Cgs    q.Capacitance // gate-source, F (0: unknown)
-	Crss   q.Capacitance // small-signal Crss at CrssV, F (0: not given)
-	CrssV  q.Voltage     // voltage of Crss, V
-	CgsEst bool          // Cgs estimated from the gate charge to the plateau
+	Cgs  q.Capacitance // gate-source, F (0: unknown)
+	Crss q.Capacitance // small-signal Crss at CrssV, F (0: not given)
+	// Miller is Cgd(v) with a knee (MillerLaw), when HasMiller: the
+	// gate-charge method with crss given.
+	Miller    MillerLaw
+	HasMiller bool
+	CrssV     q.Voltage // voltage of Crss, V
+	CgsEst    bool      // Cgs estimated from the gate charge to the plateau
 
 	Flags Flags // fallbacks that belong to the part, whatever the operating point
 }
@@ -234,6 +238,11 @@ func Prepare(p *devices.Part) (Device, error) {
 	if err := d.prepareSecondOrder(); err != nil {
 		return Device{}, err
 	}
+	if d.Method == MethodGateCharge && d.Crss > 0 && d.QgVds > 0 && d.Qgd > 0 {
+		d.Miller, d.HasMiller = FitMillerLaw(d.Qgd, d.QgVds, d.Crss, d.VplSpec), true
+	} else if d.Method == MethodGateCharge {
+		d.Flags |= FlagMillerLumped
+	}
 	return d, nil
 }
 
@@ -320,6 +329,9 @@ func (d *Device) ThresholdAt(tj q.Temperature) q.Voltage { return ThresholdAt(d.
 func (d *Device) CgdAt(v q.Voltage) q.Capacitance {
 	if v <= 0 {
 		return 0
+	}
+	if d.HasMiller {
+		return q.Capacitance(float64(d.Miller.Charge(v)) / float64(v))
 	}
 	if d.Qgd > 0 {
 		return q.Capacitance(float64(MillerChargeAt(d.Qgd, d.QgVds, v)) / float64(v))

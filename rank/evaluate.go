@@ -299,6 +299,9 @@ func (m *devModel) prepare() {
 	m.odPk, m.qgs2Pk = od(st.IPeak)
 	m.qgdV = MillerChargeAt(d.Qgd, d.QgVds, st.V)
 	m.qgdGate = MillerChargeAt(d.Qgd, d.QgVds, m.vdsGate)
+	if d.HasMiller {
+		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
+	}
 	if d.Vth > 0 {
 		m.qthPerV = float64(d.Qth) / float64(d.Vth)
 	}
@@ -327,8 +330,9 @@ type tempState struct {
 	tir0, tif0         q.Time      // current intervals without it
 	tRise, tFall       q.Time      // the intervals in which the loop current changes
 	eon, eoff          q.Energy
-	elcsOn, elcsOff    q.Energy // added by the common-source inductance
-	eloop              q.Energy // net added by the loop inductance
+	elcsOn, elcsOff    q.Energy  // added by the common-source inductance
+	eloop              q.Energy  // net added by the loop inductance
+	iTop               q.Current // channel current left when the turn-off voltage rise ends
 	vpeak              q.Voltage
 	vsd1, vsd2         q.Voltage
 	edead              q.Energy
@@ -417,6 +421,9 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 		}
 		if st.HardOn {
 			eMiller := OverlapEnergy(v, st.IOn, 0, a.trans.Tvf)
+			if d.HasMiller {
+				eMiller = MillerFallEnergy(d.Miller, v, st.IOn, GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource))
+			}
 			if d.Method == MethodGateCharge {
 				eir := CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop)
 				a.eon = eir + eMiller
@@ -432,7 +439,18 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 		}
 		if st.HardOff {
 			a.eoff = CurrentFallEnergy(v, st.IOff, a.tFall, m.lloop)
-			if d.Method == MethodGateCharge {
+			if d.HasMiller {
+				// The load current charges Coss while the voltage rises:
+				// the channel keeps only the rest (MillerRiseEnergy).
+				evr, iTop := MillerRiseEnergy(d.Miller, d.Oss, v, st.IOff, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink))
+				a.iTop = iTop
+				a.eoff = evr + CurrentFallEnergy(v, iTop, a.tFall, 0) +
+					q.Energy(0.5*float64(m.lloop)*float64(st.IOff)*float64(st.IOff))
+				if m.lcs > 0 {
+					a.elcsOff = OverlapEnergy(v, iTop, a.trans.Tif-a.tif0, 0)
+				}
+			} else if d.Method == MethodGateCharge {
+				a.iTop = st.IOff
 				a.eoff += OverlapEnergy(v, st.IOff, a.trans.Tvr, 0)
 				if m.lcs > 0 {
 					a.elcsOff = OverlapEnergy(v, st.IOff, a.trans.Tif-a.tif0, 0)

@@ -444,7 +444,9 @@ func TestOnResistanceCurve(t *testing.T) {
 
 // False turn-on of the synchronous GaN switch, pinned at 100 °C (GaN
 // threshold −1 mV/K from memory: 1.325 V). The control switch's voltage fall
-// (gate-charge method, Balogh 2001): Qgd(48 V) = 1n·√(48/50), plateau at
+// (gate-charge method, Balogh 2001) with the knee law of Cgd (MillerLaw:
+// Crss 5 pF above the plateau, the rest of Qgd below it): Qgd(48 V) =
+// 1 nC − 5 pF·(50 − 48) V, plateau at
 // 10 A 2.325 V, t_vf = Qgd·(1 + 0.4 Ω)/(5 − 2.325), dv/dt = 48/t_vf
 // (≈ 94 V/ns). The off switch (Balogh 2001; Lidow et al.): Cgd = Qgd/48 V,
 // Cgs = 600 − 5 pF, R = Rsink + 0.4 Ω, ΔV = Cgd·dv/dt·R·(1 − e^(−t/τ)).
@@ -454,7 +456,7 @@ func TestOnResistanceCurve(t *testing.T) {
 // ≈ −3.33 V, inside −4 V; at −3 V it goes below −4 V (flagged, not failed).
 func TestFalseTurnOnGaN(t *testing.T) {
 	const vth, vpl = 1.4 - 0.075, 2.4 - 0.075
-	qgd := 1e-9 * math.Sqrt(48.0/50)
+	qgd := 1e-9 - 5e-12*(50-48)
 	cgd, cgs := qgd/48, 600e-12-5e-12
 	bounce := func(tt, r float64) float64 {
 		return cgd * 48 / tt * r * (1 - math.Exp(-tt/(r*(cgs+cgd))))

@@ -46,6 +46,7 @@ const (
 	FlagGateSpike                          // negative gate bounce below vgs_min (transient)
 	FlagSiCLowDrive                        // SiC part driven below 15 V
 	FlagNoHysteresis                       // class E: no eoss_loss column, hysteresis loss not counted
+	FlagMillerLumped                       // no crss: one lumped Qgd with a straight voltage ramp
 	flagCount
 )
 
@@ -84,6 +85,7 @@ var flagText = [...]struct{ code, text string }{
 	{"vgs-spike", "the dv/dt at the other switch's turn-off pulls the gate below vgs_min (a transient: check the transient rating)"},
 	{"sic-drive", "SiC part driven below 15 V: its on-resistance and switching data are usually given at 15-20 V"},
 	{"hyst?", "no eoss_loss: output-capacitance hysteresis loss under soft switching not counted"},
+	{"miller-lump", "no crss (with cap_vds): Qgd taken as one lump with a straight voltage ramp, and Coss charging at turn-off not counted (pessimistic)"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".
