@@ -148,7 +148,9 @@ func (r *compareReport) columns() []int {
 func (r *compareReport) table(w io.Writer, markdown bool) error {
 	if !markdown {
 		describePoint(w, r.pt, r.source, r.parts)
-		fmt.Fprintf(w, "conduction mode: %s\n", r.pt.Mode)
+		if r.pt.Mode != rank.ModeGiven {
+			fmt.Fprintf(w, "conduction mode: %s\n", r.pt.Mode)
+		}
 	}
 	f := &r.fitted
 	fmt.Fprintf(w, "\nfitted %s: total %s", f.Dev.Part.Name, watts(float64(f.Losses.Total())))

@@ -433,7 +433,9 @@ func (r *decisionReport) describe(w io.Writer) {
 		fmt.Fprintf(w, "library %s: %d parts\n", r.source, r.parts)
 	} else {
 		describePoint(w, r.plan.pt, r.source, r.parts)
-		fmt.Fprintf(w, "conduction mode: %s\n", r.plan.pt.Mode)
+		if r.plan.pt.Mode != rank.ModeGiven {
+			fmt.Fprintf(w, "conduction mode: %s\n", r.plan.pt.Mode)
+		}
 	}
 	if r.parallel {
 		if r.auto {

@@ -116,6 +116,7 @@ func (d *decisionFlags) apply(fs *flag.FlagSet, in *inputs) error {
 			in.parts = p
 		}
 	}
+	scratch := scratchFlags()
 	for _, sec := range df.sections() {
 		keys := sortedKeys(sec.values)
 		for _, k := range keys {
@@ -124,6 +125,13 @@ func (d *decisionFlags) apply(fs *flag.FlagSet, in *inputs) error {
 				return err
 			}
 			if d.set[k] {
+				// The command line wins, but a bad value in the file is
+				// still reported.
+				if scratch.Lookup(k) != nil {
+					if err := scratch.Set(k, v.s); err != nil {
+						return df.errAt(sec.name+"."+k, err)
+					}
+				}
 				continue
 			}
 			f := fs.Lookup(k)
@@ -157,6 +165,7 @@ func (d *decisionFlags) point(df *designFile, i int, p map[string]rawValue, in *
 	fs.SetOutput(io.Discard)
 	tmp.register(fs)
 	tmp.stage = in.stage
+	scratch := scratchFlags()
 	dp := designPoint{name: fmt.Sprintf("point %d", i+1), weight: 1}
 	weightGiven := false
 	for _, k := range sortedKeys(p) {
@@ -176,10 +185,11 @@ func (d *decisionFlags) point(df *designFile, i int, p map[string]rawValue, in *
 		if fs.Lookup(k) == nil || nonStageKeys[k] {
 			return dp, df.errAt(where+"."+k, fmt.Errorf("unknown key for a point (want name, weight or a stage, driver or thermal value)"))
 		}
+		target := fs
 		if d.set[k] {
-			continue
+			target = scratch // the command line wins; still check the value
 		}
-		if err := fs.Set(k, v.s); err != nil {
+		if err := target.Set(k, v.s); err != nil {
 			return dp, df.errAt(where+"."+k, err)
 		}
 	}
@@ -245,6 +255,18 @@ func (df *designFile) checkSection(sec, key string, fs *flag.FlagSet) error {
 		return df.errAt(sec+"."+key, errors.New("unknown key in [stage]"))
 	}
 	return nil
+}
+
+// scratchFlags is a flag set of every rank flag, for checking values.
+func scratchFlags() *flag.FlagSet {
+	var in inputs
+	var d decisionFlags
+	fs := flag.NewFlagSet("", flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	in.register(fs)
+	in.registerOutput(fs)
+	d.register(fs)
+	return fs
 }
 
 // stageKeyElsewhere reports whether key is a stage flag of some command
