@@ -329,3 +329,43 @@ func TestResonantCLI(t *testing.T) {
 		t.Errorf("Q_L 1.5: %d %s", code, e)
 	}
 }
+
+// Each kind of bad library input through the command line: check lists
+// every problem located by file, line, column and field, and exits 1;
+// rank refuses the library with the same messages. (The fixtures are the
+// loader's, in devices/testdata/parts.)
+func TestCheckBadLibraries(t *testing.T) {
+	dir := "../../devices/testdata/parts/"
+	cases := []struct{ file, want string }{
+		{"bad_number.csv", `bad_number.csv:3:7: rds_on: "abc": not a number`},
+		{"bad_unit.csv", `bad_unit.csv:3:14: coss: "3 nC": wrong unit`},
+		{"conditional.csv", "conditional.csv:2:30: rds_on2_vgs: needed by rds_on2"},
+		{"duplicate.csv", "duplicate.csv:4:1: part: \"fx30a\": duplicate part name"},
+		{"duplicate_column.csv", "duplicate_column.csv:1:16: qg: column given twice"},
+		{"empty.csv", "empty.csv: empty file: no header row"},
+		{"header_only.csv", "header_only.csv:2: no parts"},
+		{"missing_column.csv", "missing_column.csv:1: vgs_th: missing required column"},
+		{"nan.csv", `nan.csv:2:7: rds_on: "NaN": not a finite number`},
+		{"nonphysical.csv", "nonphysical.csv:4:6: vgs_th: 22.00 V: must be below vgs_max"},
+		{"quotes.csv", `quotes.csv:3: byte 3 of the line: bare " in non-quoted-field`},
+		{"ragged.csv", "ragged.csv:3: wrong number of fields"},
+		{"relations.csv", "relations.csv:3:14: crss: 500.0 pF: exceeds coss"},
+	}
+	for _, c := range cases {
+		t.Run(c.file, func(t *testing.T) {
+			code, out, e := runCLI(t, "check", dir+c.file)
+			if code != 1 || !strings.Contains(out, c.want) {
+				t.Errorf("check: code %d, output %q %q, want %q", code, out, e, c.want)
+			}
+			code, out, e = runCLI(t, args([]string{"rank", "--parts", dir + c.file}, buck)...)
+			if code != 1 || !strings.Contains(e, c.want) || out != "" {
+				t.Errorf("rank: code %d, stdout %q, stderr %q, want %q", code, out, e, c.want)
+			}
+		})
+	}
+	// Warnings only: the library loads, the unknown columns are named.
+	code, out, _ := runCLI(t, "check", dir+"unknown_column.csv")
+	if code != 0 || !strings.Contains(out, "colour: unknown column, ignored (warning)") {
+		t.Errorf("unknown column: %d %q", code, out)
+	}
+}
