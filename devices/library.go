@@ -11,6 +11,9 @@ import (
 	"slices"
 	"sort"
 	"strings"
+	"unsafe"
+
+	q "swrank/devices/quantity"
 )
 
 // Library is a parts library as read from one CSV file.
@@ -132,6 +135,7 @@ type loader struct {
 	file    string
 	hdr     Header
 	colOf   []int           // file column → index in partSchema.cols, or −1
+	setters []*column       // file column → its column, or nil (unknown, repeated, unnamed)
 	fileCol []int           // index in partSchema.cols → 1-based file column, or 0
 	missing map[string]bool // required columns absent from the header
 	probs   ProblemList
@@ -261,6 +265,7 @@ func (l *loader) readHeader(src source) bool {
 	l.hdr.Line = line
 	sch := partSchema
 	l.colOf = make([]int, len(rec))
+	l.setters = make([]*column, len(rec))
 	l.fileCol = make([]int, len(sch.cols))
 	l.hdr.Columns = make([]string, len(rec))
 	for j, h := range rec {
@@ -281,6 +286,7 @@ func (l *loader) readHeader(src source) bool {
 				Err: fmt.Errorf("%w (first as column %d)", ErrDuplicateColumn, l.fileCol[ci])})
 		default:
 			l.colOf[j] = ci
+			l.setters[j] = &sch.cols[ci]
 			l.fileCol[ci] = j + 1
 		}
 	}
@@ -372,12 +378,32 @@ func (l *loader) readFast(src source) {
 func (l *loader) decode(p *Part, rec []string, line int, errs *[]cellErr) (ProblemList, bool) {
 	*p = Part{}
 	e := (*errs)[:0]
-	cols := partSchema.cols
+	setters := l.setters[:len(rec)]
+	base := unsafe.Pointer(p)
 	for j, cell := range rec {
-		if ci := l.colOf[j]; ci >= 0 {
-			if err := cols[ci].set(p, cell); err != nil {
+		c := setters[j]
+		if c == nil {
+			continue
+		}
+		// Quantities inline, other kinds through column.set: same results.
+		if c.kind == cellOpt || c.kind == cellQty {
+			v, err := c.parser.Parse(cell)
+			ptr := unsafe.Add(base, c.offset)
+			switch {
+			case err == nil:
+				*(*float64)(ptr) = v
+				if c.kind == cellOpt {
+					*(*bool)(unsafe.Add(ptr, c.okOff)) = true
+				}
+			case err == q.ErrEmpty && c.kind == cellOpt:
+				// Blank optional cell: not given (the zero value).
+			default:
 				e = append(e, cellErr{j, err})
 			}
+			continue
+		}
+		if err := c.set(p, cell); err != nil {
+			e = append(e, cellErr{j, err})
 		}
 	}
 	*errs = e

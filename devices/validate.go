@@ -339,6 +339,13 @@ func ParseCurve(s string) ([]CurvePoint, error) {
 
 const maxCurvePoints = 8
 
+// Parsers of the curve's numbers; like partSchema, built once and never
+// changed.
+var (
+	curveTemp  = q.NewParser(q.Temperature(0).Kind())
+	curveRatio = q.NewParser(q.Ratio(0).Kind())
+)
+
 func curveSep(c byte) bool { return c == ' ' || c == '\t' || c == ',' || c == ';' }
 
 // scanCurve parses s into pts without allocating; it returns the number of
@@ -360,8 +367,9 @@ func scanCurve(s string, pts *[maxCurvePoints]CurvePoint) (int, error) {
 			return 0, curveError(s, "want 2 to 8 points written T:factor")
 		}
 		a, b, ok := strings.Cut(pt, ":")
-		t, err1 := q.Parse[q.Temperature](a)
-		r, err2 := q.Parse[q.Ratio](b)
+		tv, err1 := curveTemp.Parse(a)
+		rv, err2 := curveRatio.Parse(b)
+		t, r := q.Temperature(tv), q.Ratio(rv)
 		if !ok || err1 != nil || err2 != nil || strings.IndexByte(b, '%') >= 0 || !(r > 0) {
 			return 0, curveError(s, fmt.Sprintf("point %q is not T:factor with a factor > 0", pt))
 		}
