@@ -327,3 +327,25 @@ func TestEvaluateFCCM(t *testing.T) {
 	within(t, "partial swing coss", float64(r.Devices[0].Losses.Coss), 1e-9*(12-x)*(12-x)*500e3, 1e-6)
 	within(t, "partial swing: no reverse conduction", float64(r.Devices[0].Losses.DeadTime), 0, 1e-15)
 }
+
+// The light-load paths keep evaluation free of allocations (the partial
+// swing solves with FindRoot on a closure that stays on the stack).
+func TestEvaluateLightLoadAllocations(t *testing.T) {
+	p := lightPart()
+	d, err := Prepare(&p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, st := range []Stage{
+		{Topology: Buck, Vin: 12, Vout: 1.2, Iout: 0.5, Fsw: 500e3, Inductance: 0.5e-6, DeadTime: q.Some[q.Time](5e-9), Driver: Driver{VOn: 5}},
+		{Topology: Buck, Rectifier: DiodeRect, Vin: 12, Vout: 5, Iout: 0.3, Fsw: 100e3, Inductance: 10e-6, Driver: Driver{VOn: 5}},
+	} {
+		pt, err := st.Resolve()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if a := testing.AllocsPerRun(50, func() { _ = Evaluate(&pt, &d, nil, nil) }); a != 0 {
+			t.Errorf("%s: Evaluate allocates %v times per call", pt.Mode, a)
+		}
+	}
+}
