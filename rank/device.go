@@ -109,8 +109,9 @@ type Device struct {
 	// gate-charge method with crss given.
 	Miller    MillerLaw
 	HasMiller bool
-	CrssV     q.Voltage // voltage of Crss, V
-	CgsEst    bool      // Cgs estimated from the gate charge to the plateau
+	rise      RiseIntegral // RiseBase of Miller and Oss
+	CrssV     q.Voltage    // voltage of Crss, V
+	CgsEst    bool         // Cgs estimated from the gate charge to the plateau
 
 	Flags Flags // fallbacks that belong to the part, whatever the operating point
 }
@@ -165,6 +166,7 @@ func Prepare(p *devices.Part) (Device, error) {
 			return Device{}, fmt.Errorf("part %s: rds_on_curve: %w", p.Name, err)
 		}
 		d.Temp.NPts = copy(d.Temp.Pts[:], pts)
+		d.Temp.c0 = d.Temp.curve(float64(d.Temp.T0))
 	case p.RdsHot.OK && p.RdsHotTj.OK && p.RdsHotTj.V != d.Temp.T0:
 		d.Temp.Alpha = FitTempExponent(p.RdsOn, d.Temp.T0, p.RdsHot.V, p.RdsHotTj.V)
 	default:
@@ -240,6 +242,7 @@ func Prepare(p *devices.Part) (Device, error) {
 	}
 	if d.Method == MethodGateCharge && d.Crss > 0 && d.QgVds > 0 && d.Qgd > 0 {
 		d.Miller, d.HasMiller = FitMillerLaw(d.Qgd, d.QgVds, d.Crss, d.VplSpec), true
+		d.rise = RiseBase(d.Miller, d.Oss)
 	} else if d.Method == MethodGateCharge {
 		d.Flags |= FlagMillerLumped
 	}

@@ -278,13 +278,15 @@ type devModel struct {
 	lloop         q.Inductance // power-loop inductance at the hard edges
 
 	// Fixed by prepare.
-	odOn, odOff, odPk       q.Voltage    // plateau overdrive Vpl − Vth at the turn-on, turn-off and peak currents
-	qgs2On, qgs2Off, qgs2Pk q.Charge     // threshold-to-plateau charge at those currents
-	qgdV, qgdGate           q.Charge     // Miller charge at the switched voltage and at the gate curve's voltage
-	qthPerV                 float64      // charge to the threshold per volt of threshold, C/V
-	linGate                 tempState    // gate figures of the linear gate (tr/tf method: temperature-independent)
-	split                   [2]GateSplit // SplitGateEnergy's shares of 1 J at turn-on and at turn-off
-	rRev, rRev25            float64      // GaN reverse-conduction resistance at rds_on_tj and at 25 °C, Ω
+	odOn, odOff, odPk       q.Voltage     // plateau overdrive Vpl − Vth at the turn-on, turn-off and peak currents
+	qgs2On, qgs2Off, qgs2Pk q.Charge      // threshold-to-plateau charge at those currents
+	qgdV, qgdGate           q.Charge      // Miller charge at the switched voltage and at the gate curve's voltage
+	rise                    RiseIntegral  // the turn-off voltage rise (Device.HasMiller)
+	cossEq                  q.Capacitance // charge-equivalent output capacitance at the switched voltage, Q_oss(V)/V
+	qthPerV                 float64       // charge to the threshold per volt of threshold, C/V
+	linGate                 tempState     // gate figures of the linear gate (tr/tf method: temperature-independent)
+	split                   [2]GateSplit  // SplitGateEnergy's shares of 1 J at turn-on and at turn-off
+	rRev, rRev25            float64       // GaN reverse-conduction resistance at rds_on_tj and at 25 °C, Ω
 }
 
 // prepare fixes the temperature-independent parts of at.
@@ -299,8 +301,12 @@ func (m *devModel) prepare() {
 	m.odPk, m.qgs2Pk = od(st.IPeak)
 	m.qgdV = MillerChargeAt(d.Qgd, d.QgVds, st.V)
 	m.qgdGate = MillerChargeAt(d.Qgd, d.QgVds, m.vdsGate)
+	if st.V > 0 && m.lloop > 0 {
+		m.cossEq = q.Capacitance(float64(d.Oss.Q(st.V)) / float64(st.V))
+	}
 	if d.HasMiller {
 		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
+		m.rise = d.rise.At(st.V)
 	}
 	if d.Vth > 0 {
 		m.qthPerV = float64(d.Qth) / float64(d.Vth)
@@ -442,7 +448,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 			if d.HasMiller {
 				// The load current charges Coss while the voltage rises:
 				// the channel keeps only the rest (MillerRiseEnergy).
-				evr, iTop := MillerRiseEnergy(d.Miller, d.Oss, v, st.IOff, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink))
+				evr, iTop := m.rise.Energy(st.IOff, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink))
 				a.iTop = iTop
 				a.eoff = evr + CurrentFallEnergy(v, iTop, a.tFall, 0) +
 					q.Energy(0.5*float64(m.lloop)*float64(st.IOff)*float64(st.IOff))
@@ -458,7 +464,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 			}
 			if m.lloop > 0 {
 				a.eloop += q.Energy(0.5 * float64(m.lloop) * float64(st.IOff) * float64(st.IOff))
-				a.vpeak = LoopOvershoot(v, m.lloop, st.IOff, a.tFall)
+				a.vpeak = LoopOvershoot(v, m.lloop, st.IOff, a.tFall, m.cossEq)
 			}
 		}
 	}
@@ -807,7 +813,7 @@ func offSwitchChecks(sy, ct *DeviceResult, pt *Point, tr *Trace) {
 		}
 		if finite(tRise) {
 			sy.Lloop = l
-			sy.Vpeak = LoopOvershoot(v, l, ct.Stress.IOn, tRise)
+			sy.Vpeak = LoopOvershoot(v, l, ct.Stress.IOn, tRise, q.Capacitance(float64(sy.Dev.Oss.Q(v))/float64(v)))
 			sy.Flags |= FlagLoopL
 			if sy.Vpeak > q.Voltage(s.Derate)*d.Part.VdsMax {
 				sy.Screens |= ScreenVoltage

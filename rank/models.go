@@ -446,6 +446,7 @@ type TempLaw struct {
 	// increasing in temperature; the first NPts are used.
 	Pts  [8][2]float64
 	NPts int
+	c0   float64 // the curve at T0 (set by Prepare; 0: work it out)
 }
 
 // Factor returns R(T)/R(T0).
@@ -453,7 +454,11 @@ func (l *TempLaw) Factor(t q.Temperature) float64 {
 	if l.NPts < 2 {
 		return TempFactor(t, l.T0, l.Alpha)
 	}
-	return l.curve(float64(t)) / l.curve(float64(l.T0))
+	c0 := l.c0
+	if c0 == 0 {
+		c0 = l.curve(float64(l.T0))
+	}
+	return l.curve(float64(t)) / c0
 }
 
 func (l *TempLaw) curve(t float64) float64 {
@@ -536,18 +541,27 @@ func CurrentFallEnergy(v q.Voltage, i q.Current, t q.Time, l q.Inductance) q.Ene
 }
 
 // LoopOvershoot is the peak voltage across a switch whose current is
-// interrupted linearly from i in t through loop inductance l: v + l·i/t.
+// interrupted linearly from i in t through loop inductance l: v + l·i/t,
+// but no more than v + i·√(l/c) when the switch's output capacitance c
+// (charge-equivalent, F; 0: not counted) takes the loop current faster
+// than the ramp: the loop then rings with c, and its stored ½·l·i² becomes
+// ½·c·ΔV².
 //
-// Source: Faraday's law on the commutation loop (Erickson & Maksimović
-// 2001, ch. 4; Ren et al., IEEE TPEL 2006, from memory).
-func LoopOvershoot(v q.Voltage, l q.Inductance, i q.Current, t q.Time) q.Voltage {
+// Source: Faraday's law on the commutation loop and the energy balance of
+// the L-C ring (Erickson & Maksimović 2001, ch. 4; Ren et al., IEEE TPEL
+// 2006, from memory); the minimum of the two is common practice.
+func LoopOvershoot(v q.Voltage, l q.Inductance, i q.Current, t q.Time, c q.Capacitance) q.Voltage {
 	if l <= 0 || i <= 0 {
 		return v
 	}
-	if t <= 0 {
-		return q.Voltage(math.Inf(1))
+	dv := math.Inf(1)
+	if t > 0 {
+		dv = float64(l) * float64(i) / float64(t)
 	}
-	return v + q.Voltage(float64(l)*float64(i)/float64(t))
+	if c > 0 {
+		dv = math.Min(dv, float64(i)*math.Sqrt(float64(l)/float64(c)))
+	}
+	return v + q.Voltage(dv)
 }
 
 // GateBounce is the gate-voltage excursion of an off switch whose drain
@@ -726,36 +740,96 @@ func MillerFallEnergy(m MillerLaw, v q.Voltage, i, ig q.Current) q.Energy {
 // C_oss = K·v^(−N) and a two-constant Cgd, and checked against ngspice
 // (docs/spice-crosscheck.md).
 func MillerRiseEnergy(m MillerLaw, oss OssLaw, v q.Voltage, i, ig q.Current) (q.Energy, q.Current) {
-	if ig <= 0 || i <= 0 || v <= 0 {
+	r := NewRiseIntegral(m, oss, v)
+	return r.Energy(i, ig)
+}
+
+// RiseIntegral is MillerRiseEnergy with the parts that do not depend on the
+// currents worked out once (the thermal loop changes only the gate
+// current).
+type RiseIntegral struct {
+	m        MillerLaw
+	k, n     float64    // output-capacitance law
+	v, vk    float64    // switched voltage and min(knee, v), V
+	pvk, pv  float64    // vk^(2−N) and v^(2−N)
+	lnvk     float64    // ln vk
+	lnv      float64    // ln v
+	lnKc     [2]float64 // ln(K/Clo), ln(K/Chi)
+	cossTop  float64    // Coss(v), F
+	cgdTop   float64    // Cgd at v, F
+	positive bool       // v > 0
+}
+
+// NewRiseIntegral prepares MillerRiseEnergy for law m, output capacitance
+// oss and switched voltage v.
+func NewRiseIntegral(m MillerLaw, oss OssLaw, v q.Voltage) RiseIntegral {
+	b := RiseBase(m, oss)
+	return b.At(v)
+}
+
+// RiseBase is the part of a RiseIntegral that belongs to the device alone
+// (worked out once per part); At completes it for a voltage.
+func RiseBase(m MillerLaw, oss OssLaw) RiseIntegral {
+	r := RiseIntegral{m: m, k: oss.K, n: oss.N, vk: float64(m.Vk)}
+	if m.Vk > 0 {
+		r.pvk = math.Pow(r.vk, 2-r.n)
+		r.lnvk = math.Log(r.vk)
+	}
+	r.lnKc = [2]float64{math.Log(r.k / float64(m.Clo)), math.Log(r.k / float64(m.Chi))}
+	return r
+}
+
+// At completes a RiseBase for switched voltage v: one power and one
+// logarithm.
+func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
+	r := *b
+	r.v, r.positive = float64(v), v > 0
+	if !r.positive {
+		return r
+	}
+	r.pv = math.Pow(r.v, 2-r.n)
+	r.lnv = math.Log(r.v)
+	r.cossTop = r.k * r.pv / (r.v * r.v) // K·v^−N
+	r.cgdTop = float64(r.m.Chi)
+	if v <= r.m.Vk {
+		r.vk, r.pvk, r.lnvk = r.v, r.pv, r.lnv
+		r.cgdTop = float64(r.m.Clo)
+	}
+	return r
+}
+
+// Energy returns the channel's voltage-rise energy and the current left
+// when the voltage reaches v (MillerRiseEnergy).
+func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
+	if ig <= 0 || i <= 0 || !r.positive {
 		return 0, max(i, 0)
 	}
 	a := float64(i) / float64(ig)
-	// Integrate v·(a·c − K·v^−N) over [lo, hi] where it is positive.
-	seg := func(c float64, lo, hi float64) float64 {
-		if hi <= lo {
-			return 0
-		}
-		ac := a * c
-		// a·c ≥ K·x^−N  ⇔  x ≥ (K/(a·c))^(1/N)
-		if oss.N == 0 {
-			if ac <= oss.K {
-				return 0
-			}
-			return (ac - oss.K) * (hi*hi - lo*lo) / 2
-		}
-		xs := math.Pow(oss.K/ac, 1/oss.N)
-		lo = math.Max(lo, xs)
-		if hi <= lo {
-			return 0
-		}
-		return ac*(hi*hi-lo*lo)/2 - oss.K*(math.Pow(hi, 2-oss.N)-math.Pow(lo, 2-oss.N))/(2-oss.N)
-	}
-	vk := float64(min(m.Vk, v))
-	e := seg(float64(m.Clo), 0, vk) + seg(float64(m.Chi), vk, float64(v))
-	cgdTop := m.Chi
-	if v <= m.Vk {
-		cgdTop = m.Clo
-	}
-	iTop := float64(i) - float64(ig)*float64(oss.C(v))/float64(cgdTop)
+	lna := math.Log(a)
+	e := r.seg(a*float64(r.m.Clo), r.lnKc[0]-lna, 0, math.Inf(-1), r.vk, r.lnvk, 0, r.pvk) +
+		r.seg(a*float64(r.m.Chi), r.lnKc[1]-lna, r.vk, r.lnvk, r.v, r.lnv, r.pvk, r.pv)
+	iTop := float64(i) - float64(ig)*r.cossTop/r.cgdTop
 	return q.Energy(e), q.Current(math.Max(iTop, 0))
+}
+
+// seg integrates x·(ac − K·x^−N) over [lo, hi] where it is positive;
+// u = ln(K/ac); plo and phi are lo^(2−N) and hi^(2−N). The integrand is
+// positive for x ≥ xs = (K/ac)^(1/N), ln xs = u/N.
+func (r *RiseIntegral) seg(ac, u, lo, lnlo, hi, lnhi, plo, phi float64) float64 {
+	if hi <= lo || ac <= 0 {
+		return 0
+	}
+	if r.n == 0 {
+		if ac <= r.k {
+			return 0
+		}
+		return (ac - r.k) * (hi*hi - lo*lo) / 2
+	}
+	if lnxs := u / r.n; lnxs > lnlo {
+		if lnxs >= lnhi {
+			return 0
+		}
+		lo, plo = math.Exp(lnxs), math.Exp(lnxs*(2-r.n))
+	}
+	return ac*(hi*hi-lo*lo)/2 - r.k*(phi-plo)/(2-r.n)
 }
