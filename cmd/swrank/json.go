@@ -27,6 +27,7 @@ type jsonStress struct {
 
 type jsonPoint struct {
 	Topology           string      `json:"topology"`
+	Mode               string      `json:"mode"`
 	Rectifier          string      `json:"rectifier,omitempty"`
 	Position           string      `json:"position"`
 	VinV               float64     `json:"vin_v,omitempty"`
@@ -136,7 +137,7 @@ func pointJSON(pt *rank.Point) jsonPoint {
 	s := &pt.Stage
 	d := &s.Driver
 	j := jsonPoint{
-		Topology: s.Topology.String(), Position: s.Position.String(),
+		Topology: s.Topology.String(), Mode: pt.Mode.String(), Position: s.Position.String(),
 		PoutW: float64(s.Pout), FswHz: float64(s.Fsw), RippleA: float64(pt.Ripple),
 		VdriveV: float64(d.VOn), VdriveOffV: float64(d.VOff), RsrcOhm: float64(d.RSource), RsnkOhm: float64(d.RSink),
 		IpkSrcA: float64(d.IPeakSource), IpkSnkA: float64(d.IPeakSink), RgExtOhm: float64(d.RgExt), IqA: float64(d.IQ),

@@ -159,8 +159,8 @@ func describePoint(w io.Writer, pt *rank.Point, source string, parts int) {
 		}
 		fmt.Fprintf(w, "%s %s → %s at %s (%s), %s, with a %s; ranking the %s\n",
 			s.Topology, s.Vin, s.Vout, s.Iout, s.Pout, s.Fsw, second, placeWord(pt))
-		fmt.Fprintf(w, "inductor %s average, %s ripple; control switch: duty %.3f, %s on, %s off, %s rms",
-			pt.IL, pt.Ripple, float64(pt.Ctrl.Duty), pt.Ctrl.IOn, pt.Ctrl.IOff, pt.Ctrl.IRms)
+		fmt.Fprintf(w, "%s conduction; inductor %s average, %s ripple; control switch: duty %.3f, %s on, %s off, %s rms",
+			pt.Mode, pt.IL, pt.Ripple, float64(pt.Ctrl.Duty), pt.Ctrl.IOn, pt.Ctrl.IOff, pt.Ctrl.IRms)
 		if pt.HasSync {
 			fmt.Fprintf(w, "; sync switch %s rms, dead time %s", pt.Sync.IRms, s.DeadTime.V)
 		}
