@@ -12,6 +12,8 @@ import (
 	"testing"
 	"time"
 
+	"github.com/gocarina/gocsv"
+
 	"swrank/devices"
 	"swrank/devices/synth"
 )
@@ -73,6 +75,31 @@ func BenchmarkReadFast(b *testing.B) {
 	benchLoader(b, devices.Check)
 }
 
+// BenchmarkReadSequential is Check with the tag-driven decoder on one
+// goroutine.
+func BenchmarkReadSequential(b *testing.B) {
+	benchLoader(b, devices.CheckSequential)
+}
+
+// BenchmarkGocsvUnmarshal is gocsv's own fastest path on the same bytes,
+// for the record: gocsv.UnmarshalCSV from an encoding/csv reader into a
+// slice of Part, with no validation and no located problems.
+func BenchmarkGocsvUnmarshal(b *testing.B) {
+	for _, n := range sizes {
+		buf := library(b, n)
+		b.Run(name(n), func(b *testing.B) {
+			b.SetBytes(int64(len(buf)))
+			b.ReportAllocs()
+			for b.Loop() {
+				var parts []devices.Part
+				if err := gocsv.UnmarshalCSV(csv.NewReader(bytes.NewReader(buf)), &parts); err != nil || len(parts) != n {
+					b.Fatalf("%d parts, %v", len(parts), err)
+				}
+			}
+		})
+	}
+}
+
 // BenchmarkScan is the streaming form, keeping no parts.
 func BenchmarkScan(b *testing.B) {
 	benchLoader(b, func(r io.Reader, name string) (*devices.Library, devices.ProblemList) {
@@ -129,6 +156,16 @@ func BenchmarkReadRatio(b *testing.B) {
 		}},
 		{"scan", func() {
 			if _, probs := devices.Scan(bytes.NewReader(buf), "bench.csv", func(*devices.Part) error { return nil }); len(probs) > 0 {
+				b.Fatal(probs)
+			}
+		}},
+		{"check-sequential", func() {
+			if _, probs := devices.CheckSequential(bytes.NewReader(buf), "bench.csv"); len(probs) > 0 {
+				b.Fatal(probs)
+			}
+		}},
+		{"scan-sequential", func() {
+			if _, probs := devices.ScanSequential(bytes.NewReader(buf), "bench.csv", func(*devices.Part) error { return nil }); len(probs) > 0 {
 				b.Fatal(probs)
 			}
 		}},

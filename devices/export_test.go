@@ -7,3 +7,15 @@ import "io"
 
 // CheckGocsv is Check with the gocsv decoder.
 func CheckGocsv(r io.Reader, name string) (*Library, ProblemList) { return check(r, name, decodeGocsv) }
+
+// CheckSequential is Check with the tag-driven decoder on one goroutine.
+func CheckSequential(r io.Reader, name string) (*Library, ProblemList) {
+	return check(r, name, decodeFast)
+}
+
+// ScanSequential is Scan on one goroutine.
+func ScanSequential(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) {
+	l := newLoader(name, fn)
+	l.sizeHint = sizeOf(r)
+	return l.scan(r, decodeFast)
+}

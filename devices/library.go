@@ -143,6 +143,7 @@ type loader struct {
 	fn      func(*Part) error // called with each valid part (Scan)
 	parts   *[]Part           // or: valid parts are decoded in place here (Check)
 	stopped bool
+	decoder decoderKind
 	rows    int // data rows seen
 	// sizeHint is the input size in bytes when known; with the length of
 	// the first row it sizes *parts once instead of growing it.
@@ -207,6 +208,7 @@ func normalizeHeader(h string) string {
 
 func (l *loader) scan(r io.Reader, d decoderKind) (Header, ProblemList) {
 	name := l.file
+	l.decoder = d
 	l.hdr.Source = name
 	var src source
 	if d == decodeGocsv {
@@ -223,7 +225,7 @@ func (l *loader) scan(r io.Reader, d decoderKind) (Header, ProblemList) {
 	case decodeParallel:
 		l.readParallel(src.(*rowReader))
 	default:
-		l.readFast(src)
+		l.readBatches(src.(*rowReader))
 	}
 	if l.rows == 0 && !l.stopped {
 		l.probs = append(l.probs, &Problem{File: name, Line: l.hdr.Line, Err: ErrNoParts, Fatal: true})
@@ -341,38 +343,6 @@ func (l *loader) nextRow(src source, probs *ProblemList, rows *int) (rec []strin
 	}
 }
 
-// readFast streams the rows through the per-column setters.
-func (l *loader) readFast(src source) {
-	var own Part
-	var errs []cellErr
-	for !l.stopped {
-		rec, line := l.next(src)
-		if rec == nil {
-			return
-		}
-		if l.names == nil {
-			l.sizeFor(rowBytes(rec))
-		}
-		p := &own
-		if l.parts != nil {
-			*l.parts = append(*l.parts, Part{})
-			p = &(*l.parts)[len(*l.parts)-1]
-		}
-		probs, fatal := l.decode(p, rec, line, &errs)
-		l.probs = append(l.probs, probs...)
-		if !fatal {
-			ok, first := l.commit(p, line)
-			if !ok {
-				l.duplicate(p, line, rec[l.partCol()-1], first)
-			}
-			fatal = !ok
-		}
-		if fatal && l.parts != nil {
-			*l.parts = (*l.parts)[:len(*l.parts)-1]
-		}
-	}
-}
-
 // decode fills p from a record and checks it; it only reads the loader's
 // header state, so that several goroutines may decode at once.
 func (l *loader) decode(p *Part, rec []string, line int, errs *[]cellErr) (ProblemList, bool) {
@@ -418,9 +388,9 @@ func (l *loader) sizeFor(rowLen int) {
 		est := l.sizeHint / int64(max(rowLen, 16))
 		rows = int(min(est+est/8+16, 1<<24))
 	}
-	l.names = newNameSet(rows)
-	if l.parts != nil && cap(*l.parts) == 0 && l.sizeHint > 0 {
-		*l.parts = make([]Part, 0, rows)
+	l.names = newNameSet(min(rows, 1<<20))
+	if l.parts != nil && *l.parts == nil && l.sizeHint > 0 && l.decoder == decodeGocsv {
+		*l.parts = make([]Part, 0, rows) // the other decoders place parts themselves
 	}
 }
 

@@ -74,8 +74,7 @@ func (l *loader) readParallel(t *rowReader) {
 	go func() {
 		defer close(work)
 		defer close(order)
-		var final []Part // Check: the library's slice, sized from the first batch
-		next, inPlace := 0, true
+		var pl placer
 		for {
 			var b *batch
 			select {
@@ -84,15 +83,7 @@ func (l *loader) readParallel(t *rowReader) {
 				return
 			}
 			eof := l.fill(t, b, &rows)
-			if l.parts != nil && final == nil && l.sizeHint > 0 && b.n > 0 {
-				est := l.sizeHint / int64(max(len(b.text)/b.n, 16))
-				final = make([]Part, min(est+est/8+16, 1<<24))
-			}
-			b.final, b.base = nil, 0
-			if inPlace = inPlace && next+b.n <= len(final); inPlace {
-				b.final, b.base = final, next
-				next += b.n
-			}
+			pl.place(l, b)
 			b.done = make(chan struct{})
 			work <- b
 			order <- b
@@ -108,22 +99,9 @@ func (l *loader) readParallel(t *rowReader) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			var errs []cellErr
-			var fields []string
+			var w worker
 			for b := range work {
-				for i := 0; i < b.n; i++ {
-					rec := b.split[i]
-					if rec == nil {
-						fields = splitFields(fields[:0], b.text[b.span[i][0]:b.span[i][1]])
-						rec = fields
-						if len(rec) != len(l.colOf) {
-							b.probs[i], b.fatal[i] = ProblemList{l.fieldCountProblem(rec, b.lines[i])}, true
-							continue
-						}
-					}
-					// The cells are substrings of b.text, which is never reused.
-					b.probs[i], b.fatal[i] = l.decode(b.part(i), rec, b.lines[i], &errs)
-				}
+				w.decode(l, b)
 				close(b.done)
 			}
 		}()
@@ -148,6 +126,70 @@ func (l *loader) readParallel(t *rowReader) {
 	}
 	wg.Wait()
 	l.rows += rows
+}
+
+// readBatches is the sequential decoder: the same steps as readParallel,
+// one batch at a time on the calling goroutine.
+func (l *loader) readBatches(t *rowReader) {
+	b := newBatch()
+	var pl placer
+	var w worker
+	var rows int
+	for !l.stopped {
+		eof := l.fill(t, b, &rows)
+		pl.place(l, b)
+		w.decode(l, b)
+		l.collect(b)
+		if eof {
+			break
+		}
+	}
+	l.rows += rows
+}
+
+// placer decides where Check's parts decode: straight into the library's
+// slice, sized once from the first batch and the input size, while it has
+// room; after that into the batches, to be copied.
+type placer struct {
+	final   []Part
+	next    int
+	started bool
+	full    bool
+}
+
+func (pl *placer) place(l *loader, b *batch) {
+	if l.parts != nil && !pl.started && l.sizeHint > 0 && b.n > 0 {
+		est := l.sizeHint / int64(max(len(b.text)/b.n, 16))
+		pl.final = make([]Part, min(est+est/8+16, 1<<24))
+	}
+	pl.started = true
+	b.final, b.base = nil, 0
+	if pl.full = pl.full || pl.next+b.n > len(pl.final); !pl.full {
+		b.final, b.base = pl.final, pl.next
+		pl.next += b.n
+	}
+}
+
+// worker splits, decodes and validates the rows of a batch.
+type worker struct {
+	errs   []cellErr
+	fields []string
+}
+
+func (w *worker) decode(l *loader, b *batch) {
+	for i := 0; i < b.n; i++ {
+		rec := b.split[i]
+		if rec == nil {
+			w.fields = splitFields(w.fields[:0], b.text[b.span[i][0]:b.span[i][1]])
+			rec = w.fields
+			if len(rec) != len(l.colOf) {
+				b.probs[i], b.fatal[i] = ProblemList{l.fieldCountProblem(rec, b.lines[i])}, true
+				continue
+			}
+		}
+		// The cells are substrings of b.text, which is never reused.
+		b.probs[i], b.fatal[i] = l.decode(b.part(i), rec, b.lines[i], &w.errs)
+	}
 }
 
 // fill reads up to batchRows rows into b and reports whether the input
@@ -214,7 +256,7 @@ func (l *loader) collect(b *batch) {
 			continue
 		}
 		if l.names == nil {
-			l.names = newNameSet(len(b.final)) // the reader sized final; 0 when unknown
+			l.sizeFor(len(b.text) / max(b.n, 1))
 		}
 		p := b.part(i)
 		ok, first := l.commit(p, b.lines[i])

@@ -15,7 +15,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"unicode"
 	"unicode/utf8"
 )
 
@@ -284,6 +283,16 @@ func numberEnd(s string) int {
 	return n
 }
 
+// isSpace is unicode.IsSpace for r ≥ U+0080, without the table search: the
+// Unicode White_Space characters above ASCII.
+func isSpace(r rune) bool {
+	switch r {
+	case 0x85, 0xA0, 0x1680, 0x2028, 0x2029, 0x202F, 0x205F, 0x3000:
+		return true
+	}
+	return r >= 0x2000 && r <= 0x200A
+}
+
 // trim is strings.TrimSpace with a fast exit for text that starts and ends
 // with a printable character.
 func trim(s string) string {
@@ -294,7 +303,7 @@ func trim(s string) string {
 				return s
 			}
 			if b >= utf8.RuneSelf {
-				if r, _ := utf8.DecodeLastRuneInString(s); !unicode.IsSpace(r) {
+				if r, _ := utf8.DecodeLastRuneInString(s); !isSpace(r) {
 					return s
 				}
 			}
@@ -357,7 +366,11 @@ func parseFloat(text string, k *Kind) (float64, error) {
 		if plen == 0 {
 			return 0, unitError(text, rest, *k)
 		}
-		if unit := trimGap(rest[plen:]); unit != "" && !hasUnit(k, unit) {
+		unit := rest[plen:]
+		if unit != "" && (unit[0] == ' ' || unit[0] == '\t' || unit[0] == 0xC2 || unit[0] == 0xE2) {
+			unit = trimGap(unit)
+		}
+		if unit != "" && !hasUnit(k, unit) {
 			return 0, unitError(text, rest, *k)
 		}
 	}

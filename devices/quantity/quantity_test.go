@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"unicode"
 
 	"github.com/dustin/go-humanize"
 )
@@ -341,6 +342,15 @@ func TestBlank(t *testing.T) {
 		_, err := Parse[Voltage](s)
 		if isBlank(s) != (err == ErrEmpty) {
 			t.Errorf("%q: isBlank %v, Parse error %v", s, isBlank(s), err)
+		}
+	}
+}
+
+// TestIsSpace checks isSpace against unicode.IsSpace above ASCII.
+func TestIsSpace(t *testing.T) {
+	for r := rune(0x80); r <= 0x10FFFF; r++ {
+		if isSpace(r) != unicode.IsSpace(r) {
+			t.Fatalf("U+%04X: isSpace %v", r, isSpace(r))
 		}
 	}
 }
