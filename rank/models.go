@@ -752,9 +752,7 @@ type RiseIntegral struct {
 	k, n     float64    // output-capacitance law
 	v, vk    float64    // switched voltage and min(knee, v), V
 	pvk, pv  float64    // vk^(2−N) and v^(2−N)
-	lnvk     float64    // ln vk
-	lnv      float64    // ln v
-	lnKc     [2]float64 // ln(K/Clo), ln(K/Chi)
+	xc       [2]float64 // (K/Clo)^(1/N), (K/Chi)^(1/N): the crossing for a = 1
 	cossTop  float64    // Coss(v), F
 	cgdTop   float64    // Cgd at v, F
 	positive bool       // v > 0
@@ -773,14 +771,14 @@ func RiseBase(m MillerLaw, oss OssLaw) RiseIntegral {
 	r := RiseIntegral{m: m, k: oss.K, n: oss.N, vk: float64(m.Vk)}
 	if m.Vk > 0 {
 		r.pvk = math.Pow(r.vk, 2-r.n)
-		r.lnvk = math.Log(r.vk)
 	}
-	r.lnKc = [2]float64{math.Log(r.k / float64(m.Clo)), math.Log(r.k / float64(m.Chi))}
+	if r.n > 0 {
+		r.xc = [2]float64{math.Pow(r.k/float64(m.Clo), 1/r.n), math.Pow(r.k/float64(m.Chi), 1/r.n)}
+	}
 	return r
 }
 
-// At completes a RiseBase for switched voltage v: one power and one
-// logarithm.
+// At completes a RiseBase for switched voltage v (one power evaluation).
 func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
 	r := *b
 	r.v, r.positive = float64(v), v > 0
@@ -788,34 +786,37 @@ func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
 		return r
 	}
 	r.pv = math.Pow(r.v, 2-r.n)
-	r.lnv = math.Log(r.v)
 	r.cossTop = r.k * r.pv / (r.v * r.v) // K·v^−N
 	r.cgdTop = float64(r.m.Chi)
 	if v <= r.m.Vk {
-		r.vk, r.pvk, r.lnvk = r.v, r.pv, r.lnv
+		r.vk, r.pvk = r.v, r.pv
 		r.cgdTop = float64(r.m.Clo)
 	}
 	return r
 }
 
 // Energy returns the channel's voltage-rise energy and the current left
-// when the voltage reaches v (MillerRiseEnergy).
+// when the voltage reaches v (MillerRiseEnergy). With a = i/ig the
+// integrand of a segment of Cgd = c is positive above xs = (K/(a·c))^(1/N)
+// = xc·a^(−1/N): one power evaluation serves both segments.
 func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 	if ig <= 0 || i <= 0 || !r.positive {
 		return 0, max(i, 0)
 	}
 	a := float64(i) / float64(ig)
-	lna := math.Log(a)
-	e := r.seg(a*float64(r.m.Clo), r.lnKc[0]-lna, 0, math.Inf(-1), r.vk, r.lnvk, 0, r.pvk) +
-		r.seg(a*float64(r.m.Chi), r.lnKc[1]-lna, r.vk, r.lnvk, r.v, r.lnv, r.pvk, r.pv)
+	s := 1.0
+	if r.n > 0 {
+		s = math.Pow(a, -1/r.n)
+	}
+	e := r.seg(a*float64(r.m.Clo), r.xc[0]*s, 0, r.vk, 0, r.pvk) +
+		r.seg(a*float64(r.m.Chi), r.xc[1]*s, r.vk, r.v, r.pvk, r.pv)
 	iTop := float64(i) - float64(ig)*r.cossTop/r.cgdTop
 	return q.Energy(e), q.Current(math.Max(iTop, 0))
 }
 
-// seg integrates x·(ac − K·x^−N) over [lo, hi] where it is positive;
-// u = ln(K/ac); plo and phi are lo^(2−N) and hi^(2−N). The integrand is
-// positive for x ≥ xs = (K/ac)^(1/N), ln xs = u/N.
-func (r *RiseIntegral) seg(ac, u, lo, lnlo, hi, lnhi, plo, phi float64) float64 {
+// seg integrates x·(ac − K·x^−N) over [lo, hi] where it is positive, that
+// is above xs; plo and phi are lo^(2−N) and hi^(2−N).
+func (r *RiseIntegral) seg(ac, xs, lo, hi, plo, phi float64) float64 {
 	if hi <= lo || ac <= 0 {
 		return 0
 	}
@@ -825,11 +826,12 @@ func (r *RiseIntegral) seg(ac, u, lo, lnlo, hi, lnhi, plo, phi float64) float64 
 		}
 		return (ac - r.k) * (hi*hi - lo*lo) / 2
 	}
-	if lnxs := u / r.n; lnxs > lnlo {
-		if lnxs >= lnhi {
+	if xs > lo {
+		if xs >= hi {
 			return 0
 		}
-		lo, plo = math.Exp(lnxs), math.Exp(lnxs*(2-r.n))
+		// xs^(2−N) = xs²/xs^N = xs²·ac/K.
+		lo, plo = xs, xs*xs*ac/r.k
 	}
 	return ac*(hi*hi-lo*lo)/2 - r.k*(phi-plo)/(2-r.n)
 }
