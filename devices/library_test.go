@@ -458,6 +458,10 @@ func TestParallelMatchesSequential(t *testing.T) {
 	if len(want.Parts) < 4800 || len(wp) < 30 {
 		t.Fatalf("fixture: %d parts, %d problems", len(want.Parts), len(wp))
 	}
+	// The gocsv decoder, which shares none of the batch code, agrees.
+	if g, gp := check(bytes.NewReader(data), "big.csv", decodeGocsv); !reflect.DeepEqual(want, g) || gp.Error() != wp.Error() {
+		t.Errorf("gocsv decoder differs on the large library")
+	}
 	for _, r := range []func() io.Reader{
 		func() io.Reader { return bytes.NewReader(data) },
 		func() io.Reader { return io.MultiReader(bytes.NewReader(data)) }, // size unknown
