@@ -345,10 +345,14 @@ func (l *loader) nextRow(src source, probs *ProblemList, rows *int) (rec []strin
 
 // decode fills p from a record and checks it; it only reads the loader's
 // header state, so that several goroutines may decode at once.
-func (l *loader) decode(p *Part, rec []string, line int, errs *[]cellErr) (ProblemList, bool) {
+func (l *loader) decode(p *Part, rec []string, line int, w *worker) (ProblemList, bool) {
 	*p = Part{}
-	e := (*errs)[:0]
+	e := w.errs[:0]
 	setters := l.setters[:len(rec)]
+	if len(w.last) != len(setters) {
+		w.last = make([]lastCell, len(setters))
+	}
+	last := w.last[:len(setters)]
 	base := unsafe.Pointer(p)
 	for j, cell := range rec {
 		c := setters[j]
@@ -357,7 +361,16 @@ func (l *loader) decode(p *Part, rec []string, line int, errs *[]cellErr) (Probl
 		}
 		// Quantities inline, other kinds through column.set: same results.
 		if c.kind == cellOpt || c.kind == cellQty {
-			v, err := c.parser.Parse(cell)
+			var v float64
+			var err error
+			if lc := &last[j]; lc.ok && lc.text == cell {
+				v = lc.v // test conditions repeat down a column: parsed once
+			} else {
+				v, err = c.parser.Parse(cell)
+				if err == nil {
+					*lc = lastCell{text: cell, v: v, ok: true}
+				}
+			}
 			ptr := unsafe.Add(base, c.offset)
 			switch {
 			case err == nil:
@@ -376,7 +389,7 @@ func (l *loader) decode(p *Part, rec []string, line int, errs *[]cellErr) (Probl
 			e = append(e, cellErr{j, err})
 		}
 	}
-	*errs = e
+	w.errs = e
 	return l.checkRow(p, rec, line, e)
 }
 

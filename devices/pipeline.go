@@ -174,6 +174,14 @@ func (pl *placer) place(l *loader, b *batch) {
 type worker struct {
 	errs   []cellErr
 	fields []string
+	last   []lastCell // per file column, the last quantity cell parsed
+}
+
+// lastCell is a parsed cell kept for the next row of the same column.
+type lastCell struct {
+	text string
+	v    float64
+	ok   bool
 }
 
 func (w *worker) decode(l *loader, b *batch) {
@@ -188,7 +196,7 @@ func (w *worker) decode(l *loader, b *batch) {
 			}
 		}
 		// The cells are substrings of b.text, which is never reused.
-		b.probs[i], b.fatal[i] = l.decode(b.part(i), rec, b.lines[i], &w.errs)
+		b.probs[i], b.fatal[i] = l.decode(b.part(i), rec, b.lines[i], w)
 	}
 }
 
