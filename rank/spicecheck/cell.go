@@ -38,6 +38,63 @@ type CellEnergies struct {
 
 	OnTerm, OffTerm float64 // terminal energies of the two edge windows
 	TOn, TOff       float64 // lengths of the edge windows, s
+
+	// Par are the parasitic inductances the cell was simulated with.
+	Par Parasitics
+	// VPeak is the highest drain voltage of the die (drain terminal against
+	// the die's source, before the common-source inductance) from the start
+	// of the turn-off window to the end of the period, V; TPeak is when, s,
+	// measured from the start of the period.
+	VPeak, TPeak float64
+}
+
+// Parasitics are the inductances added to the cell (all zero: the plain
+// cell). docs/spice-crosscheck.md draws where they sit.
+type Parasitics struct {
+	// Lcs is the common-source inductance, H, ≥ 0: between the die's
+	// source (the VDMOS source terminal, behind its internal rs) and the
+	// node shared by the driver return and the power return, so that it
+	// is in the gate loop and in the power loop. swrank is given it as
+	// the package's l_cs and, because the power loop runs through it as
+	// well, as the package's l_loop.
+	Lcs float64
+	// Lloop is a power-loop inductance in series with the bus supply,
+	// that is, in the commutation loop of the switch and the clamp diode
+	// but outside the gate loop, H, ≥ 0. swrank is given it as the
+	// layout's Stage.LoopInductance.
+	Lloop float64
+	// Rloop is a series resistance in the loop beside Lloop (the supply
+	// capacitors' ESR and the copper), Ω, ≥ 0 (0: none).
+	Rloop float64
+	// Rdamp is a resistor across Lloop, Ω, ≥ 0 (0: none). It damps the
+	// ringing of Lloop with the output capacitance after turn-off without
+	// a DC drop; chosen well above √(Lloop/C_oss), it lowers the first
+	// peak by a few per cent at most (docs/spice-crosscheck.md).
+	Rdamp float64
+}
+
+// Zero reports whether no parasitic is set.
+func (x Parasitics) Zero() bool { return x.Lcs == 0 && x.Lloop == 0 && x.Rloop == 0 && x.Rdamp == 0 }
+
+// String names the parasitics for messages, e.g. "Lcs 0.5 nH".
+func (x Parasitics) String() string {
+	var parts []string
+	if x.Lcs > 0 {
+		parts = append(parts, fmt.Sprintf("Lcs %g nH", x.Lcs*1e9))
+	}
+	if x.Lloop > 0 {
+		parts = append(parts, fmt.Sprintf("Lloop %g nH", x.Lloop*1e9))
+	}
+	if x.Rloop > 0 {
+		parts = append(parts, fmt.Sprintf("Rloop %g mΩ", x.Rloop*1e3))
+	}
+	if x.Rdamp > 0 {
+		parts = append(parts, fmt.Sprintf("Rdamp %g Ω across Lloop", x.Rdamp))
+	}
+	if len(parts) == 0 {
+		return "none"
+	}
+	return strings.Join(parts, ", ")
 }
 
 // Total is everything the cell dissipates in the switch and the drive
@@ -55,6 +112,8 @@ type CellOptions struct {
 	StepDivisor float64
 	// Periods simulated; the last is measured. Default 3.
 	Periods int
+	// Par adds parasitic inductances to the cell; zero: none.
+	Par Parasitics
 }
 
 // cellDeck returns the netlist of the clamped-inductive cell: the device,
@@ -72,15 +131,35 @@ func cellDeck(m *Model, p *Point, o CellOptions) (string, float64, float64) {
 	b.WriteString(m.card("dut"))
 	b.WriteString(clampCard)
 	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "vbus bus 0 dc %s\nil bus d dc %s\ndcl d bus dclamp\n", num(p.Vbus), num(p.Current))
-	b.WriteString("vmd d dd 0\nm1 dd g 0 0 dut\n")
+	switch x := o.Par; {
+	case x.Lloop > 0 && x.Rloop > 0:
+		fmt.Fprintf(&b, "vbus vb 0 dc %s\nlloop vb vl %s\nrloop vl bus %s\n", num(p.Vbus), num(x.Lloop), num(x.Rloop))
+		if x.Rdamp > 0 {
+			fmt.Fprintf(&b, "rdamp vb vl %s\n", num(x.Rdamp))
+		}
+	case x.Lloop > 0:
+		fmt.Fprintf(&b, "vbus vb 0 dc %s\nlloop vb bus %s\n", num(p.Vbus), num(x.Lloop))
+		if x.Rdamp > 0 {
+			fmt.Fprintf(&b, "rdamp vb bus %s\n", num(x.Rdamp))
+		}
+	case x.Rloop > 0:
+		fmt.Fprintf(&b, "vbus vb 0 dc %s\nrloop vb bus %s\n", num(p.Vbus), num(x.Rloop))
+	default:
+		fmt.Fprintf(&b, "vbus bus 0 dc %s\n", num(p.Vbus))
+	}
+	fmt.Fprintf(&b, "il bus d dc %s\ndcl d bus dclamp\n", num(p.Current))
+	if o.Par.Lcs > 0 {
+		fmt.Fprintf(&b, "vmd d dd 0\nm1 dd g s s dut\nlcs s 0 %s\n", num(o.Par.Lcs))
+	} else {
+		b.WriteString("vmd d dd 0\nm1 dd g s s dut\nvms s 0 0\n")
+	}
 	fmt.Fprintf(&b, "vdrv p 0 pulse(0 %s %s %s %s %s %s)\n", num(p.VOn), num(delay), num(edge), num(edge), num(ton), num(T))
 	fmt.Fprintf(&b, "bdrv p gx i = (v(p)-v(gx))/(v(p) > %s ? %s : %s)\n", num(p.VOn/2), num(p.RSource), num(p.RSink))
 	fmt.Fprintf(&b, "rgx gx g2 %s\nvmg g2 g 0\n", num(p.RgExt))
 	n := float64(o.Periods)
-	fmt.Fprintf(&b, ".control\n%ssave v(d) v(g) v(gx) v(p) i(vmd) i(vmg) @m1[id] @m1[vds]\n", deckPrologue)
+	fmt.Fprintf(&b, ".control\n%ssave v(d) v(g) v(s) v(gx) v(p) i(vmd) i(vmg) @m1[id] @m1[vds]\n", deckPrologue)
 	fmt.Fprintf(&b, "tran %s %s %s %s\n", num(T/1e4), num(n*T), num((n-1)*T), num(tmax))
-	b.WriteString("wrdata cell.dat v(d) v(g) v(gx) v(p) i(vmd) i(vmg) @m1[id] @m1[vds]\nquit 0\n.endc\n.end\n")
+	b.WriteString("wrdata cell.dat v(d) v(g) v(s) v(gx) v(p) i(vmd) i(vmg) @m1[id] @m1[vds]\nquit 0\n.endc\n.end\n")
 	return b.String(), delay, tmax
 }
 
@@ -108,7 +187,7 @@ func SimulateCell(ctx context.Context, r *Runner, m *Model, p *Point, o CellOpti
 }
 
 func integrateCell(tab *Table, m *Model, p *Point, o CellOptions, delay float64) (*CellEnergies, error) {
-	names := []string{"v(d)", "v(g)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "@m1[id]", "@m1[vds]"}
+	names := []string{"v(d)", "v(g)", "v(s)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "@m1[id]", "@m1[vds]"}
 	cols := make([][]float64, len(names))
 	for i, n := range names {
 		c, err := tab.Col(n)
@@ -118,7 +197,7 @@ func integrateCell(tab *Table, m *Model, p *Point, o CellOptions, delay float64)
 		cols[i] = c
 	}
 	tm := tab.Cols[0]
-	vd, vg, vgx, vp, id, ig, ich, vch := cols[0], cols[1], cols[2], cols[3], cols[4], cols[5], cols[6], cols[7]
+	vd, vg, vs, vgx, vp, id, ig, ich, vch := cols[0], cols[1], cols[2], cols[3], cols[4], cols[5], cols[6], cols[7], cols[8]
 	T := 1 / p.Fsw
 	t0 := float64(o.Periods-1) * T
 	// ngspice saves from the first step at or after the start time; the
@@ -128,7 +207,7 @@ func integrateCell(tab *Table, m *Model, p *Point, o CellOptions, delay float64)
 			len(tm), tm[0], tm[len(tm)-1], t0, t0+T)
 	}
 	I := p.Current
-	e := &CellEnergies{Current: I, Period: T}
+	e := &CellEnergies{Current: I, Period: T, Par: o.Par}
 	tRise := t0 + delay
 	tFall := tRise + p.Duty*T
 
@@ -144,7 +223,7 @@ func integrateCell(tab *Table, m *Model, p *Point, o CellOptions, delay float64)
 		}
 		return lo
 	}
-	e.VBlock = vd[idx(tRise)-1]
+	e.VBlock = vd[idx(tRise)-1] - vs[idx(tRise)-1]
 	e.VOnState = vch[idx(tFall)-1]
 	vlo := e.VOnState + 0.02*(e.VBlock-e.VOnState)
 
@@ -191,8 +270,11 @@ func integrateCell(tab *Table, m *Model, p *Point, o CellOptions, delay float64)
 	trap := func(k int, f func(int) float64) float64 { return 0.5 * (f(k) + f(k-1)) * (tm[k] - tm[k-1]) }
 	pch := func(k int) float64 { return ich[k] * vch[k] }
 	pOver := func(k int) float64 { return vch[k] * math.Min(ich[k], I) }
-	pTerm := func(k int) float64 { return vd[k]*id[k] + vg[k]*ig[k] }
-	pDrain := func(k int) float64 { return vd[k] * id[k] }
+	// Terminal powers against the die's source (v(s) is 0 V without a
+	// common-source inductance): the inductance's own energy is reactive
+	// and not the switch's.
+	pTerm := func(k int) float64 { return (vd[k]-vs[k])*id[k] + (vg[k]-vs[k])*ig[k] }
+	pDrain := func(k int) float64 { return (vd[k] - vs[k]) * id[k] }
 	var chOn float64
 	for k := kOn0 + 1; k <= kOn1; k++ {
 		chOn += trap(k, pch)
@@ -213,5 +295,11 @@ func integrateCell(tab *Table, m *Model, p *Point, o CellOptions, delay float64)
 		e.Supply += trap(k, func(k int) float64 { return vp[k] * ig[k] })
 	}
 	e.Cond = e.Switch - e.Rint - chOn - e.Off
+	e.VPeak = math.Inf(-1)
+	for k := kOff0; k < len(tm); k++ {
+		if v := vd[k] - vs[k]; v > e.VPeak {
+			e.VPeak, e.TPeak = v, tm[k]-t0
+		}
+	}
 	return e, nil
 }

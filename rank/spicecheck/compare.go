@@ -40,6 +40,9 @@ func Stage(p *Point, e *CellEnergies) rank.Stage {
 			RSource: q.Resistance(p.RSource), RSink: q.Resistance(p.RSink), RgExt: q.Resistance(p.RgExt)},
 		TjFixed: q.Some[q.Temperature](25),
 		Derate:  q.Ratio(p.Derate),
+		// The loop inductance in series with the supply is the layout's
+		// (the package's common-source inductance comes with the part).
+		LoopInductance: q.Inductance(e.Par.Lloop),
 	}
 }
 
@@ -73,6 +76,28 @@ type Row struct {
 	SimE          *CellEnergies
 	Trans         rank.Transitions // swrank's edge intervals
 	VplOn         float64          // swrank's plateau at the load current
+
+	// Cells with parasitic inductance.
+	Variant string // the variant's name; "" for the plain cell
+	Part    string // the library row evaluated (the packaged part for an Lcs variant)
+	// VPeakPred is swrank's peak drain voltage (DeviceResult.Vpeak), V;
+	// the simulated one is SimE.VPeak.
+	VPeakPred float64
+	// Eon, Eoff are swrank's overlap energies per cycle
+	// (DeviceResult.Eon, Eoff), J; ElcsOn, ElcsOff and Eloop its
+	// common-source and loop shares.
+	Eon, Eoff, ElcsOn, ElcsOff, Eloop float64
+}
+
+// OvershootRatio is swrank's overshoot above the blocked voltage over the
+// simulated one, (VPeakPred − V)/(VPeakSim − V) with V the simulated
+// off-state voltage; NaN when the simulation shows none.
+func (r *Row) OvershootRatio() float64 {
+	sim := r.SimE.VPeak - r.SimE.VBlock
+	if !(sim > 0) {
+		return math.NaN()
+	}
+	return (r.VPeakPred - r.SimE.VBlock) / sim
 }
 
 // NewRow pairs a prediction with a simulation.
@@ -81,7 +106,9 @@ func NewRow(dev string, p *Point, res *rank.Result, e *CellEnergies) Row {
 	l := res.Losses
 	d := &res.Devices[0]
 	r := Row{Device: dev, Point: p.Name, SimE: e, Screened: res.Screened(), Method: d.Method.String(),
-		Trans: d.Trans, VplOn: float64(d.VplOn)}
+		Trans: d.Trans, VplOn: float64(d.VplOn), VPeakPred: float64(d.Vpeak),
+		Eon: float64(d.Eon), Eoff: float64(d.Eoff), ElcsOn: float64(d.ElcsOn), ElcsOff: float64(d.ElcsOff),
+		Eloop: float64(d.Eloop)}
 	if r.Screened {
 		r.ScreenNote = screenNames(res.Screens)
 	}

@@ -34,6 +34,22 @@ type Summary struct {
 	Conc      int
 	Disc      int
 	Pairs     int
+
+	// The cells with parasitic inductance.
+	ParComp   map[string]Stats // by component, over the parasitic rows swrank did not screen out
+	Overshoot []OvershootStats // by variant, over every parasitic row
+}
+
+// OvershootStats compare swrank's peak drain voltage with the simulated one
+// over the rows of one variant: the ratio of the overshoots above the
+// blocked voltage, (Vpeak,pred − V)/(Vpeak,sim − V).
+type OvershootStats struct {
+	Variant          string
+	N                int
+	Min, Median, Max float64
+	MinAt, MaxAt     string
+	SimMax           float64 // largest simulated overshoot, V
+	SimMaxAt         string
 }
 
 // Summarise computes the figures of a suite.
@@ -74,7 +90,50 @@ func (s *Suite) Summarise() Summary {
 	if sum.Pairs > 0 {
 		sum.TauPooled = float64(sum.Conc-sum.Disc) / float64(sum.Pairs)
 	}
+	if len(s.ParRows) > 0 {
+		pc := s.ParCompared()
+		sum.ParComp = map[string]Stats{}
+		for _, c := range Components {
+			sum.ParComp[c] = ErrStats(pc, c)
+		}
+		for _, v := range s.Config.Parasitics.Variants {
+			var rows []Row
+			for _, r := range s.ParRows {
+				if r.Variant == v.Name {
+					rows = append(rows, r)
+				}
+			}
+			sum.Overshoot = append(sum.Overshoot, OvershootOf(v.Name, rows))
+		}
+	}
 	return sum
+}
+
+// OvershootOf summarises the overshoot ratios of rows (rows whose
+// simulation shows no overshoot are left out).
+func OvershootOf(variant string, rows []Row) OvershootStats {
+	o := OvershootStats{Variant: variant, Min: math.Inf(1), Max: math.Inf(-1)}
+	var x []float64
+	for _, r := range rows {
+		at := r.Device + " @ " + r.Point
+		if d := r.SimE.VPeak - r.SimE.VBlock; d > o.SimMax {
+			o.SimMax, o.SimMaxAt = d, at
+		}
+		k := r.OvershootRatio()
+		if math.IsNaN(k) {
+			continue
+		}
+		x = append(x, k)
+		if k < o.Min {
+			o.Min, o.MinAt = k, at
+		}
+		if k > o.Max {
+			o.Max, o.MaxAt = k, at
+		}
+	}
+	o.N = len(x)
+	o.Median = median(x)
+	return o
 }
 
 // pct prints a relative error as a signed percentage; an infinite one (a
@@ -115,6 +174,18 @@ func (sum *Summary) SummaryText() string {
 	}
 	fmt.Fprintf(&b, "  pooled Kendall τ over %d within-point pairs: %+.3f (%d concordant, %d discordant)\n",
 		sum.Pairs, sum.TauPooled, sum.Conc, sum.Disc)
+	if sum.ParComp != nil {
+		b.WriteString("cells with parasitic inductance, relative error over the rows swrank did not screen out:\n")
+		for _, c := range []string{CompTurnOn, CompTurnOff, CompTotal} {
+			st := sum.ParComp[c]
+			fmt.Fprintf(&b, "  %-11s %4d %9s %9s  %s\n", c, st.N, fmt.Sprintf("%.1f%%", 100*st.Median), pct(st.WorstSigned), st.WorstAt)
+		}
+		b.WriteString("  peak drain voltage, overshoot above the blocked voltage, swrank/simulated:\n")
+		for _, o := range sum.Overshoot {
+			fmt.Fprintf(&b, "  %-10s n=%-2d median %.2f  min %.2f (%s)  max %.2f (%s)  largest simulated %.2f V (%s)\n",
+				o.Variant, o.N, o.Median, o.Min, o.MinAt, o.Max, o.MaxAt, o.SimMax, o.SimMaxAt)
+		}
+	}
 	return b.String()
 }
 
@@ -160,6 +231,33 @@ func (s *Suite) Report(sum *Summary) string {
 			fmt.Fprintf(&b, "    terminal edge energies: on %s, off %s (channel: on %s, off %s); gate supply %s\n",
 				q.Format(q.Energy(e.OnTerm), 3), q.Format(q.Energy(e.OffTerm), 3),
 				q.Format(q.Energy(e.OnOverlap+e.OnCoss), 3), q.Format(q.Energy(e.Off), 3), watts(e.Supply*p.Fsw))
+		}
+	}
+	if len(s.ParRows) > 0 {
+		b.WriteString("\n== cells with parasitic inductance: predicted / simulated (relative error) ==\n")
+		for _, v := range s.Config.Parasitics.Variants {
+			fmt.Fprintf(&b, "\n-- %s: %s --\n", v.Name, v.Par())
+			for _, r := range s.ParRows {
+				if r.Variant != v.Name {
+					continue
+				}
+				note := ""
+				if r.Screened {
+					note = "  [screened by swrank: " + r.ScreenNote + "; energies not compared]"
+				}
+				e := r.SimE
+				fmt.Fprintf(&b, "%-13s at %-17s part %s%s\n", r.Device, r.Point, r.Part, note)
+				pl := s.Plain(&r)
+				for _, c := range []string{CompTurnOn, CompTurnOff, CompTotal} {
+					inc := ""
+					if pl != nil && c != CompTotal {
+						inc = fmt.Sprintf("   plain cell %10s %10s", watts(pl.Pred[c]), watts(pl.Sim[c]))
+					}
+					fmt.Fprintf(&b, "    %-11s %10s %10s %9s%s\n", c, watts(r.Pred[c]), watts(r.Sim[c]), pct(r.Err(c)), inc)
+				}
+				fmt.Fprintf(&b, "    peak drain voltage: predicted %.2f V, simulated %.2f V at %s into the period (blocked %.2f V; overshoot ratio %.2f)\n",
+					r.VPeakPred, e.VPeak, q.Format(q.Time(e.TPeak), 3), e.VBlock, r.OvershootRatio())
+			}
 		}
 	}
 	b.WriteString("\n== summary ==\n")

@@ -121,6 +121,7 @@ func TestCrossCheck(t *testing.T) {
 		}
 	})
 	t.Run("swap", func(t *testing.T) { checkSwap(t, cfg, s) })
+	checkParasitics(t, cfg, s, &sum)
 }
 
 // checkCoverage checks the suite spans what the issue asks: ≥ 12 devices,

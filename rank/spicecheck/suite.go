@@ -12,6 +12,7 @@ import (
 	"github.com/gocarina/gocsv"
 
 	"swrank/devices"
+	q "swrank/devices/quantity"
 )
 
 // SuiteOptions tune RunSuite.
@@ -33,6 +34,10 @@ type Suite struct {
 	Rows     []Row                 // every simulated device at every point, in config order
 	Elapsed  time.Duration
 	Compared map[string][]Row // by point: the rows swrank did not screen out
+	// ParRows are the cells with parasitic inductance: every variant on
+	// every listed device at every listed point where it is a candidate,
+	// in config order (variant, point, device).
+	ParRows []Row
 }
 
 // RunSuite characterises every device, writes the parts library, loads it
@@ -66,6 +71,18 @@ func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Sui
 		s.Sheets[cfg.Devices[i].Name] = sheets[i]
 		parts[i] = sheets[i].Part(&cfg.Devices[i])
 	}
+	// The same dies in packages with a common-source inductance: one row
+	// each, with l_cs and l_loop (docs/spice-crosscheck.md).
+	for vi := range cfg.Parasitics.Variants {
+		v := &cfg.Parasitics.Variants[vi]
+		if v.Lcs == 0 {
+			continue
+		}
+		for _, dn := range cfg.Parasitics.Devices {
+			m := cfg.model(dn)
+			parts = append(parts, PackagedPart(s.Sheets[dn].Part(m), v))
+		}
+	}
 
 	// 2. The parts library, written atomically and read back.
 	s.Library = filepath.Join(o.OutDir, "parts.csv")
@@ -80,16 +97,19 @@ func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Sui
 	for i := range lib.Parts {
 		byName[lib.Parts[i].Name] = &lib.Parts[i]
 	}
-	for _, m := range cfg.Devices {
-		if byName[m.Name] == nil {
-			return nil, fmt.Errorf("%s: part %s missing after loading", s.Library, m.Name)
+	for _, p := range parts {
+		if byName[p.Name] == nil {
+			return nil, fmt.Errorf("%s: part %s missing after loading", s.Library, p.Name)
 		}
 	}
 
-	// 3. Cell simulations of every device rated for each point.
+	// 3. Cell simulations of every device rated for each point, then the
+	// cells with parasitic inductance.
 	type job struct {
-		p *Point
-		m *Model
+		p    *Point
+		m    *Model
+		v    *Variant // nil: the plain cell
+		part string   // the library row swrank evaluates
 	}
 	var jobs []job
 	for pi := range cfg.Points {
@@ -97,13 +117,35 @@ func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Sui
 		for di := range cfg.Devices {
 			m := &cfg.Devices[di]
 			if p.Candidate(m) {
-				jobs = append(jobs, job{p, m})
+				jobs = append(jobs, job{p: p, m: m, part: m.Name})
+			}
+		}
+	}
+	nPlain := len(jobs)
+	for vi := range cfg.Parasitics.Variants {
+		v := &cfg.Parasitics.Variants[vi]
+		for _, pn := range cfg.Parasitics.Points {
+			p := cfg.point(pn)
+			for _, dn := range cfg.Parasitics.Devices {
+				m := cfg.model(dn)
+				if !p.Candidate(m) {
+					continue
+				}
+				part := m.Name
+				if v.Lcs > 0 {
+					part = PackagedName(m.Name, v)
+				}
+				jobs = append(jobs, job{p: p, m: m, v: v, part: part})
 			}
 		}
 	}
 	sims := make([]*CellEnergies, len(jobs))
 	err = parallel(ctx, len(jobs), o.Workers, func(ctx context.Context, i int) error {
-		e, err := SimulateCell(ctx, r, jobs[i].m, jobs[i].p, o.Cell)
+		co := o.Cell
+		if v := jobs[i].v; v != nil {
+			co.Par = v.Par()
+		}
+		e, err := SimulateCell(ctx, r, jobs[i].m, jobs[i].p, co)
 		sims[i] = e
 		return err
 	})
@@ -113,11 +155,16 @@ func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Sui
 
 	// 4. swrank's prediction for the same cell.
 	for i, j := range jobs {
-		res, err := Predict(byName[j.m.Name], j.p, sims[i])
+		res, err := Predict(byName[j.part], j.p, sims[i])
 		if err != nil {
 			return nil, err
 		}
 		row := NewRow(j.m.Name, j.p, &res, sims[i])
+		if i >= nPlain {
+			row.Variant, row.Part = j.v.Name, j.part
+			s.ParRows = append(s.ParRows, row)
+			continue
+		}
 		s.Rows = append(s.Rows, row)
 		if !row.Screened {
 			s.Compared[j.p.Name] = append(s.Compared[j.p.Name], row)
@@ -134,6 +181,62 @@ func (s *Suite) AllCompared() []Row {
 		out = append(out, s.Compared[p.Name]...)
 	}
 	return out
+}
+
+// PackagedName is the library name of device dev in the package of
+// variant v, e.g. "sim-mid-60+lcs-0.5n".
+func PackagedName(dev string, v *Variant) string { return dev + "+" + v.Name }
+
+// PackagedPart is part p (a characterised die) in a package with variant
+// v's common-source inductance: l_cs = Lcs and, because the power loop runs
+// through the same inductance, l_loop = Lcs (the package's whole share of
+// the loop, as docs/second-order.md asks for).
+func PackagedPart(p devices.Part, v *Variant) devices.Part {
+	p.Name = PackagedName(p.Name, v)
+	p.Notes = fmt.Sprintf("%s; package with %g nH common-source inductance", p.Notes, v.Lcs*1e9)
+	p.Lcs = q.Some(q.Inductance(v.Lcs))
+	p.Lloop = q.Some(q.Inductance(v.Lcs))
+	return p
+}
+
+// ParCompared are the parasitic rows swrank did not screen out.
+func (s *Suite) ParCompared() []Row {
+	var out []Row
+	for _, r := range s.ParRows {
+		if !r.Screened {
+			out = append(out, r)
+		}
+	}
+	return out
+}
+
+// Plain returns the plain-cell row of the same device at the same point,
+// or nil.
+func (s *Suite) Plain(r *Row) *Row {
+	for i := range s.Rows {
+		if s.Rows[i].Device == r.Device && s.Rows[i].Point == r.Point {
+			return &s.Rows[i]
+		}
+	}
+	return nil
+}
+
+func (c *Config) model(name string) *Model {
+	for i := range c.Devices {
+		if c.Devices[i].Name == name {
+			return &c.Devices[i]
+		}
+	}
+	return nil
+}
+
+func (c *Config) point(name string) *Point {
+	for i := range c.Points {
+		if c.Points[i].Name == name {
+			return &c.Points[i]
+		}
+	}
+	return nil
 }
 
 // parallel runs fn(0..n-1) on at most workers goroutines and returns the
