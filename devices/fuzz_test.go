@@ -69,7 +69,7 @@ func FuzzRows(f *testing.F) {
 
 func rowsAgree(t *testing.T, b []byte) {
 	t.Helper()
-	want := csvSource{newCSVReader(bytes.NewReader(b), false)}
+	want := csvSource{newCSVReader(bytes.NewReader(b))}
 	got := newRowReader(bytes.NewReader(b))
 	for i := 0; i < 1e6; i++ {
 		wr, wl, werr := want.next()

@@ -111,9 +111,9 @@ func Scan(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) 
 type decoderKind uint8
 
 const (
-	decodeFast     decoderKind = iota // per-column setters built from Part's tags, streaming
-	decodeParallel                    // the same, with rows decoded by several goroutines
-	decodeGocsv                       // gocsv's reflective unmarshal of the whole file
+	decodeFast     decoderKind = iota // per-column setters built from Part's tags, batches of rows on one goroutine
+	decodeParallel                    // the same, with the batches decoded by several goroutines
+	decodeGocsv                       // gocsv's reflective unmarshal of rows read by encoding/csv
 )
 
 // defaultDecoder is the parallel decoder when there is more than one CPU.
@@ -181,7 +181,7 @@ func (t *rowReader) next() ([]string, int, error) {
 // newCSVReader configures encoding/csv for parts libraries: '#' comment
 // lines, ragged rows reported by the loader, a UTF-8 BOM skipped. Blank
 // lines and CRLF line ends are handled by encoding/csv itself.
-func newCSVReader(r io.Reader, reuse bool) *csv.Reader {
+func newCSVReader(r io.Reader) *csv.Reader {
 	br := bufio.NewReaderSize(r, 64<<10)
 	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
 		_, _ = br.Discard(len(utf8BOM))
@@ -189,7 +189,6 @@ func newCSVReader(r io.Reader, reuse bool) *csv.Reader {
 	cr := csv.NewReader(br)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
-	cr.ReuseRecord = reuse
 	return cr
 }
 
@@ -212,7 +211,7 @@ func (l *loader) scan(r io.Reader, d decoderKind) (Header, ProblemList) {
 	l.hdr.Source = name
 	var src source
 	if d == decodeGocsv {
-		src = csvSource{newCSVReader(r, false)}
+		src = csvSource{newCSVReader(r)}
 	} else {
 		src = newRowReader(r)
 	}
@@ -331,12 +330,7 @@ func (l *loader) nextRow(src source, probs *ProblemList, rows *int) (rec []strin
 		}
 		*rows++
 		if len(rec) != len(l.colOf) {
-			col := 0
-			if len(rec) > len(l.colOf) {
-				col = len(l.colOf) + 1
-			}
-			*probs = append(*probs, &Problem{File: l.file, Line: line, Column: col, Fatal: true,
-				Err: fmt.Errorf("%w: the row has %d, the header %d", ErrFieldCount, len(rec), len(l.colOf))})
+			*probs = append(*probs, l.fieldCountProblem(rec, line))
 			continue
 		}
 		return rec, line

@@ -57,7 +57,7 @@ func newBatch() *batch {
 // workerCount is the number of decoding goroutines.
 func workerCount() int { return max(1, min(runtime.GOMAXPROCS(0), 8)) }
 
-// readParallel is readFast spread over goroutines.
+// readParallel is readBatches spread over goroutines.
 func (l *loader) readParallel(t *rowReader) {
 	workers := workerCount()
 	depth := 2*workers + 2
@@ -242,7 +242,7 @@ func (l *loader) fill(t *rowReader, b *batch, rows *int) (eof bool) {
 	return false
 }
 
-// fieldCountProblem reports a ragged row, as nextRow does.
+// fieldCountProblem reports a ragged row.
 func (l *loader) fieldCountProblem(rec []string, line int) *Problem {
 	col := 0
 	if len(rec) > len(l.colOf) {
