@@ -3,7 +3,6 @@ package rank
 import (
 	"fmt"
 	"math"
-	"strconv"
 	"strings"
 
 	"swrank/devices"
@@ -161,11 +160,17 @@ func Prepare(p *devices.Part) (Device, error) {
 	d.Temp.T0 = p.RdsOnTj.Or(25)
 	switch {
 	case strings.TrimSpace(p.RdsCurve) != "":
-		pts, err := parseCurve(p.RdsCurve)
+		pts, err := p.Curve()
 		if err != nil {
 			return Device{}, fmt.Errorf("part %s: rds_on_curve: %w", p.Name, err)
 		}
-		d.Temp.NPts = copy(d.Temp.Pts[:], pts)
+		for i, c := range pts {
+			if i == len(d.Temp.Pts) {
+				break
+			}
+			d.Temp.Pts[i] = [2]float64{float64(c.Tj), float64(c.Factor)}
+			d.Temp.NPts = i + 1
+		}
 		d.Temp.c0 = d.Temp.curve(float64(d.Temp.T0))
 	case p.RdsHot.OK && p.RdsHotTj.OK && p.RdsHotTj.V != d.Temp.T0:
 		d.Temp.Alpha = FitTempExponent(p.RdsOn, d.Temp.T0, p.RdsHot.V, p.RdsHotTj.V)
@@ -343,32 +348,6 @@ func (d *Device) CgdAt(v q.Voltage) q.Capacitance {
 		return q.Capacitance(2 * float64(d.Crss) * math.Sqrt(float64(d.CrssV/v)))
 	}
 	return 0
-}
-
-// parseCurve reads "T:factor T:factor ..." (spaces, commas or semicolons
-// between points).
-func parseCurve(s string) ([][2]float64, error) {
-	f := strings.FieldsFunc(s, func(r rune) bool { return r == ' ' || r == ',' || r == ';' })
-	if len(f) < 2 || len(f) > 8 {
-		return nil, fmt.Errorf("%q: want 2 to 8 points written T:factor", s)
-	}
-	pts := make([][2]float64, 0, len(f))
-	for _, p := range f {
-		a, b, ok := strings.Cut(p, ":")
-		if !ok {
-			return nil, fmt.Errorf("%q: point %q is not T:factor", s, p)
-		}
-		t, err1 := strconv.ParseFloat(strings.TrimSuffix(strings.TrimSuffix(a, "C"), "°"), 64)
-		v, err2 := strconv.ParseFloat(b, 64)
-		if err1 != nil || err2 != nil || v <= 0 || math.IsInf(t, 0) || math.IsNaN(t) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("%q: point %q is not T:factor with factor > 0", s, p)
-		}
-		if len(pts) > 0 && t <= pts[len(pts)-1][0] {
-			return nil, fmt.Errorf("%q: temperatures must increase", s)
-		}
-		pts = append(pts, [2]float64{t, v})
-	}
-	return pts, nil
 }
 
 // Rds returns the on-resistance at gate voltage vgs and junction
