@@ -10,6 +10,11 @@ import (
 // doc comment names the published source; docs/models.md explains the
 // equations, their assumptions and where they fail.
 
+// powPos is x^y for x > 0 as exp(y·ln x): the hot path's powers, without
+// math.Pow's handling of special cases it never meets (relative error a few
+// ulp times |y·ln x|).
+func powPos(x, y float64) float64 { return math.Exp(y * math.Log(x)) }
+
 // kelvin converts a Celsius temperature to kelvin.
 func kelvin(t q.Temperature) float64 { return float64(t) + 273.15 }
 
@@ -20,7 +25,7 @@ func kelvin(t q.Temperature) float64 { return float64(t) + 273.15 }
 // falls as T^-2.0…2.5 in drift-dominated silicon); the exponent of a given
 // part is fitted through its hot datasheet point when one is given.
 func TempFactor(t, t0 q.Temperature, alpha float64) float64 {
-	return math.Pow(kelvin(t)/kelvin(t0), alpha)
+	return powPos(kelvin(t)/kelvin(t0), alpha)
 }
 
 // FitTempExponent returns α of the power law R(T) = R(T0)·(T/T0)^α through
@@ -335,7 +340,7 @@ func (l OssLaw) Q(v q.Voltage) q.Charge {
 	if v <= 0 {
 		return 0
 	}
-	return q.Charge(l.K * math.Pow(float64(v), 1-l.N) / (1 - l.N))
+	return q.Charge(l.K * powPos(float64(v), 1-l.N) / (1 - l.N))
 }
 
 // E returns the stored energy ∫₀^v v·C dv = K·v^(2−N)/(2−N).
@@ -343,7 +348,7 @@ func (l OssLaw) E(v q.Voltage) q.Energy {
 	if v <= 0 {
 		return 0
 	}
-	return q.Energy(l.K * math.Pow(float64(v), 2-l.N) / (2 - l.N))
+	return q.Energy(l.K * powPos(float64(v), 2-l.N) / (2 - l.N))
 }
 
 // QE returns Q(v) and E(v) with one power evaluation
@@ -352,7 +357,7 @@ func (l OssLaw) QE(v q.Voltage) (q.Charge, q.Energy) {
 	if v <= 0 {
 		return 0, 0
 	}
-	qq := l.K * math.Pow(float64(v), 1-l.N) / (1 - l.N)
+	qq := l.K * powPos(float64(v), 1-l.N) / (1 - l.N)
 	return q.Charge(qq), q.Energy(qq * float64(v) * (1 - l.N) / (2 - l.N))
 }
 
@@ -361,7 +366,7 @@ func (l OssLaw) C(v q.Voltage) q.Capacitance {
 	if v <= 0 {
 		v = 1e-3
 	}
-	return q.Capacitance(l.K * math.Pow(float64(v), -l.N))
+	return q.Capacitance(l.K * powPos(float64(v), -l.N))
 }
 
 // OssFromCapacitance is the √ law through one small-signal datasheet point.
@@ -785,7 +790,7 @@ func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
 	if !r.positive {
 		return r
 	}
-	r.pv = math.Pow(r.v, 2-r.n)
+	r.pv = powPos(r.v, 2-r.n)
 	r.cossTop = r.k * r.pv / (r.v * r.v) // K·v^−N
 	r.cgdTop = float64(r.m.Chi)
 	if v <= r.m.Vk {
@@ -806,7 +811,7 @@ func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 	a := float64(i) / float64(ig)
 	s := 1.0
 	if r.n > 0 {
-		s = math.Pow(a, -1/r.n)
+		s = powPos(a, -1/r.n)
 	}
 	e := r.seg(a*float64(r.m.Clo), r.xc[0]*s, 0, r.vk, 0, r.pvk) +
 		r.seg(a*float64(r.m.Chi), r.xc[1]*s, r.vk, r.v, r.pvk, r.pv)
