@@ -132,8 +132,10 @@ type Part struct {
 	RthJC   q.Opt[q.ThermalResistance] `csv:"rth_jc"`   // junction to case, K/W
 
 	// Threshold.
-	VgsTh    q.Voltage        `csv:"vgs_th"`     // gate threshold voltage at 25 °C, V
-	VgsThMax q.Opt[q.Voltage] `csv:"vgs_th_max"` // maximum gate threshold voltage, V
+	VgsTh      q.Voltage            `csv:"vgs_th"`        // gate threshold voltage at 25 °C, V
+	VgsThMax   q.Opt[q.Voltage]     `csv:"vgs_th_max"`    // maximum gate threshold voltage, V
+	VgsThHot   q.Opt[q.Voltage]     `csv:"vgs_th_hot"`    // typical threshold hot, V
+	VgsThHotTj q.Opt[q.Temperature] `csv:"vgs_th_hot_tj"` // junction temperature of vgs_th_hot, °C
 
 	// On-resistance. rds_on at rds_on_vgs and rds_on_tj is required; a
 	// second gate voltage and a hot value refine the model.
@@ -188,6 +190,8 @@ type Part struct {
 	// Body diode (or reverse conduction).
 	Vsd        q.Opt[q.Voltage]     `csv:"vsd"`               // diode forward voltage, V
 	VsdIf      q.Opt[q.Current]     `csv:"vsd_if"`            // current of vsd, A
+	VsdHot     q.Opt[q.Voltage]     `csv:"vsd_hot"`           // diode forward voltage hot, at vsd_if, V
+	VsdHotTj   q.Opt[q.Temperature] `csv:"vsd_hot_tj"`        // junction temperature of vsd_hot, °C
 	Qrr        q.Opt[q.Charge]      `csv:"qrr"`               // reverse-recovery charge, C
 	QrrIf      q.Opt[q.Current]     `csv:"qrr_if"`            // forward current of the qrr test, A
 	QrrDidt    q.Opt[q.Slew]        `csv:"qrr_didt"`          // di/dt of the qrr test, A/s ("100 A/µs")

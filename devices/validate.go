@@ -159,6 +159,8 @@ func (v *validator) run() {
 	optPositive(v, "qrr_if", p.QrrIf)
 	optPositive(v, "qrr_didt", p.QrrDidt)
 	optNonNegative(v, "qrr_hot", p.QrrHot)
+	optPositive(v, "vgs_th_hot", p.VgsThHot)
+	optPositive(v, "vsd_hot", p.VsdHot)
 	optNonNegative(v, "l_cs", p.Lcs)
 	optNonNegative(v, "l_loop", p.Lloop)
 	if p.TjMax.OK && v.ok("tj_max") && (p.TjMax.V <= tjMaxLow || p.TjMax.V > tjMaxHigh) {
@@ -168,6 +170,8 @@ func (v *validator) run() {
 	tempRange(v, "rds_on_hot_tj", p.RdsHotTj)
 	tempRange(v, "qrr_tj", p.QrrTj)
 	tempRange(v, "qrr_hot_tj", p.QrrHotTj)
+	tempRange(v, "vgs_th_hot_tj", p.VgsThHotTj)
+	tempRange(v, "vsd_hot_tj", p.VsdHotTj)
 	if p.VgsMin.OK && v.ok("vgs_min") && p.VgsMin.V > 0 {
 		v.add("vgs_min", ErrNonPhysical, "%s: the lowest gate voltage must be 0 V or negative", fmtq(p.VgsMin.V))
 	}
@@ -286,6 +290,16 @@ func (v *validator) run() {
 	}
 	v.needs("eoss_loss", p.EossLoss.OK, "eoss_loss_vds", p.EossLossVds.OK)
 	v.needs("qrr_hot", p.QrrHot.OK, "qrr_hot_tj", p.QrrHotTj.OK)
+	v.needs("vgs_th_hot", p.VgsThHot.OK, "vgs_th_hot_tj", p.VgsThHotTj.OK)
+	v.needs("vsd_hot", p.VsdHot.OK, "vsd_hot_tj", p.VsdHotTj.OK)
+	// Both fall with temperature in every technology swrank models
+	// (common practice; Baliga 2008 for the threshold's negative tempco).
+	if p.VgsThHot.OK && p.VgsThHotTj.OK && p.VgsThHotTj.V > 25 && v.ok("vgs_th_hot", "vgs_th") && p.VgsThHot.V > p.VgsTh {
+		v.add("vgs_th_hot", ErrNonPhysical, "%s: above vgs_th (%s); the threshold falls as the junction heats", fmtq(p.VgsThHot.V), fmtq(p.VgsTh))
+	}
+	if p.VsdHot.OK && p.Vsd.OK && p.VsdHotTj.OK && p.VsdHotTj.V > 25 && v.ok("vsd_hot", "vsd") && p.VsdHot.V > p.Vsd.V {
+		v.add("vsd_hot", ErrNonPhysical, "%s: above vsd (%s); a diode's drop falls as the junction heats", fmtq(p.VsdHot.V), fmtq(p.Vsd.V))
+	}
 
 	// Data the models need.
 	if !(p.Qgs.OK && p.Qgd.OK && p.VPlateau.OK) && !(p.Tr.OK && p.Tf.OK) && v.ok("qgs", "qgd", "v_plateau", "tr", "tf") {

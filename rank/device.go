@@ -88,7 +88,10 @@ type Device struct {
 	// Temperature laws beyond the on-resistance (docs/second-order.md).
 	VthTC float64 // threshold and plateau coefficient, V/K (technology default)
 	VsdTC float64 // body-diode drop coefficient, V/K (0 for GaN: its drop follows Vth and R)
-	Qrr   QrrLaw  // own recovered charge against temperature (Q0 = 0: none)
+	// VthOwn and VsdOwn are true when the coefficients come from the part's
+	// own hot values (vgs_th_hot, vsd_hot) rather than the defaults.
+	VthOwn, VsdOwn bool
+	Qrr            QrrLaw // own recovered charge against temperature (Q0 = 0: none)
 	// QrrHot is true when the recovery law comes from the part's own hot point.
 	QrrHot bool
 
@@ -269,6 +272,14 @@ func (d *Device) prepareSecondOrder() error {
 		d.VthTC, d.VsdTC = vthTCSiC, vsdTC
 	default:
 		d.VthTC, d.VsdTC = vthTCSi, vsdTC
+	}
+	// The part's own hot points replace the defaults (vgs_th is at 25 °C;
+	// vsd at its stated temperature, taken as 25 °C).
+	if p.VgsThHot.OK && p.VgsThHotTj.OK && p.VgsThHotTj.V != 25 {
+		d.VthTC, d.VthOwn = float64(p.VgsThHot.V-p.VgsTh)/float64(p.VgsThHotTj.V-25), true
+	}
+	if p.Technology != devices.GaN && p.Vsd.OK && p.VsdHot.OK && p.VsdHotTj.OK && p.VsdHotTj.V != 25 {
+		d.VsdTC, d.VsdOwn = float64(p.VsdHot.V-p.Vsd.V)/float64(p.VsdHotTj.V-25), true
 	}
 
 	// Recovery (GaN has none).

@@ -675,7 +675,8 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	}
 	out.Rds = rdyn * q.Resistance(d.Temp.Factor(tj))
 	out.Losses.Conduction = Conduction(st.IRms, out.Rds)
-	if tj != 25 && (m.hard && m.driveOK || m.dead || d.Method == MethodGateCharge) {
+	if tj != 25 && (m.hard && m.driveOK || m.dead || d.Method == MethodGateCharge) &&
+		!(d.VthOwn && (d.VsdOwn || !m.dead || p.Technology == devices.GaN)) {
 		out.Flags |= FlagVthTempDefault
 	}
 	if tr != nil {

@@ -159,7 +159,7 @@ func TestParallelPartColumns(t *testing.T) {
 	}
 	same := map[string]bool{
 		"Package": true, "Technology": true, "Notes": true, "VdsMax": true, "VgsMax": true, "VgsMin": true,
-		"TjMax": true, "VgsTh": true, "VgsThMax": true, "RdsOnVgs": true, "RdsOnTj": true, "RdsOn2Vgs": true,
+		"TjMax": true, "VgsTh": true, "VgsThMax": true, "VgsThHot": true, "VgsThHotTj": true, "VsdHot": true, "VsdHotTj": true, "RdsOnVgs": true, "RdsOnTj": true, "RdsOn2Vgs": true,
 		"RdsHotTj": true, "RdsCurve": true, "RdsDyn": true, "RdsDynVds": true, "QgVgs": true, "QgVds": true,
 		"VPlateau": true, "CapVds": true, "OssVds": true, "EossLossVds": true, "Tr": true, "Tf": true,
 		"TswVdd": true, "TswVgs": true, "Vsd": true, "QrrTj": true, "QrrHotTj": true, "QrrHasCoss": true, "Line": true,

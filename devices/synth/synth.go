@@ -190,6 +190,8 @@ func (g *gen) part(i int, row []string) {
 	g.set("rth_jc", g.si(round3(g.uni(0.4, 4)), "K/W"))
 	g.set("vgs_th", g.si(vth, "V"))
 	g.set("vgs_th_max", g.si(round3(vth*g.uni(1.2, 1.5)), "V"))
+	g.set("vgs_th_hot", g.si(round3(vth*g.uni(0.6, 0.8)), "V"))
+	g.set("vgs_th_hot_tj", "125")
 
 	// On-resistance.
 	g.set("rds_on", g.si(rds, "Ω"))
@@ -259,6 +261,8 @@ func (g *gen) part(i int, row []string) {
 	// Reverse conduction.
 	g.set("vsd", g.si(vsd, "V"))
 	g.set("vsd_if", g.si(round3(idMax/2), "A"))
+	g.set("vsd_hot", g.si(round3(vsd*g.uni(0.75, 0.9)), "V"))
+	g.set("vsd_hot_tj", "125")
 	qrr := 0.0
 	if c.tech != "gan" {
 		qrr = round3(qg * g.uni(0.5, 3))
