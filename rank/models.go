@@ -545,26 +545,55 @@ func CurrentFallEnergy(v q.Voltage, i q.Current, t q.Time, l q.Inductance) q.Ene
 	return q.Energy(0.5*float64(v)*float64(i)*float64(max(t, 0)) + 0.5*float64(l)*float64(i)*float64(i))
 }
 
-// LoopOvershoot is the peak voltage across a switch whose current is
-// interrupted linearly from i in t through loop inductance l: v + l·i/t,
-// but no more than v + i·√(l/c) when the switch's output capacitance c
-// (charge-equivalent, F; 0: not counted) takes the loop current faster
-// than the ramp: the loop then rings with c, and its stored ½·l·i² becomes
-// ½·c·ΔV².
+// LoopOvershoot is the peak voltage across a switch turning off current i
+// through loop inductance l. The channel's share iTop falls linearly in t
+// and adds l·iTop/t; the rest, i − iTop, which the output capacitance was
+// carrying when the drain reached the rail, is cut off at once by the
+// clamp and rings with the small-signal output capacitance c, adding
+// (i − iTop)·√(l/c) (the ring's ½·l·I² = ½·c·ΔV²). With iTop = i (no Coss
+// share known) this is the plain v + l·i/t.
 //
 // Source: Faraday's law on the commutation loop and the energy balance of
 // the L-C ring (Erickson & Maksimović 2001, ch. 4; Ren et al., IEEE TPEL
-// 2006, from memory); the minimum of the two is common practice.
-func LoopOvershoot(v q.Voltage, l q.Inductance, i q.Current, t q.Time, c q.Capacitance) q.Voltage {
+// 2006, from memory); the split between the two terms follows the
+// Coss-aware turn-off (MillerRiseEnergy) and was checked against ngspice
+// (docs/spice-crosscheck.md).
+func LoopOvershoot(v q.Voltage, l q.Inductance, i, iTop q.Current, t q.Time, c q.Capacitance) q.Voltage {
+	return LoopOvershootLcs(v, l, 0, 0, 0, 0, i, iTop, t, c)
+}
+
+// LoopOvershootLcs is LoopOvershoot when lcs of the loop inductance l is
+// common to the gate loop. Its voltage during the ring drives the gate, and
+// the channel, with transconductance gm, takes part of the ring's current:
+// seen from the ring, the source inductance is in parallel with
+// lfb = R_off·C_iss/gm, so the ring inductance is (l − lcs) + lcs∥lfb (the
+// channel's own fall still sees all of l). rOff is the off-state gate loop,
+// ciss the input capacitance; gm ≤ 0 or ciss ≤ 0 leaves the whole of l in
+// the ring.
+//
+// Source: as LoopOvershoot; the gate-loop feedback of a common-source
+// inductance as in Ren et al. 2006 (from memory); the parallel form is the
+// team's, checked against ngspice (docs/spice-crosscheck.md).
+func LoopOvershootLcs(v q.Voltage, l, lcs q.Inductance, gm float64, rOff q.Resistance, ciss q.Capacitance, i, iTop q.Current, t q.Time, c q.Capacitance) q.Voltage {
 	if l <= 0 || i <= 0 {
 		return v
 	}
-	dv := math.Inf(1)
-	if t > 0 {
-		dv = float64(l) * float64(i) / float64(t)
+	lr := float64(l)
+	if lcs > 0 && gm > 0 && ciss > 0 && rOff > 0 {
+		lfb := float64(rOff) * float64(ciss) / gm
+		lc := math.Min(float64(lcs), lr)
+		lr = lr - lc + 1/(1/lc+1/lfb)
 	}
-	if c > 0 {
-		dv = math.Min(dv, float64(i)*math.Sqrt(float64(l)/float64(c)))
+	iTop = min(max(iTop, 0), i)
+	var dv float64
+	if iTop > 0 {
+		if t <= 0 {
+			return q.Voltage(math.Inf(1))
+		}
+		dv = float64(l) * float64(iTop) / float64(t)
+	}
+	if i > iTop && c > 0 {
+		dv += float64(i-iTop) * math.Sqrt(float64(lr)/float64(c))
 	}
 	return v + q.Voltage(dv)
 }

@@ -72,10 +72,13 @@ type Row struct {
 	Pred, Sim     map[string]float64
 	Screened      bool   // swrank set the part aside at this point
 	ScreenNote    string // why
-	Method        string // swrank's overlap method
-	SimE          *CellEnergies
-	Trans         rank.Transitions // swrank's edge intervals
-	VplOn         float64          // swrank's plateau at the load current
+	// VoltageOnly is true when the only screen is the drain-voltage rating:
+	// the energies are still those of the models and are compared.
+	VoltageOnly bool
+	Method      string // swrank's overlap method
+	SimE        *CellEnergies
+	Trans       rank.Transitions // swrank's edge intervals
+	VplOn       float64          // swrank's plateau at the load current
 
 	// Cells with parasitic inductance.
 	Variant string // the variant's name; "" for the plain cell
@@ -111,6 +114,7 @@ func NewRow(dev string, p *Point, res *rank.Result, e *CellEnergies) Row {
 		Eloop: float64(d.Eloop)}
 	if r.Screened {
 		r.ScreenNote = screenNames(res.Screens)
+		r.VoltageOnly = res.Screens == rank.ScreenVoltage
 	}
 	r.Pred = map[string]float64{
 		CompConduction: float64(l.Conduction),

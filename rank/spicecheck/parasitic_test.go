@@ -22,14 +22,6 @@ const (
 	overshootMaxRatio = 2.0
 )
 
-// knownOptimistic names the variants whose peak drain voltage swrank is
-// known to under-predict by more than the limit (reported to the models'
-// owner with the numbers and the proposed estimate in
-// docs/spice-crosscheck.md, "What the models miss"). For these the test
-// checks that the miss is still there, so that the entry is removed when a
-// model change fixes it; every other variant must meet the limit.
-var knownOptimistic = map[string]bool{"lcs-0.5n": true, "lcs-1n": true, "loop-2n": true}
-
 // checkParasitics checks the cells with parasitic inductance against the
 // simulation (reference: ngspice 39, the same cell with the inductances in
 // the netlist): the edge energies and the total in the main suite's style,
@@ -151,13 +143,7 @@ func checkOvershoot(t *testing.T, cfg *Config, s *Suite) {
 			t.Errorf("%s: no row", v.Name)
 			continue
 		}
-		switch {
-		case knownOptimistic[v.Name] && len(low) == 0:
-			t.Errorf("%s: swrank's peak drain voltage now meets the limit on every row; remove it from knownOptimistic", v.Name)
-		case knownOptimistic[v.Name]:
-			t.Logf("%s: known miss (docs/spice-crosscheck.md): swrank under-predicts the overshoot by more than %.0f%% on %d of %d rows: %s",
-				v.Name, 100*(1-overshootMinRatio), len(low), n, strings.Join(low, ", "))
-		case len(low) > 0:
+		if len(low) > 0 {
 			t.Errorf("%s: swrank under-predicts the overshoot by more than %.0f%% on %d of %d rows: %s",
 				v.Name, 100*(1-overshootMinRatio), len(low), n, strings.Join(low, ", "))
 		}

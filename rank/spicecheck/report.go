@@ -36,7 +36,7 @@ type Summary struct {
 	Pairs     int
 
 	// The cells with parasitic inductance.
-	ParComp   map[string]Stats // by component, over the parasitic rows swrank did not screen out
+	ParComp   map[string]Stats // by component, over the parasitic rows compared (ParCompared)
 	Overshoot []OvershootStats // by variant, over every parasitic row
 }
 
@@ -175,7 +175,7 @@ func (sum *Summary) SummaryText() string {
 	fmt.Fprintf(&b, "  pooled Kendall τ over %d within-point pairs: %+.3f (%d concordant, %d discordant)\n",
 		sum.Pairs, sum.TauPooled, sum.Conc, sum.Disc)
 	if sum.ParComp != nil {
-		b.WriteString("cells with parasitic inductance, relative error over the rows swrank did not screen out:\n")
+		b.WriteString("cells with parasitic inductance, relative error over the rows compared (not screened, or screened only for the drain-voltage rating):\n")
 		for _, c := range []string{CompTurnOn, CompTurnOff, CompTotal} {
 			st := sum.ParComp[c]
 			fmt.Fprintf(&b, "  %-11s %4d %9s %9s  %s\n", c, st.N, fmt.Sprintf("%.1f%%", 100*st.Median), pct(st.WorstSigned), st.WorstAt)

@@ -199,11 +199,14 @@ func PackagedPart(p devices.Part, v *Variant) devices.Part {
 	return p
 }
 
-// ParCompared are the parasitic rows swrank did not screen out.
+// ParCompared are the parasitic rows whose energies are compared: those
+// swrank did not screen out, and those it screened only for the drain
+// voltage rating (the overshoot these cells add is what the voltage screen
+// is for; the simulated energies exist all the same).
 func (s *Suite) ParCompared() []Row {
 	var out []Row
 	for _, r := range s.ParRows {
-		if !r.Screened {
+		if !r.Screened || r.VoltageOnly {
 			out = append(out, r)
 		}
 	}
