@@ -466,6 +466,27 @@ func (l *TempLaw) Factor(t q.Temperature) float64 {
 	return l.curve(float64(t)) / c0
 }
 
+// FactorD returns R(T)/R(T0) and its derivative with temperature, 1/K.
+func (l *TempLaw) FactorD(t q.Temperature) (float64, float64) {
+	if l.NPts < 2 {
+		f := TempFactor(t, l.T0, l.Alpha)
+		return f, l.Alpha * f / kelvin(t)
+	}
+	c0 := l.c0
+	if c0 == 0 {
+		c0 = l.curve(float64(l.T0))
+	}
+	p := l.Pts[:l.NPts]
+	x := float64(t)
+	i := 1
+	for i < len(p)-1 && x > p[i][0] {
+		i++
+	}
+	a, b := p[i-1], p[i]
+	slope := (b[1] - a[1]) / (b[0] - a[0])
+	return (a[1] + slope*(x-a[0])) / c0, slope / c0
+}
+
 func (l *TempLaw) curve(t float64) float64 {
 	p := l.Pts[:l.NPts]
 	i := 1

@@ -245,18 +245,23 @@ func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, 
 		if t1 != t0 {
 			k = (o1 - o0) / (t1 - t0)
 		}
-		// Surrogate root: h(T) = Ta + R·(fixed + cond(T) + o1 + k·(T − t1)) − T.
-		h := func(t float64) float64 { return float64(ta) + R*(fixed+cond(t)+o1+k*(t-t1)) - t }
-		x0, x1 := t1, t1+h(t1)
-		h0 := h(x0)
-		for it := 0; it < 60 && math.Abs(x1-x0) > 1e-9; it++ {
-			h1 := h(x1)
-			if h1 == h0 {
-				break
+		// Surrogate root of h(T) = Ta + R·(fixed + cond(T) + o1 + k·(T − t1)) − T
+		// by Newton's method with the conduction law's own derivative.
+		x1 := t1
+		for it := 0; it < 30; it++ {
+			f, df := m.Law.FactorD(q.Temperature(x1))
+			h := float64(ta) + R*(fixed+float64(m.Cond)*f+o1+k*(x1-t1)) - x1
+			dh := R*(float64(m.Cond)*df+k) - 1
+			if dh >= 0 {
+				return s, false // no crossing from above: let the general method decide
 			}
-			x0, x1, h0 = x1, x1-h1*(x1-x0)/(h1-h0), h1
+			step := h / dh
+			x1 -= step
 			if math.IsNaN(x1) || x1 > float64(tjMax)+500 || x1 < float64(ta)-1 {
 				return s, false
+			}
+			if math.Abs(step) < 1e-7 {
+				break
 			}
 		}
 		t2 := x1
