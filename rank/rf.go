@@ -25,7 +25,11 @@ type RFResult struct {
 	CDevice   q.Capacitance // class E: the part's charge-equivalent share of it, Q_oss(VPeak)/VPeak, F
 	CExternal q.Capacitance // class E: linear capacitor still to add, F
 	FMax      q.Frequency   // class E: highest frequency the part can hold class E at this power and supply, Hz
-	Tf        q.Time        // current fall time at turn-off, s
+	// XExcess is the excess series reactance that keeps nominal class E
+	// with this part's capacitance in the shunt, Ω (the series capacitor
+	// follows from it and the tank's inductance).
+	XExcess q.Resistance
+	Tf      q.Time // current fall time at turn-off, s
 	// Class D: the turn-on edge.
 	ZVS       bool      // full zero-voltage turn-on
 	VResidual q.Voltage // voltage left across the switch at its turn-on, V
@@ -232,7 +236,7 @@ func evalClassE(r *Result, pt *Point, d *Device, tr *Trace) {
 		sh.VPeak = e.VPeak
 	}
 	rf.VPeak, rf.IPeak, rf.CRequired = sh.VPeak, e.IPeak, e.C1
-	rf.CDevice, rf.CExternal, rf.FMax = sh.CDevice, sh.CExternal, sh.FMax
+	rf.CDevice, rf.CExternal, rf.FMax, rf.XExcess = sh.CDevice, sh.CExternal, sh.FMax, sh.X
 	if sh.DeviceTooLarge {
 		out.Screens |= ScreenShuntTooSmall
 	}
@@ -267,7 +271,7 @@ func evalClassE(r *Result, pt *Point, d *Device, tr *Trace) {
 			T("VDD", s.Vin), T("R load", e.R), T("P out", e.Po), T("I dc", e.IDC), T("I rms", e.IRms),
 			T("I peak", e.IPeak), T("I at turn-off", e.IOff), T("V peak (linear shunt)", e.VPeak), T("C1 required", e.C1))
 		tr.add("control", "shunt", "device share of C1: Q_oss(V_peak)/V_peak with the part's own law; external capacitor = what is left",
-			T("V peak", sh.VPeak), T("C device", sh.CDevice), T("C external", sh.CExternal), T("f max", sh.FMax))
+			T("V peak", sh.VPeak), T("C device", sh.CDevice), T("C external", sh.CExternal), T("excess reactance", sh.X), T("f max", sh.FMax))
 		tr.add("control", "turn-off", "linear current fall in t_f inside the periodic steady state (≈ (ω·t_f)²/12·P_o)",
 			T("t_f", rf.Tf), T("P turn-off", out.Losses.TurnOff), T("P turn-on", out.Losses.TurnOn))
 		note := "no eoss_loss column: output-capacitance hysteresis not counted"

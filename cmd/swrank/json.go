@@ -116,6 +116,7 @@ type jsonResult struct {
 	ShuntDeviceFarad   *float64 `json:"shunt_device_farad,omitempty"`
 	ShuntExternalFarad *float64 `json:"shunt_external_farad,omitempty"`
 	FmaxHz             *float64 `json:"fmax_hz,omitempty"`
+	ExcessReactanceOhm *float64 `json:"excess_reactance_ohm,omitempty"`
 	FallTimeS          *float64 `json:"fall_time_s,omitempty"`
 	ZVS                *bool    `json:"zvs,omitempty"`
 	ResidualV          *float64 `json:"residual_v,omitempty"`
@@ -221,6 +222,7 @@ func resultJSON(i int, x *rank.Result, pout q.Power) jsonResult {
 		if rf.CRequired > 0 {
 			j.ShuntRequiredFarad, j.ShuntDeviceFarad = ptr(float64(rf.CRequired)), ptr(float64(rf.CDevice))
 			j.ShuntExternalFarad, j.FmaxHz = ptr(float64(rf.CExternal)), ptr(float64(rf.FMax))
+			j.ExcessReactanceOhm = ptr(float64(rf.XExcess))
 		} else {
 			z := rf.ZVS
 			j.ZVS, j.ResidualV = &z, ptr(float64(rf.VResidual))
