@@ -650,18 +650,8 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		return a.p
 	}
 	tm := ThermalModel{Fixed: fixed, Cond: Conduction(st.IRms, rdyn), Law: d.Temp, Other: other}
-	switch {
-	case s.TjFixed.OK:
-		out.Thermal = ThermalSolution{Tj: s.TjFixed.V, Status: ThermalFixed, Found: true}
-	case rthv == 0:
-		out.Thermal = ThermalSolution{Tj: s.Ambient, Status: ThermalSolved, Found: true}
-	default:
-		out.Thermal = SolveJunction(&tm, s.Ambient, rthv, d.TjMax)
-	}
-	tj := out.Thermal.Tj
-	if !out.Thermal.Found {
-		tj = d.TjMax
-	}
+	var tj q.Temperature
+	out.Thermal, tj = junction(&tm, s, rthv, d.TjMax)
 
 	// Everything at the solved temperature.
 	if lastT != tj {

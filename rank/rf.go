@@ -179,18 +179,8 @@ func rfThermal(out *DeviceResult, d *Device, s *Stage, fixed q.Power) {
 	rthv, fl := rth(p, s)
 	out.Rth, out.Flags = rthv, out.Flags|fl
 	m := ThermalModel{Fixed: fixed, Cond: Conduction(out.Stress.IRms, r0), Law: d.Temp}
-	switch {
-	case s.TjFixed.OK:
-		out.Thermal = ThermalSolution{Tj: s.TjFixed.V, Status: ThermalFixed, Found: true}
-	case rthv == 0:
-		out.Thermal = ThermalSolution{Tj: s.Ambient, Status: ThermalSolved, Found: true}
-	default:
-		out.Thermal = SolveJunction(&m, s.Ambient, rthv, d.TjMax)
-	}
-	tj := out.Thermal.Tj
-	if !out.Thermal.Found {
-		tj = d.TjMax
-	}
+	var tj q.Temperature
+	out.Thermal, tj = junction(&m, s, rthv, d.TjMax)
 	out.Rds = r0 * q.Resistance(d.Temp.Factor(tj))
 	out.Losses.Conduction = Conduction(out.Stress.IRms, out.Rds)
 	switch {

@@ -287,3 +287,23 @@ func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, 
 	}
 	return s, false
 }
+
+// junction solves the thermal loop of one device at stage s: pinned by
+// the user, at ambient without a thermal path, else by SolveJunction. It
+// returns the solution and the temperature to evaluate the losses at
+// (Tj,max when no steady state exists).
+func junction(m *ThermalModel, s *Stage, rth q.ThermalResistance, tjMax q.Temperature) (ThermalSolution, q.Temperature) {
+	var sol ThermalSolution
+	switch {
+	case s.TjFixed.OK:
+		sol = ThermalSolution{Tj: s.TjFixed.V, Status: ThermalFixed, Found: true}
+	case rth == 0:
+		sol = ThermalSolution{Tj: s.Ambient, Status: ThermalSolved, Found: true}
+	default:
+		sol = SolveJunction(m, s.Ambient, rth, tjMax)
+	}
+	if !sol.Found {
+		return sol, tjMax
+	}
+	return sol, sol.Tj
+}
