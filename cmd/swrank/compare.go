@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
@@ -215,7 +214,7 @@ func (r *compareReport) csv(w io.Writer) error {
 		header = append(header, n+"_w", n+"_fitted_w", n+"_delta_w", n+"_delta_rel")
 	}
 	header = append(header, "tj_degc", "tj_delta_k", "eff", "eff_delta", "new_screens", "package_differs", "screened", "verdict")
-	cw := csv.NewWriter(w)
+	cw := newSafeCSV(w)
 	if err := cw.Write(header); err != nil {
 		return err
 	}
@@ -240,9 +239,6 @@ func (r *compareReport) csv(w io.Writer) error {
 		}
 		row = append(row, tj, dtj, eff, deff, strings.Join(rank.ScreenNames(c.NewScreens), "; "),
 			strconv.FormatBool(c.PackageDiffers), strconv.FormatBool(c.Cand.Screened()), c.Verdict)
-		for j := range row {
-			row[j] = safeCell(row[j])
-		}
 		if err := cw.Write(row); err != nil {
 			return err
 		}

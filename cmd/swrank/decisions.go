@@ -509,14 +509,11 @@ func (r *decisionReport) reasons(c *candidate) []string {
 }
 
 func (r *decisionReport) csv(w io.Writer) error {
-	cw := csv.NewWriter(w)
+	cw := newSafeCSV(w)
 	if err := cw.Write(r.header()); err != nil {
 		return err
 	}
 	for _, row := range r.rows() {
-		for j := range row {
-			row[j] = safeCell(row[j])
-		}
 		if err := cw.Write(row); err != nil {
 			return err
 		}
@@ -804,7 +801,7 @@ func decorate(w io.Writer, format string, rep report, partner *rank.Device) erro
 			}
 			rows[i] = append(rows[i], worst, price, fr)
 		}
-		cw := csv.NewWriter(w)
+		cw := newSafeCSV(w)
 		if err := cw.WriteAll(rows); err != nil {
 			return err
 		}

@@ -135,6 +135,12 @@ func TestCSVFormulaNeutralised(t *testing.T) {
 	if !strings.Contains(out, `'=SUM(A1)`) || strings.Contains(out, `,=SUM`) {
 		t.Errorf("formula not neutralised:\n%s", out)
 	}
+	// The sweep's CSV too (every command writes CSV through newSafeCSV).
+	code, out, e = runCLI(t, args([]string{"sweep", "--format", "csv", "--parts", "../../testdata/cli/formula_name.csv",
+		"--var", "fsw", "--from", "100k", "--to", "1M", "--steps", "3"}, buck)...)
+	if code != 0 || !strings.Contains(out, `'=SUM(A1)`) || strings.Contains(out, `,=SUM`) || strings.HasPrefix(out, "=") {
+		t.Errorf("sweep csv: code %d, %q %s", code, out, e)
+	}
 	for _, c := range []struct{ in, want string }{{"-1.5", "-1.5"}, {"=1+1", "'=1+1"}, {"+x", "'+x"}, {"@a", "'@a"}, {"a", "a"}} {
 		if got := safeCell(c.in); got != c.want {
 			t.Errorf("safeCell(%q) = %q, want %q", c.in, got, c.want)

@@ -296,6 +296,31 @@ func safeCell(s string) string {
 	return s
 }
 
+// safeCSV is a csv.Writer whose every cell goes through safeCell, so that
+// no command writes a spreadsheet formula from a user's part name.
+type safeCSV struct{ *csv.Writer }
+
+func newSafeCSV(w io.Writer) safeCSV { return safeCSV{csv.NewWriter(w)} }
+
+// Write neutralises and writes one record.
+func (c safeCSV) Write(row []string) error {
+	for j := range row {
+		row[j] = safeCell(row[j])
+	}
+	return c.Writer.Write(row)
+}
+
+// WriteAll writes every record and flushes.
+func (c safeCSV) WriteAll(rows [][]string) error {
+	for _, r := range rows {
+		if err := c.Write(r); err != nil {
+			return err
+		}
+	}
+	c.Flush()
+	return c.Error()
+}
+
 func num(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return ""
@@ -308,7 +333,7 @@ var csvHeader = []string{"rank", "part", "partner", "position", "total_w", "swit
 	"driver_quiescent_w", "tj_degc", "loss_pct", "method", "flags", "screened", "reasons"}
 
 func renderCSV(w io.Writer, r report) error {
-	cw := csv.NewWriter(w)
+	cw := newSafeCSV(w)
 	if err := cw.Write(csvHeader); err != nil {
 		return err
 	}
@@ -332,9 +357,6 @@ func renderCSV(w io.Writer, r report) error {
 			num(float64(l.GateDriver)), num(float64(l.GateRext)), num(float64(l.GateRint)), num(float64(l.DriverQuiescent)),
 			tj, pct, methods(&x), strings.TrimSpace(flagCodes(x.Flags)), strconv.FormatBool(x.Screened()),
 			strings.Join(x.Reasons(), "; ")}
-		for j := range row {
-			row[j] = safeCell(row[j])
-		}
 		if err := cw.Write(row); err != nil {
 			return err
 		}

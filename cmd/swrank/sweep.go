@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
@@ -317,7 +316,7 @@ func (r *sweepReport) table(w io.Writer, markdown bool) error {
 }
 
 func (r *sweepReport) csv(w io.Writer) error {
-	cw := csv.NewWriter(w)
+	cw := newSafeCSV(w)
 	b := r.sw.Best(r.set)
 	unit := r.sw.Spec.Var.String() + "_" + strings.ToLower(r.sw.Spec.Var.Unit())
 	if r.components {
@@ -337,9 +336,6 @@ func (r *sweepReport) csv(w io.Writer) error {
 					num(float64(l.Coss)), num(float64(l.DeadTime)), num(float64(l.Recovery)), num(float64(l.GateRint)),
 					num(float64(l.Driver())), num(float64(l.Total())), tj, strconv.FormatBool(res.Screened()),
 					r.sw.Pts[i].Mode.String(), strconv.FormatBool(b[i] == k)}
-				for j := range row {
-					row[j] = safeCell(row[j])
-				}
 				if err := cw.Write(row); err != nil {
 					return err
 				}
