@@ -807,7 +807,9 @@ func offSwitchChecks(sy, ct *DeviceResult, pt *Point, tr *Trace) {
 
 	// Overshoot when the commutation at ct's turn-on ends: the loop's di/dt
 	// of ct's current rise, taken as the rate at which the recovering
-	// current of sy is interrupted (common-practice bound).
+	// current of sy is interrupted (common-practice bound), but no more
+	// than the whole current ringing into sy's output capacitance,
+	// I·√(L/C_oss(V)) (the ring's energy balance; LoopOvershoot).
 	if l := s.LoopInductance + d.Lloop + ct.Dev.Lloop; l > 0 && ct.Stress.HardOn {
 		tRise := ct.Trans.Tir
 		if tRise == 0 {
@@ -815,14 +817,16 @@ func offSwitchChecks(sy, ct *DeviceResult, pt *Point, tr *Trace) {
 		}
 		if finite(tRise) {
 			sy.Lloop = l
-			sy.Vpeak = LoopOvershoot(v, l, ct.Stress.IOn, ct.Stress.IOn, tRise, 0)
+			ramp := LoopOvershoot(v, l, ct.Stress.IOn, ct.Stress.IOn, tRise, 0)
+			ring := LoopOvershoot(v, l, ct.Stress.IOn, 0, tRise, d.Oss.C(v))
+			sy.Vpeak = min(ramp, ring)
 			sy.Flags |= FlagLoopL
 			if sy.Vpeak > q.Voltage(s.Derate)*d.Part.VdsMax {
 				sy.Screens |= ScreenVoltage
 			}
 			if tr != nil {
-				tr.add(sy.Role.String(), "loop overshoot", "V peak = V + L·I_on/t_ir of the control switch's turn-on (the recovered current interrupted at the same rate)",
-					T("L loop", l), T("I on (control)", ct.Stress.IOn), T("t_ir (control)", tRise), T("V peak", sy.Vpeak))
+				tr.add(sy.Role.String(), "loop overshoot", "V peak = V + min(L·I_on/t_ir of the control switch's turn-on, I_on·√(L/C_oss(V))): the recovered current interrupted at the same rate, at most ringing whole into the output capacitance",
+					T("L loop", l), T("I on (control)", ct.Stress.IOn), T("t_ir (control)", tRise), T("C_oss(V)", d.Oss.C(v)), T("V peak", sy.Vpeak))
 			}
 		}
 	}
