@@ -299,14 +299,18 @@ func (m *devModel) prepare() {
 	m.odOn, m.qgs2On = od(st.IOn)
 	m.odOff, m.qgs2Off = od(st.IOff)
 	m.odPk, m.qgs2Pk = od(st.IPeak)
-	m.qgdV = MillerChargeAt(d.Qgd, d.QgVds, st.V)
-	m.qgdGate = MillerChargeAt(d.Qgd, d.QgVds, m.vdsGate)
-	if st.V > 0 && m.lloop > 0 {
-		m.cossSmall = d.Oss.C(st.V)
-	}
 	if d.HasMiller {
 		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
-		m.rise = d.rise.At(st.V)
+		if m.hard {
+			m.rise = d.rise.At(st.V)
+			m.cossSmall = q.Capacitance(m.rise.cossTop)
+		}
+	} else {
+		m.qgdV = MillerChargeAt(d.Qgd, d.QgVds, st.V)
+		m.qgdGate = MillerChargeAt(d.Qgd, d.QgVds, m.vdsGate)
+	}
+	if m.cossSmall == 0 && st.V > 0 && m.lloop > 0 {
+		m.cossSmall = d.Oss.C(st.V)
 	}
 	if d.Vth > 0 {
 		m.qthPerV = float64(d.Qth) / float64(d.Vth)

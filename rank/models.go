@@ -860,7 +860,10 @@ func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 	}
 	a := float64(i) / float64(ig)
 	s := 1.0
-	if r.n > 0 {
+	switch {
+	case r.n == 0.5: // the √ law: a^−2
+		s = 1 / (a * a)
+	case r.n > 0:
 		s = powPos(a, -1/r.n)
 	}
 	e := r.seg(a*float64(r.m.Clo), r.xc[0]*s, 0, r.vk, 0, r.pvk) +
