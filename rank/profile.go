@@ -9,7 +9,6 @@ import (
 	"slices"
 	"strconv"
 	"strings"
-	"sync"
 
 	q "swrank/devices/quantity"
 )
@@ -360,28 +359,14 @@ func RankProfile(pr *Profile, devs []Device, partner *Device, opt Options) []Wei
 		w = runtime.GOMAXPROCS(0)
 	}
 	const chunk = 256
-	if w == 1 || len(devs) < 2*chunk {
-		for i := range devs {
+	if len(devs) < 2*chunk {
+		w = 1
+	}
+	parallelChunks(len(devs), w, chunk, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
 			out[i] = EvaluateProfile(pr, &devs[i], partner)
 		}
-	} else {
-		var wg sync.WaitGroup
-		next := make(chan int, w)
-		for range w {
-			wg.Go(func() {
-				for lo := range next {
-					for i := lo; i < min(lo+chunk, len(devs)); i++ {
-						out[i] = EvaluateProfile(pr, &devs[i], partner)
-					}
-				}
-			})
-		}
-		for lo := 0; lo < len(devs); lo += chunk {
-			next <- lo
-		}
-		close(next)
-		wg.Wait()
-	}
+	})
 	slices.SortStableFunc(out, CompareWeighted)
 	return out
 }

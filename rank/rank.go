@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"runtime"
 	"slices"
-	"sync"
 )
 
 // Options tune Rank.
@@ -27,31 +26,14 @@ func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
 		w = runtime.GOMAXPROCS(0)
 	}
 	const chunk = 1024
-	if w == 1 || len(devs) < 2*chunk {
-		for i := range devs {
+	if len(devs) < 2*chunk {
+		w = 1
+	}
+	parallelChunks(len(devs), w, chunk, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
 			out[i] = Evaluate(pt, &devs[i], partner, nil)
 		}
-	} else {
-		var wg sync.WaitGroup
-		next := make(chan int, w)
-		for range w {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				for lo := range next {
-					hi := min(lo+chunk, len(devs))
-					for i := lo; i < hi; i++ {
-						out[i] = Evaluate(pt, &devs[i], partner, nil)
-					}
-				}
-			}()
-		}
-		for lo := 0; lo < len(devs); lo += chunk {
-			next <- lo
-		}
-		close(next)
-		wg.Wait()
-	}
+	})
 	return sortResults(out)
 }
 
