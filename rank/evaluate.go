@@ -198,6 +198,30 @@ func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 	return r
 }
 
+// driveScreens applies the screens of the peak current and the gate drive:
+// the pulsed rating, the gate ratings, and the drive against the threshold
+// and the plateau vplPk at the peak current.
+func driveScreens(out *DeviceResult, d *Device, drv *Driver, vplPk q.Voltage) {
+	p := d.Part
+	if p.IdPulse.OK && out.Stress.IPeak > p.IdPulse.V {
+		out.Screens |= ScreenPeakCurrent
+	}
+	if drv.VOn > p.VgsMax {
+		out.Screens |= ScreenGateMax
+	}
+	if drv.VOff < d.VgsMin {
+		out.Screens |= ScreenGateMin
+	}
+	if drv.VOff < 0 && !p.VgsMin.OK {
+		out.Flags |= FlagVgsMinDefault
+	}
+	if drv.VOn <= d.Vth {
+		out.Screens |= ScreenBelowThreshold
+	} else if drv.VOn <= vplPk {
+		out.Screens |= ScreenBelowPlateau
+	}
+}
+
 // partnerCharge is what the complementary device contributes at the control
 // switch's hard turn-on.
 type partnerCharge struct {
@@ -528,23 +552,7 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	vplPk := PlateauAt(d.Vth, d.VplSpec, d.QgId, st.IPeak)
 
 	// Screens that need no temperature.
-	if p.IdPulse.OK && st.IPeak > p.IdPulse.V {
-		out.Screens |= ScreenPeakCurrent
-	}
-	if drv.VOn > p.VgsMax {
-		out.Screens |= ScreenGateMax
-	}
-	if drv.VOff < d.VgsMin {
-		out.Screens |= ScreenGateMin
-	}
-	if drv.VOff < 0 && !p.VgsMin.OK {
-		out.Flags |= FlagVgsMinDefault
-	}
-	if drv.VOn <= d.Vth {
-		out.Screens |= ScreenBelowThreshold
-	} else if drv.VOn <= vplPk {
-		out.Screens |= ScreenBelowPlateau
-	}
+	driveScreens(out, d, drv, vplPk)
 	if drv.VOn < d.VgsLow {
 		out.Flags |= FlagRdsExtrapolated
 	}

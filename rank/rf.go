@@ -150,24 +150,7 @@ func rfScreens(out *DeviceResult, d *Device, s *Stage, vpeak q.Voltage) {
 	if vpeak > q.Voltage(s.Derate)*p.VdsMax {
 		out.Screens |= ScreenVoltage
 	}
-	if p.IdPulse.OK && out.Stress.IPeak > p.IdPulse.V {
-		out.Screens |= ScreenPeakCurrent
-	}
-	if drv.VOn > p.VgsMax {
-		out.Screens |= ScreenGateMax
-	}
-	if drv.VOff < d.VgsMin {
-		out.Screens |= ScreenGateMin
-	}
-	if drv.VOff < 0 && !p.VgsMin.OK {
-		out.Flags |= FlagVgsMinDefault
-	}
-	vpl := PlateauAt(d.Vth, d.VplSpec, d.QgId, out.Stress.IPeak)
-	if drv.VOn <= d.Vth {
-		out.Screens |= ScreenBelowThreshold
-	} else if drv.VOn <= vpl {
-		out.Screens |= ScreenBelowPlateau
-	}
+	driveScreens(out, d, drv, PlateauAt(d.Vth, d.VplSpec, d.QgId, out.Stress.IPeak))
 }
 
 // rfThermal solves the junction temperature with the loss `fixed` that does
