@@ -803,14 +803,21 @@ func MillerRiseEnergy(m MillerLaw, oss OssLaw, v q.Voltage, i, ig q.Current) (q.
 // currents worked out once (the thermal loop changes only the gate
 // current).
 type RiseIntegral struct {
-	m        MillerLaw
-	k, n     float64    // output-capacitance law
-	v, vk    float64    // switched voltage and min(knee, v), V
-	pvk, pv  float64    // vk^(2−N) and v^(2−N)
-	xc       [2]float64 // (K/Clo)^(1/N), (K/Chi)^(1/N): the crossing for a = 1
-	cossTop  float64    // Coss(v), F
-	cgdTop   float64    // Cgd at v, F
-	positive bool       // v > 0
+	m       MillerLaw
+	k, n    float64    // output-capacitance law
+	v, vk   float64    // switched voltage and min(knee, v), V
+	pvk, pv float64    // vk^(2−N) and v^(2−N)
+	xc      [2]float64 // (K/Clo)^(1/N), (K/Chi)^(1/N): the crossing for a = 1
+	epsN    float64    // riseEps^N
+	// Bounds on a = i/ig that decide a segment without a power evaluation:
+	// at or below zero[k] the segment's integrand is nowhere positive; at or
+	// above full[k] it is positive on the whole segment (for the first
+	// segment, from riseEps·vk on: the part below adds under riseEps²
+	// relative).
+	zero, full [2]float64
+	cossTop    float64 // Coss(v), F
+	cgdTop     float64 // Cgd at v, F
+	positive   bool    // v > 0
 }
 
 // NewRiseIntegral prepares MillerRiseEnergy for law m, output capacitance
@@ -829,9 +836,15 @@ func RiseBase(m MillerLaw, oss OssLaw) RiseIntegral {
 	}
 	if r.n > 0 {
 		r.xc = [2]float64{math.Pow(r.k/float64(m.Clo), 1/r.n), math.Pow(r.k/float64(m.Chi), 1/r.n)}
+		r.epsN = math.Pow(riseEps, r.n)
 	}
 	return r
 }
+
+// riseEps bounds the part of the first segment that Energy may neglect
+// without computing where its integrand turns positive: below riseEps·vk,
+// which holds under riseEps² of the segment.
+const riseEps = 1e-4
 
 // At completes a RiseBase for switched voltage v (one power evaluation).
 func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
@@ -847,6 +860,13 @@ func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
 		r.vk, r.pvk = r.v, r.pv
 		r.cgdTop = float64(r.m.Clo)
 	}
+	if r.n > 0 && r.vk > 0 {
+		// x ≥ xs = (K/(a·c))^(1/N) ⇔ a ≥ K/(c·x^N); x^N = x²/x^(2−N).
+		vkN, vN := r.vk*r.vk/r.pvk, r.v*r.v/r.pv
+		clo, chi := float64(r.m.Clo), float64(r.m.Chi)
+		r.zero = [2]float64{r.k / (clo * vkN), r.k / (chi * vN)}
+		r.full = [2]float64{r.k / (clo * r.epsN * vkN), r.k / (chi * vkN)}
+	}
 	return r
 }
 
@@ -859,15 +879,29 @@ func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 		return 0, max(i, 0)
 	}
 	a := float64(i) / float64(ig)
-	s := 1.0
-	switch {
-	case r.n == 0.5: // the √ law: a^−2
-		s = 1 / (a * a)
-	case r.n > 0:
-		s = powPos(a, -1/r.n)
+	// xs per segment: 0 (positive throughout), +Inf (nowhere), or
+	// xc·a^(−1/N) when a lies between the segment's bounds.
+	var xs [2]float64
+	s := math.NaN()
+	for k := range xs {
+		switch {
+		case r.n == 0:
+		case a <= r.zero[k]:
+			xs[k] = math.Inf(1)
+		case a >= r.full[k]:
+		default:
+			if s != s { // one power evaluation serves both segments
+				if r.n == 0.5 {
+					s = 1 / (a * a) // the √ law: a^−2
+				} else {
+					s = powPos(a, -1/r.n)
+				}
+			}
+			xs[k] = r.xc[k] * s
+		}
 	}
-	e := r.seg(a*float64(r.m.Clo), r.xc[0]*s, 0, r.vk, 0, r.pvk) +
-		r.seg(a*float64(r.m.Chi), r.xc[1]*s, r.vk, r.v, r.pvk, r.pv)
+	e := r.seg(a*float64(r.m.Clo), xs[0], 0, r.vk, 0, r.pvk) +
+		r.seg(a*float64(r.m.Chi), xs[1], r.vk, r.v, r.pvk, r.pv)
 	iTop := float64(i) - float64(ig)*r.cossTop/r.cgdTop
 	return q.Energy(e), q.Current(math.Max(iTop, 0))
 }
