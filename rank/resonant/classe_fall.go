@@ -190,34 +190,9 @@ func (f *fallCircuit) cycle(thetaD float64) (x, zd []float64, err error) {
 	pre := mat.DenseCopyOf(&m) // to θ_d⁻
 	m.Mul(f.resetOn, pre)
 	t.Mul(expScaled(f.on, 2*math.Pi-thetaD), &m)
-	// Unknowns: the periodic states except v1 (zero in the on state).
-	var idx []int
-	for _, i := range f.base.periodic {
-		if i != sV1 {
-			idx = append(idx, i)
-		}
-	}
-	k := len(idx)
-	a := mat.NewDense(k, k, nil)
-	b := mat.NewVecDense(k, nil)
-	for r, i := range idx {
-		for s, j := range idx {
-			v := -t.At(i, j)
-			if r == s {
-				v++
-			}
-			a.Set(r, s, v)
-		}
-		b.SetVec(r, t.At(i, f.one))
-	}
-	var sol mat.VecDense
-	if err := sol.SolveVec(a, b); err != nil {
+	x, err = periodicState(&t, f.base.periodic, f.m, f.one)
+	if err != nil {
 		return nil, nil, fmt.Errorf("periodic steady state with the fall: %w", err)
-	}
-	x = make([]float64, f.m)
-	x[f.one] = 1
-	for r, i := range idx {
-		x[i] = sol.AtVec(r)
 	}
 	zd = mulVec(pre, x)
 	return x, zd, nil

@@ -167,34 +167,9 @@ func (c eCircuit) steady(on, off *mat.Dense) (z0, zEnd []float64, err error) {
 	var m mat.Dense
 	m.Mul(off, on)
 	one := c.n - 1
-	// Unknowns: the periodic states except v1 (reset to 0 at turn-on).
-	var idx []int
-	for _, i := range c.periodic {
-		if i != sV1 {
-			idx = append(idx, i)
-		}
-	}
-	k := len(idx)
-	a := mat.NewDense(k, k, nil)
-	b := mat.NewVecDense(k, nil)
-	for r, i := range idx {
-		for s, j := range idx {
-			v := -m.At(i, j)
-			if r == s {
-				v++
-			}
-			a.Set(r, s, v)
-		}
-		b.SetVec(r, m.At(i, one))
-	}
-	var x mat.VecDense
-	if err := x.SolveVec(a, b); err != nil {
+	z0, err = periodicState(&m, c.periodic, c.n, one)
+	if err != nil {
 		return nil, nil, fmt.Errorf("periodic steady state: %w", err)
-	}
-	z0 = make([]float64, c.n)
-	z0[one] = 1
-	for r, i := range idx {
-		z0[i] = x.AtVec(r)
 	}
 	zEnd = make([]float64, c.n)
 	for i := 0; i < c.n; i++ {
@@ -422,4 +397,41 @@ func peak(y []float64) float64 {
 		return b
 	}
 	return b - (a-c)*(a-c)/(8*den)
+}
+
+// periodicState solves for the state z that the one-period transition t
+// maps onto itself, z = t·z, with the constant state `one` held at 1: the
+// states listed in periodic except v1 (zero at turn-on, when the switch
+// shorts the shunt) are unknowns, every other state is 0. n is the state
+// dimension.
+func periodicState(t mat.Matrix, periodic []int, n, one int) ([]float64, error) {
+	var idx []int
+	for _, i := range periodic {
+		if i != sV1 {
+			idx = append(idx, i)
+		}
+	}
+	k := len(idx)
+	a := mat.NewDense(k, k, nil)
+	b := mat.NewVecDense(k, nil)
+	for r, i := range idx {
+		for s, j := range idx {
+			v := -t.At(i, j)
+			if r == s {
+				v++
+			}
+			a.Set(r, s, v)
+		}
+		b.SetVec(r, t.At(i, one))
+	}
+	var x mat.VecDense
+	if err := x.SolveVec(a, b); err != nil {
+		return nil, err
+	}
+	z := make([]float64, n)
+	z[one] = 1
+	for r, i := range idx {
+		z[i] = x.AtVec(r)
+	}
+	return z, nil
 }
