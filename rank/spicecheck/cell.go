@@ -187,14 +187,9 @@ func SimulateCell(ctx context.Context, r *Runner, m *Model, p *Point, o CellOpti
 }
 
 func integrateCell(tab *Table, m *Model, p *Point, o CellOptions, delay float64) (*CellEnergies, error) {
-	names := []string{"v(d)", "v(g)", "v(s)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "@m1[id]", "@m1[vds]"}
-	cols := make([][]float64, len(names))
-	for i, n := range names {
-		c, err := tab.Col(n)
-		if err != nil {
-			return nil, err
-		}
-		cols[i] = c
+	cols, err := tab.Columns("v(d)", "v(g)", "v(s)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "@m1[id]", "@m1[vds]")
+	if err != nil {
+		return nil, err
 	}
 	tm := tab.Cols[0]
 	vd, vg, vs, vgx, vp, id, ig, ich, vch := cols[0], cols[1], cols[2], cols[3], cols[4], cols[5], cols[6], cols[7], cols[8]

@@ -127,14 +127,9 @@ func SimulateClassE(ctx context.Context, r *Runner, m *Model, x *ClassEParts) (*
 }
 
 func measureClassE(tab *Table, x *ClassEParts) (*ClassEMeasured, error) {
-	names := []string{"v(d)", "v(g)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "i(vl)", "i(vdd)"}
-	cols := make([][]float64, len(names))
-	for i, n := range names {
-		c, err := tab.Col(n)
-		if err != nil {
-			return nil, err
-		}
-		cols[i] = c
+	cols, err := tab.Columns("v(d)", "v(g)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "i(vl)", "i(vdd)")
+	if err != nil {
+		return nil, err
 	}
 	tm := tab.Cols[0]
 	vd, vg, vgx, vp, id, ig, il, isup := cols[0], cols[1], cols[2], cols[3], cols[4], cols[5], cols[6], cols[7]

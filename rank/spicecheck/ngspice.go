@@ -52,6 +52,20 @@ func (t *Table) Col(name string) ([]float64, error) {
 	return nil, fmt.Errorf("no column %q (have %s)", name, strings.Join(t.Names, ", "))
 }
 
+// Columns returns the named columns, in order, or the first missing one's
+// error.
+func (t *Table) Columns(names ...string) ([][]float64, error) {
+	cols := make([][]float64, len(names))
+	for i, n := range names {
+		c, err := t.Col(n)
+		if err != nil {
+			return nil, err
+		}
+		cols[i] = c
+	}
+	return cols, nil
+}
+
 // Len is the number of rows.
 func (t *Table) Len() int {
 	if len(t.Cols) == 0 {
