@@ -509,17 +509,7 @@ func (r *decisionReport) reasons(c *candidate) []string {
 }
 
 func (r *decisionReport) csv(w io.Writer) error {
-	cw := newSafeCSV(w)
-	if err := cw.Write(r.header()); err != nil {
-		return err
-	}
-	for _, row := range r.rows() {
-		if err := cw.Write(row); err != nil {
-			return err
-		}
-	}
-	cw.Flush()
-	return cw.Error()
+	return newSafeCSV(w).WriteAll(append([][]string{r.header()}, r.rows()...))
 }
 
 type jsonPointEff struct {

@@ -344,7 +344,7 @@ func (r *sweepReport) csv(w io.Writer) error {
 	} else {
 		header := []string{unit}
 		for _, k := range r.set {
-			header = append(header, safeCell(r.name(k))+"_w")
+			header = append(header, r.name(k)+"_w")
 		}
 		header = append(header, "best", "mode")
 		if err := cw.Write(header); err != nil {
@@ -360,7 +360,7 @@ func (r *sweepReport) csv(w io.Writer) error {
 				}
 				row = append(row, num(t))
 			}
-			row = append(row, safeCell(r.best(b, i)), r.sw.Pts[i].Mode.String())
+			row = append(row, r.best(b, i), r.sw.Pts[i].Mode.String())
 			if err := cw.Write(row); err != nil {
 				return err
 			}
