@@ -160,7 +160,7 @@ func (r *Result) Tj() (q.Temperature, bool) {
 func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 	r := Result{Dev: dev, Position: pt.Stage.Position, Derate: pt.Stage.Derate}
 	if pt.Stage.Topology.resonant() {
-		evaluateRF(&r, pt, dev, partner, tr)
+		evaluateRF(&r, pt, dev, tr)
 	} else if !pt.HasSync {
 		r.N = 1
 		var k partnerCharge

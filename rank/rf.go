@@ -186,7 +186,7 @@ func rfThermal(out *DeviceResult, d *Device, s *Stage, fixed q.Power) {
 }
 
 // evaluateRF evaluates a part in a class E or class D stage.
-func evaluateRF(r *Result, pt *Point, dev, partner *Device, tr *Trace) {
+func evaluateRF(r *Result, pt *Point, dev *Device, tr *Trace) {
 	if pt.Stage.Topology == ClassE {
 		r.N = 1
 		evalClassE(r, pt, dev, tr)
