@@ -9,7 +9,7 @@ import (
 )
 
 // benchDevices prepares a generated library of n parts.
-func benchDevices(b *testing.B, n int) []Device {
+func benchDevices(b testing.TB, n int) []Device {
 	var buf bytes.Buffer
 	if err := synth.Generate(&buf, n, 1); err != nil {
 		b.Fatal(err)
@@ -29,7 +29,7 @@ func benchDevices(b *testing.B, n int) []Device {
 
 // benchPoint is the benchmarks' operating point: a 48 V → 12 V synchronous
 // buck at 10 A, 250 kHz, 10 V drive (docs/performance.md).
-func benchPoint(b *testing.B) Point {
+func benchPoint(b testing.TB) Point {
 	st := Stage{Topology: Buck, Vin: 48, Vout: 12, Iout: 10, Fsw: 250e3, Driver: Driver{VOn: 10}}
 	pt, err := st.Resolve()
 	if err != nil {

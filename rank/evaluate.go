@@ -306,6 +306,7 @@ type devModel struct {
 	qgs2On, qgs2Off, qgs2Pk q.Charge      // threshold-to-plateau charge at those currents
 	qgdV, qgdGate           q.Charge      // Miller charge at the switched voltage and at the gate curve's voltage
 	rise                    RiseIntegral  // the turn-off voltage rise (Device.HasMiller)
+	risePow                 powNear       // its a^(−1/N) across the thermal loop's calls
 	cossSmall               q.Capacitance // small-signal output capacitance at the switched voltage
 	qthPerV                 float64       // charge to the threshold per volt of threshold, C/V
 	linGate                 tempState     // gate figures of the linear gate (tr/tf method: temperature-independent)
@@ -327,6 +328,9 @@ func (m *devModel) prepare() {
 		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
 		if m.hard {
 			m.rise = d.rise.At(st.V)
+			if m.rise.n > 0 {
+				m.risePow = newPowNear(-1 / m.rise.n)
+			}
 			m.cossSmall = q.Capacitance(m.rise.cossTop)
 		}
 	} else {
@@ -476,7 +480,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 			if d.HasMiller {
 				// The load current charges Coss while the voltage rises:
 				// the channel keeps only the rest (MillerRiseEnergy).
-				evr, iTop := m.rise.Energy(st.IOff, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink))
+				evr, iTop := m.rise.energy(st.IOff, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink), &m.risePow)
 				a.iTop = iTop
 				// The loop's stored ½·L·I² is counted in the switch
 				// (docs/second-order.md; the ngspice cells agree within

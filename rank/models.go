@@ -15,6 +15,45 @@ import (
 // ulp times |y·ln x|).
 func powPos(x, y float64) float64 { return math.Exp(y * math.Log(x)) }
 
+// powNear evaluates x^p for a fixed p and x > 0 that moves little between
+// calls (the thermal loop's iterates): near the last exactly computed point
+// x0 it sums the binomial series y0·(1 + u)^p, u = x/x0 − 1, to the u³
+// term, and it computes powPos again (and takes the new point as x0) when
+// |u| exceeds the radius at which the first neglected term,
+// |C(p, 4)|·u⁴, reaches 10⁻¹²: the series' relative error stays below
+// about 10⁻¹² (binomial theorem; the remainder is of the sign and order of
+// the first neglected term for |u| ≪ 1). The zero value computes every
+// call exactly until p is set by newPowNear.
+type powNear struct {
+	p, x0, y0 float64
+	c2, c3    float64 // C(p, 2), C(p, 3)
+	radius    float64 // largest |u| served by the series
+}
+
+func newPowNear(p float64) powNear {
+	c2 := p * (p - 1) / 2
+	c3 := c2 * (p - 2) / 3
+	c4 := math.Abs(c3 * (p - 3) / 4)
+	r := 0.0
+	if c4 > 0 {
+		r = math.Sqrt(math.Sqrt(1e-12 / c4))
+	}
+	return powNear{p: p, c2: c2, c3: c3, radius: r}
+}
+
+func (m *powNear) at(x float64) float64 {
+	if m.x0 != 0 {
+		if u := x/m.x0 - 1; math.Abs(u) <= m.radius {
+			return m.y0 * (1 + u*(m.p+u*(m.c2+u*m.c3)))
+		}
+	}
+	y := powPos(x, m.p)
+	if m.radius > 0 {
+		m.x0, m.y0 = x, y
+	}
+	return y
+}
+
 // kelvin converts a Celsius temperature to kelvin.
 func kelvin(t q.Temperature) float64 { return float64(t) + 273.15 }
 
@@ -466,11 +505,13 @@ func (l *TempLaw) Factor(t q.Temperature) float64 {
 	return l.curve(float64(t)) / c0
 }
 
-// FactorD returns R(T)/R(T0) and its derivative with temperature, 1/K.
-func (l *TempLaw) FactorD(t q.Temperature) (float64, float64) {
+// FactorD returns R(T)/R(T0) and its first and second derivatives with
+// temperature, 1/K and 1/K² (the second is 0 on a curve's straight pieces).
+func (l *TempLaw) FactorD(t q.Temperature) (f, df, d2f float64) {
 	if l.NPts < 2 {
 		f := TempFactor(t, l.T0, l.Alpha)
-		return f, l.Alpha * f / kelvin(t)
+		tk := kelvin(t)
+		return f, l.Alpha * f / tk, l.Alpha * (l.Alpha - 1) * f / (tk * tk)
 	}
 	c0 := l.c0
 	if c0 == 0 {
@@ -484,7 +525,7 @@ func (l *TempLaw) FactorD(t q.Temperature) (float64, float64) {
 	}
 	a, b := p[i-1], p[i]
 	slope := (b[1] - a[1]) / (b[0] - a[0])
-	return (a[1] + slope*(x-a[0])) / c0, slope / c0
+	return (a[1] + slope*(x-a[0])) / c0, slope / c0, 0
 }
 
 func (l *TempLaw) curve(t float64) float64 {
@@ -875,6 +916,14 @@ func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
 // integrand of a segment of Cgd = c is positive above xs = (K/(a·c))^(1/N)
 // = xc·a^(−1/N): one power evaluation serves both segments.
 func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
+	return r.energy(i, ig, nil)
+}
+
+// energy is Energy with the power a^(−1/N) taken from pw when it is given
+// (the thermal loop's repeated calls; powNear, relative error below
+// 10⁻¹², which the energy feels only at second order: the integrand is
+// zero at the crossing xs).
+func (r *RiseIntegral) energy(i, ig q.Current, pw *powNear) (q.Energy, q.Current) {
 	if ig <= 0 || i <= 0 || !r.positive {
 		return 0, max(i, 0)
 	}
@@ -893,6 +942,8 @@ func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 			if s != s { // one power evaluation serves both segments
 				if r.n == 0.5 {
 					s = 1 / (a * a) // the √ law: a^−2
+				} else if pw != nil {
+					s = pw.at(a)
 				} else {
 					s = powPos(a, -1/r.n)
 				}

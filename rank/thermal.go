@@ -209,83 +209,216 @@ func SolveJunction(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, t
 }
 
 // solveSurrogate solves the thermal loop with few evaluations of the costly
-// temperature-dependent loss m.Other: between exact evaluations Other is
-// replaced by the straight line through the last two, the conduction loss
-// stays exact, and the surrogate's root is found by secant steps that cost
-// nothing. Each round evaluates Other once, at the surrogate's root, and
+// temperature-dependent loss m.Other. Between exact evaluations Other is
+// replaced by the straight line through the last two and the conduction
+// law by its second-order Taylor expansion at the last one, so that the
+// surrogate's root is a quadratic's, found without evaluating either. Each
+// round evaluates Other and the law once, at the surrogate's root, and
 // stops when the exact residual is below the tolerance: usually three
-// evaluations where plain secant needs five or more. It reports ok = false
-// (and the caller falls back to the general method) for anything but a
-// stable steady state below Tj,max + 500 K.
+// evaluations of Other where plain secant needs five or more. When the
+// surrogate has no crossing, runawayCheck decides with two more evaluations
+// (at Tj,max + 500 K and at Tj,max). It reports ok = false (and the caller
+// falls back to the general method) for an unstable root, for a crossing
+// the surrogate cannot place and for a conduction law whose curvature it
+// cannot bound.
 //
-// Source: a secant (regula-falsi-like) model of the slowly varying part,
-// Burden & Faires, Numerical Analysis, ch. 2; the exact conduction law keeps
-// the surrogate's curvature.
+// Source: a secant (regula-falsi-like) model of the slowly varying part
+// and a Taylor model of the conduction law, Burden & Faires, Numerical
+// Analysis, ch. 2; both models' errors vanish as the rounds close in, and
+// only the exact residual ends the iteration.
 func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) (ThermalSolution, bool) {
-	var s ThermalSolution
-	R := float64(rth)
-	cond := func(t float64) float64 { return float64(m.Cond) * m.Law.Factor(q.Temperature(t)) }
-	exact := func(t float64) float64 {
-		if s.Iterations < len(s.History) {
-			s.History[s.Iterations] = q.Temperature(t)
+	sv := surrogate{m: m, ta: float64(ta), r: float64(rth), lim: float64(tjMax) + 500}
+	s := &sv.sol
+	C := float64(m.Cond)
+	// residual is the exact Ta + Rth·P(T) − T with the law's derivatives.
+	residual := func(t, o float64) (h, df, d2f float64) {
+		f, df, d2f := m.Law.FactorD(q.Temperature(t))
+		return sv.ta + sv.r*(float64(m.Fixed)+C*f+o) - t, df, d2f
+	}
+	t0 := sv.ta
+	o0 := sv.exact(t0)
+	h0, df, d2f := residual(t0, o0)
+	k := 0.0 // slope of Other: unknown before the second evaluation
+	for round := 0; round < 9; round++ {
+		t1, st := sv.step(t0, h0, df, d2f, k)
+		switch st {
+		case rootNone:
+			return sv.runawayCheck(tjMax)
+		case rootFailed:
+			return *s, false
 		}
-		s.Iterations++
-		return float64(m.Other(q.Temperature(t)))
-	}
-	fixed := float64(m.Fixed)
-	t0 := float64(ta)
-	o0 := exact(t0)
-	t1 := float64(ta) + R*(fixed+cond(t0)+o0)
-	if math.IsNaN(t1) || t1 > float64(tjMax)+500 {
-		return s, false
-	}
-	o1 := exact(t1)
-	for round := 0; round < 8; round++ {
-		k := 0.0
+		o1 := sv.exact(t1)
+		var h1 float64
+		h1, df, d2f = residual(t1, o1)
 		if t1 != t0 {
 			k = (o1 - o0) / (t1 - t0)
 		}
-		// Surrogate root of h(T) = Ta + R·(fixed + cond(T) + o1 + k·(T − t1)) − T
-		// by Newton's method with the conduction law's own derivative.
-		x1 := t1
-		for it := 0; it < 30; it++ {
-			f, df := m.Law.FactorD(q.Temperature(x1))
-			h := float64(ta) + R*(fixed+float64(m.Cond)*f+o1+k*(x1-t1)) - x1
-			dh := R*(float64(m.Cond)*df+k) - 1
-			if dh >= 0 {
-				return s, false // no crossing from above: let the general method decide
-			}
-			step := h / dh
-			x1 -= step
-			if math.IsNaN(x1) || x1 > float64(tjMax)+500 || x1 < float64(ta)-1 {
-				return s, false
-			}
-			if math.Abs(step) < 1e-7 {
-				break
-			}
-		}
-		t2 := x1
-		o2 := exact(t2)
-		r := float64(ta) + R*(fixed+cond(t2)+o2) - t2
-		if math.Abs(r) < thermalTol {
-			const dh = 1e-3
-			kn := k
-			if t2 != t1 {
-				kn = (o2 - o1) / (t2 - t1)
-			}
-			gain := R * ((cond(t2+dh)-cond(t2-dh))/(2*dh) + kn)
+		if math.Abs(h1) < thermalTol {
+			gain := sv.r * (C*df + k)
 			if !(gain < 1) {
-				return s, false // an unstable root: the general method decides
+				return *s, false // an unstable root: the general method decides
 			}
-			s.Tj, s.Gain, s.Found = q.Temperature(t2), gain, true
+			s.Tj, s.Gain, s.Found = q.Temperature(t1), gain, true
 			if s.Tj > tjMax {
 				s.Status = ThermalAboveMax
 			}
-			return s, true
+			return *s, true
 		}
-		t0, o0, t1, o1 = t1, o1, t2, o2
+		t0, o0, h0 = t1, o1, h1
 	}
-	return s, false
+	return *s, false
+}
+
+// surrogate is the state of solveSurrogate: the model, the exact samples
+// of Other taken so far (for the runaway check) and the solution being
+// built.
+type surrogate struct {
+	m          *ThermalModel
+	ta, r, lim float64
+	sol        ThermalSolution
+	samples    [12][2]float64 // (T, Other(T)) in the order taken
+	nSamples   int
+}
+
+// exact evaluates Other at t and keeps the sample.
+func (sv *surrogate) exact(t float64) float64 {
+	s := &sv.sol
+	if s.Iterations < len(s.History) {
+		s.History[s.Iterations] = q.Temperature(t)
+	}
+	s.Iterations++
+	o := float64(sv.m.Other(q.Temperature(t)))
+	if sv.nSamples < len(sv.samples) {
+		sv.samples[sv.nSamples] = [2]float64{t, o}
+		sv.nSamples++
+	}
+	return o
+}
+
+type rootStatus uint8
+
+const (
+	rootFound  rootStatus = iota
+	rootNone              // the surrogate does not cross below the search limit
+	rootFailed            // the step leaves the search range
+)
+
+// step is the surrogate's falling crossing nearest t0, where the exact
+// residual h0 and the law's slope df and curvature d2f are known and Other
+// has slope k: the root of h0 + b·d + a·d² (a = ½·Rth·Cond·d2f,
+// b = Rth·(Cond·df + k) − 1) at which it falls through zero, taken in the
+// cancellation-free form d = 2·h0/(−b + √(b² − 4·a·h0)).
+func (sv *surrogate) step(t0, h0, df, d2f, k float64) (float64, rootStatus) {
+	c := float64(sv.m.Cond)
+	a := 0.5 * sv.r * c * d2f
+	b := sv.r*(c*df+k) - 1
+	disc := b*b - 4*a*h0
+	den := -b + math.Sqrt(max(disc, 0))
+	if disc < 0 || !(den > 0) {
+		if h0 > 0 {
+			return t0, rootNone // above zero and not falling through it ahead
+		}
+		return t0, rootFailed
+	}
+	x := t0 + 2*h0/den
+	switch {
+	case math.IsNaN(x) || x < sv.ta-1:
+		return x, rootFailed
+	case x > sv.lim:
+		return x, rootNone
+	}
+	return x, rootFound
+}
+
+// runawayCheck decides a loop whose surrogate found no crossing: Other is
+// evaluated at Tj,max + 500 K and then at Tj,max (last, so that the caller
+// finds the losses at Tj,max already computed), and the loop is a runaway
+// when the exact residual is positive at every sample and the surrogate
+// through all the samples (straight lines between them, the conduction law
+// exact) stays above zero from Ta to Tj,max + 500 K. That is the general
+// method's test (the residual at both temperatures) and a check of the
+// whole range between the samples besides. Anything else goes back to the
+// general method.
+func (sv *surrogate) runawayCheck(tjMax q.Temperature) (ThermalSolution, bool) {
+	s := &sv.sol
+	m := sv.m
+	residual := func(t, o float64) float64 {
+		return sv.ta + sv.r*(float64(m.Fixed)+float64(m.Cond)*m.Law.Factor(q.Temperature(t))+o) - t
+	}
+	sv.exact(sv.lim)
+	sv.exact(float64(tjMax))
+	pts := sv.samples[:sv.nSamples]
+	// Insertion sort by temperature (a dozen samples at most).
+	for i := 1; i < len(pts); i++ {
+		for j := i; j > 0 && pts[j][0] < pts[j-1][0]; j-- {
+			pts[j], pts[j-1] = pts[j-1], pts[j]
+		}
+	}
+	if pts[0][0] != sv.ta {
+		return *s, false
+	}
+	for _, p := range pts {
+		if p[0] <= sv.lim && !(residual(p[0], p[1]) > 0) {
+			return *s, false // a crossing before this sample
+		}
+	}
+	for i := 1; i < len(pts) && pts[i-1][0] < sv.lim; i++ {
+		a, b := pts[i-1], pts[i]
+		if b[0] == a[0] {
+			continue
+		}
+		if !sv.clear(a[0], a[1], min(b[0], sv.lim), (b[1]-a[1])/(b[0]-a[0])) {
+			return *s, false
+		}
+	}
+	s.Status, s.Tj, s.Found = ThermalRunaway, 0, false
+	return *s, true
+}
+
+// clear reports whether the surrogate through (a, oa) with slope k stays
+// above zero on [a, b], given that it is above zero at both ends. With a
+// curve law the surrogate is piecewise linear and is checked at the
+// curve's points inside the segment; with a power law of exponent α ≥ 1
+// or α ≤ 0 it is convex, and Newton's method from a, which never steps
+// past the first crossing of a convex function, either reaches b or a
+// rising slope with the residual still positive (no crossing). Other
+// exponents are not decided (false).
+func (sv *surrogate) clear(a, oa, b, k float64) bool {
+	law := &sv.m.Law
+	// h is the surrogate's residual and its slope at t.
+	h := func(t float64) (float64, float64) {
+		f, df, _ := law.FactorD(q.Temperature(t))
+		h := sv.ta + sv.r*(float64(sv.m.Fixed)+float64(sv.m.Cond)*f+oa+k*(t-a)) - t
+		return h, sv.r*(float64(sv.m.Cond)*df+k) - 1
+	}
+	if law.NPts >= 2 {
+		for _, p := range law.Pts[:law.NPts] {
+			if p[0] > a && p[0] < b {
+				if v, _ := h(p[0]); !(v > 0) {
+					return false
+				}
+			}
+		}
+		return true
+	}
+	if law.Alpha > 0 && law.Alpha < 1 {
+		return false
+	}
+	x := a
+	for it := 0; it < 30; it++ {
+		v, dv := h(x)
+		if !(v > 0) {
+			return false
+		}
+		if dv >= 0 {
+			return true
+		}
+		x -= v / dv
+		if x >= b {
+			return true
+		}
+	}
+	return false
 }
 
 // junction solves the thermal loop of one device at stage s: pinned by
