@@ -44,10 +44,11 @@ func benchPoint(b testing.TB) Point {
 func BenchmarkEvaluateOne(b *testing.B) {
 	devs := benchDevices(b, 1000)
 	pt := benchPoint(b)
+	var r Result
 	b.ReportAllocs()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
-		r := Evaluate(&pt, &devs[i%len(devs)], nil, nil)
+		EvaluateInto(&r, &pt, &devs[i%len(devs)], nil, nil)
 		if r.N == 0 {
 			b.Fatal("no result")
 		}

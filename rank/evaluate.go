@@ -158,16 +158,30 @@ func (r *Result) Tj() (q.Temperature, bool) {
 // off-state checks, which need the control switch's edges at its own
 // temperature (docs/second-order.md).
 func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
-	r := Result{Dev: dev, Position: pt.Stage.Position, Derate: pt.Stage.Derate}
+	var r Result
+	EvaluateInto(&r, pt, dev, partner, tr)
+	return r
+}
+
+// EvaluateInto is Evaluate writing into r, which it overwrites whole: the
+// hot loops use it to keep the result where it is wanted instead of
+// copying it out.
+func EvaluateInto(r *Result, pt *Point, dev, partner *Device, tr *Trace) {
+	var oss ossMemo
+	// Each device evaluated below is reset by evalDevice; the rest here.
+	r.Dev, r.Partner, r.Position, r.Derate = dev, nil, pt.Stage.Position, pt.Stage.Derate
+	r.N, r.Losses, r.Flags, r.Screens, r.RF = 0, Losses{}, 0, 0, RFResult{}
 	if pt.Stage.Topology.resonant() {
-		evaluateRF(&r, pt, dev, tr)
+		r.Devices = [2]DeviceResult{}
+		evaluateRF(r, pt, dev, tr)
 	} else if !pt.HasSync {
 		r.N = 1
+		r.Devices[1] = DeviceResult{}
 		var k partnerCharge
 		if pt.HasDiode {
 			k = diodePartner(&pt.Stage.Diode, pt.Ctrl.V)
 		}
-		evalDevice(&r.Devices[0], pt, dev, RoleControl, &pt.Ctrl, &k, tr)
+		evalDevice(&r.Devices[0], pt, dev, RoleControl, &pt.Ctrl, &k, &oss, tr)
 	} else {
 		ctrl, sync := dev, dev
 		if partner != nil && partner != dev {
@@ -179,11 +193,11 @@ func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 			}
 		}
 		r.N = 2
-		evalDevice(&r.Devices[1], pt, sync, RoleSync, &pt.Sync, nil, tr)
-		k := devicePartner(sync, pt.Ctrl.V, &r.Devices[1])
-		evalDevice(&r.Devices[0], pt, ctrl, RoleControl, &pt.Ctrl, &k, tr)
+		evalDevice(&r.Devices[1], pt, sync, RoleSync, &pt.Sync, nil, &oss, tr)
+		k := devicePartner(sync, oss.at(sync, pt.Ctrl.V), &r.Devices[1])
+		evalDevice(&r.Devices[0], pt, ctrl, RoleControl, &pt.Ctrl, &k, &oss, tr)
 		r.Devices[0].Flags |= k.flags
-		offSwitchChecks(&r.Devices[1], &r.Devices[0], pt, tr)
+		offSwitchChecks(&r.Devices[1], &r.Devices[0], pt, &oss, tr)
 	}
 	for i := 0; i < r.N; i++ {
 		d := &r.Devices[i]
@@ -195,7 +209,6 @@ func Evaluate(pt *Point, dev, partner *Device, tr *Trace) Result {
 		tr.add("", "total", "stage total = Σ switch + Σ driver",
 			T("switch", r.Losses.Switch()), T("driver", r.Losses.Driver()), T("total", r.Losses.Total()))
 	}
-	return r
 }
 
 // driveScreens applies the screens of the peak current and the gate drive:
@@ -231,8 +244,7 @@ type partnerCharge struct {
 	tj    q.Temperature // its junction temperature (transistor partner)
 	lloop q.Inductance  // its package share of the power loop
 	flags Flags
-	dev   *Device   // the partner transistor (nil: diode or ideal)
-	v     q.Voltage // the voltage qoss and eoss were taken at
+	dev   *Device // the partner transistor (nil: diode or ideal)
 }
 
 func diodePartner(d *Diode, v q.Voltage) partnerCharge {
@@ -244,10 +256,10 @@ func diodePartner(d *Diode, v q.Voltage) partnerCharge {
 }
 
 // devicePartner is the synchronous switch k seen from the control switch,
-// with its recovered charge at its solved junction temperature kr.Thermal.
-func devicePartner(k *Device, v q.Voltage, kr *DeviceResult) partnerCharge {
-	qk, ek := k.Oss.QE(v)
-	p := partnerCharge{qoss: qk, eoss: ek, lloop: k.Lloop, tj: kr.Thermal.Tj, dev: k, v: v}
+// with its output-capacitance law at the cell voltage, ok, and its
+// recovered charge at its solved junction temperature kr.Thermal.
+func devicePartner(k *Device, ok OssPoint, kr *DeviceResult) partnerCharge {
+	p := partnerCharge{qoss: ok.Q(), eoss: ok.E(), lloop: k.Lloop, tj: kr.Thermal.Tj, dev: k}
 	if !kr.Thermal.Found {
 		p.tj = k.TjMax
 	}
@@ -268,6 +280,26 @@ func devicePartner(k *Device, v q.Voltage, kr *DeviceResult) partnerCharge {
 		p.flags |= FlagQrrLessCoss
 	}
 	return p
+}
+
+// ossMemo keeps an evaluation's output-capacitance laws at the voltages
+// last asked for: one power evaluation per device and voltage serves the
+// turn-on energy, the partner's charge, the turn-off integral and the
+// overshoot checks.
+type ossMemo [2]struct {
+	d *Device
+	p OssPoint
+}
+
+func (m *ossMemo) at(d *Device, v q.Voltage) OssPoint {
+	for i := range m {
+		if m[i].d == d && m[i].p.V == v {
+			return m[i].p
+		}
+	}
+	m[1] = m[0]
+	m[0].d, m[0].p = d, d.Oss.At(v)
+	return m[0].p
 }
 
 // rth returns the junction-to-ambient thermal resistance for a device.
@@ -309,7 +341,8 @@ type devModel struct {
 	risePow                 powNear       // its a^(−1/N) across the thermal loop's calls
 	cossSmall               q.Capacitance // small-signal output capacitance at the switched voltage
 	qthPerV                 float64       // charge to the threshold per volt of threshold, C/V
-	linGate                 tempState     // gate figures of the linear gate (tr/tf method: temperature-independent)
+	oss                     OssPoint      // output capacitance at the switched voltage
+	linGate                 gateFigures   // the linear gate's (tr/tf method: temperature-independent)
 	split                   [2]GateSplit  // SplitGateEnergy's shares of 1 J at turn-on and at turn-off
 	rRev, rRev25            float64       // GaN reverse-conduction resistance at rds_on_tj and at 25 °C, Ω
 }
@@ -327,7 +360,7 @@ func (m *devModel) prepare() {
 	if d.HasMiller {
 		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
 		if m.hard {
-			m.rise = d.rise.At(st.V)
+			m.rise = d.rise.atPower(st.V, m.oss.pv)
 			if m.rise.n > 0 {
 				m.risePow = newPowNear(-1 / m.rise.n)
 			}
@@ -338,7 +371,7 @@ func (m *devModel) prepare() {
 		m.qgdGate = MillerChargeAt(d.Qgd, d.QgVds, m.vdsGate)
 	}
 	if m.cossSmall == 0 && st.V > 0 && m.lloop > 0 {
-		m.cossSmall = d.Oss.C(st.V)
+		m.cossSmall = m.oss.C()
 	}
 	if d.Vth > 0 {
 		m.qthPerV = float64(d.Qth) / float64(d.Vth)
@@ -356,6 +389,13 @@ func (m *devModel) prepare() {
 		m.rRev = float64(d.Gate.At(d.Part.RdsOnVgs))
 		m.rRev25 = m.rRev * d.Temp.Factor(25)
 	}
+}
+
+// gateFigures are the gate drive's charge and energies per cycle.
+type gateFigures struct {
+	qg            q.Charge
+	egate, stored q.Energy
+	split         GateSplit
 }
 
 // tempState is a device's temperature-dependent results at one Tj.
@@ -383,7 +423,6 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 	p := d.Part
 	vth := d.ThresholdAt(tj)
 	a.vth, a.vplOn, a.vplOff = vth, vth+m.odOn, vth+m.odOff
-	a.vpeak = st.V
 
 	// Gate drive over the curve at temperature (Qth follows the threshold:
 	// a constant Cgs).
@@ -430,11 +469,6 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 			hOff := max((vth+a.vplOff)/2-drv.VOff, 1e-3)
 			a.trans.Tir = CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, m.lcs, st.IOn)
 			a.trans.Tif = CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, m.lcs, st.IOff)
-			a.tir0, a.tif0 = a.trans.Tir, a.trans.Tif
-			if m.lcs > 0 {
-				a.tir0 = CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, 0, st.IOn)
-				a.tif0 = CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, 0, st.IOff)
-			}
 			a.trans.Tvf = chargeTime(m.qgdV, GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource))
 			a.trans.Tvr = chargeTime(m.qgdV, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink))
 			a.tRise, a.tFall = a.trans.Tir, a.trans.Tif
@@ -463,14 +497,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 				eMiller = MillerFallEnergy(d.Miller, v, st.IOn, GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource))
 			}
 			if d.Method == MethodGateCharge {
-				eir := CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop)
-				a.eon = eir + eMiller
-				if m.lcs > 0 {
-					a.elcsOn = eir - CurrentRiseEnergy(v, st.IOn, a.tir0, m.lloop)
-				}
-				if m.lloop > 0 {
-					a.eloop = eir - CurrentRiseEnergy(v, st.IOn, a.trans.Tir, 0)
-				}
+				a.eon = CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop) + eMiller
 			} else {
 				a.eon = eMiller
 			}
@@ -487,27 +514,11 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 				// the suite's tolerance, docs/spice-crosscheck.md).
 				a.eoff = evr + CurrentFallEnergy(v, iTop, a.tFall, 0) +
 					q.Energy(0.5*float64(m.lloop)*float64(st.IOff)*float64(st.IOff))
-				if m.lcs > 0 {
-					a.elcsOff = OverlapEnergy(v, iTop, a.trans.Tif-a.tif0, 0)
-				}
 			} else if d.Method == MethodGateCharge {
 				a.iTop = st.IOff
 				a.eoff += OverlapEnergy(v, st.IOff, a.trans.Tvr, 0)
-				if m.lcs > 0 {
-					a.elcsOff = OverlapEnergy(v, st.IOff, a.trans.Tif-a.tif0, 0)
-				}
-			}
-			if m.lloop > 0 {
-				iTop := st.IOff
-				if d.HasMiller {
-					iTop = a.iTop
-				}
-				a.eloop += q.Energy(0.5 * float64(m.lloop) * float64(st.IOff) * float64(st.IOff))
-				gm := 0.0
-				if a.vplOff > vth {
-					gm = 2 * float64(st.IOff) / float64(a.vplOff-vth) // square-law channel at the plateau
-				}
-				a.vpeak = LoopOvershootLcs(v, m.lloop, m.lcs, gm, m.rOff, d.Cgs+d.Crss, st.IOff, iTop, a.tFall, m.cossSmall)
+			} else {
+				a.iTop = st.IOff
 			}
 		}
 	}
@@ -518,6 +529,48 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 		a.edead = DeadTimeEnergy(a.vsd1, st.IDead1, m.s.DeadTime.V, a.vsd2, st.IDead2, m.s.DeadTime.V)
 	}
 	a.p = q.Power(float64(a.eon+a.eoff+a.edead+a.split.Rint) * m.f)
+}
+
+// finish adds to a, computed by at, what the thermal loop does not need:
+// the shares of the common-source and loop inductances and the drain peak.
+func (m *devModel) finish(a *tempState) {
+	d, st, drv := m.d, m.st, &m.s.Driver
+	a.vpeak = st.V
+	a.tir0, a.tif0 = a.trans.Tir, a.trans.Tif
+	a.elcsOn, a.elcsOff, a.eloop = 0, 0, 0
+	if !m.hard || !m.driveOK {
+		return
+	}
+	v := st.V
+	if m.lcs > 0 { // gate-charge method only
+		hOn := max(drv.VOn-(a.vth+a.vplOn)/2, 1e-3)
+		hOff := max((a.vth+a.vplOff)/2-drv.VOff, 1e-3)
+		a.tir0 = CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, 0, st.IOn)
+		a.tif0 = CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, 0, st.IOff)
+	}
+	if st.HardOn && d.Method == MethodGateCharge {
+		eir := CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop)
+		if m.lcs > 0 {
+			a.elcsOn = eir - CurrentRiseEnergy(v, st.IOn, a.tir0, m.lloop)
+		}
+		if m.lloop > 0 {
+			a.eloop = eir - CurrentRiseEnergy(v, st.IOn, a.trans.Tir, 0)
+		}
+	}
+	if !st.HardOff {
+		return
+	}
+	if m.lcs > 0 {
+		a.elcsOff = OverlapEnergy(v, a.iTop, a.trans.Tif-a.tif0, 0)
+	}
+	if m.lloop > 0 {
+		a.eloop += q.Energy(0.5 * float64(m.lloop) * float64(st.IOff) * float64(st.IOff))
+		gm := 0.0
+		if a.vplOff > a.vth {
+			gm = 2 * float64(st.IOff) / float64(a.vplOff-a.vth) // square-law channel at the plateau
+		}
+		a.vpeak = LoopOvershootLcs(v, m.lloop, m.lcs, gm, m.rOff, d.Cgs+d.Crss, st.IOff, a.iTop, a.tFall, m.cossSmall)
+	}
 }
 
 // chargeTime is the time gate current i takes to move charge qq (+Inf when
@@ -541,7 +594,7 @@ func (m *devModel) reverseDrops(tj q.Temperature) (q.Voltage, q.Voltage) {
 	return d.ganReverseDrop(st.IDead1, voff, tj, r, m.rRev25), d.ganReverseDrop(st.IDead2, voff, tj, r, m.rRev25)
 }
 
-func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchStress, k *partnerCharge, tr *Trace) {
+func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchStress, k *partnerCharge, oss *ossMemo, tr *Trace) {
 	p := d.Part
 	s := &pt.Stage
 	drv := &s.Driver
@@ -603,6 +656,7 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		}
 	}
 
+	m.oss = oss.at(d, st.V)
 	m.prepare()
 
 	// Output capacitance and recovery at the hard turn-on: independent of
@@ -614,10 +668,7 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		if k != nil {
 			kq, ke, out.Qrr = k.qoss, k.eoss, k.qrr
 		}
-		es := d.Oss.E(st.V)
-		if k != nil && k.dev == d && k.v == st.V {
-			es = k.eoss // the same device across the cell: already computed
-		}
+		es := m.oss.E()
 		out.Ecoss = HardTurnOnCossEnergy(es, st.V, kq, ke)
 		out.Erec = RecoveryEnergy(out.Qrr, st.V)
 		out.Losses.Coss = q.Power(float64(out.Ecoss) * f)
@@ -673,6 +724,7 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	if lastT != tj {
 		m.at(tj, &a)
 	}
+	m.finish(&a)
 	out.Vth, out.VplOn, out.VplOff = a.vth, a.vplOn, a.vplOff
 	out.Qg, out.Egate = a.qg, a.egate
 	out.Losses.GateDriver = q.Power(float64(a.split.Driver) * f)
@@ -805,7 +857,7 @@ func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *temp
 // control switch ct hard-switches the node: the dv/dt gate bounce at ct's
 // turn-on against sy's hot threshold, the negative bounce at ct's turn-off
 // against vgs_min, and the loop overshoot of the turn-on commutation.
-func offSwitchChecks(sy, ct *DeviceResult, pt *Point, tr *Trace) {
+func offSwitchChecks(sy, ct *DeviceResult, pt *Point, oss *ossMemo, tr *Trace) {
 	d := sy.Dev
 	s := &pt.Stage
 	drv := &s.Driver
@@ -834,7 +886,8 @@ func offSwitchChecks(sy, ct *DeviceResult, pt *Point, tr *Trace) {
 		if finite(tRise) {
 			sy.Lloop = l
 			ramp := LoopOvershoot(v, l, ct.Stress.IOn, ct.Stress.IOn, tRise, 0)
-			ring := LoopOvershoot(v, l, ct.Stress.IOn, 0, tRise, d.Oss.C(v))
+			coss := oss.at(d, v).C()
+			ring := LoopOvershoot(v, l, ct.Stress.IOn, 0, tRise, coss)
 			sy.Vpeak = min(ramp, ring)
 			sy.Flags |= FlagLoopL
 			if sy.Vpeak > q.Voltage(s.Derate)*d.Part.VdsMax {
@@ -842,7 +895,7 @@ func offSwitchChecks(sy, ct *DeviceResult, pt *Point, tr *Trace) {
 			}
 			if tr != nil {
 				tr.add(sy.Role.String(), "loop overshoot", "V peak = V + min(L·I_on/t_ir of the control switch's turn-on, I_on·√(L/C_oss(V))): the recovered current interrupted at the same rate, at most ringing whole into the output capacitance",
-					T("L loop", l), T("I on (control)", ct.Stress.IOn), T("t_ir (control)", tRise), T("C_oss(V)", d.Oss.C(v)), T("V peak", sy.Vpeak))
+					T("L loop", l), T("I on (control)", ct.Stress.IOn), T("t_ir (control)", tRise), T("C_oss(V)", coss), T("V peak", sy.Vpeak))
 			}
 		}
 	}

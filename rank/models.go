@@ -390,14 +390,43 @@ func (l OssLaw) E(v q.Voltage) q.Energy {
 	return q.Energy(l.K * powPos(float64(v), 2-l.N) / (2 - l.N))
 }
 
-// QE returns Q(v) and E(v) with one power evaluation
-// (E = Q·v·(1−N)/(2−N) for the power law).
-func (l OssLaw) QE(v q.Voltage) (q.Charge, q.Energy) {
-	if v <= 0 {
-		return 0, 0
+// OssPoint is an output-capacitance law at one voltage: C, Q and E all
+// follow from the one power v^(2−N) (the law's own formulas rewritten:
+// K·v^−N = K·v^(2−N)/v², K·v^(1−N) = K·v^(2−N)/v).
+type OssPoint struct {
+	L  OssLaw
+	V  q.Voltage
+	pv float64 // V^(2−N) (0 for V ≤ 0)
+}
+
+// At evaluates the law at v.
+func (l OssLaw) At(v q.Voltage) OssPoint {
+	p := OssPoint{L: l, V: v}
+	if v > 0 {
+		p.pv = powPos(float64(v), 2-l.N)
 	}
-	qq := l.K * powPos(float64(v), 1-l.N) / (1 - l.N)
-	return q.Charge(qq), q.Energy(qq * float64(v) * (1 - l.N) / (2 - l.N))
+	return p
+}
+
+// C is the small-signal capacitance (OssLaw.C).
+func (p OssPoint) C() q.Capacitance {
+	if p.V <= 0 {
+		return p.L.C(p.V)
+	}
+	return q.Capacitance(p.L.K * p.pv / (float64(p.V) * float64(p.V)))
+}
+
+// Q is the output charge (OssLaw.Q).
+func (p OssPoint) Q() q.Charge {
+	if p.V <= 0 {
+		return 0
+	}
+	return q.Charge(p.L.K * p.pv / float64(p.V) / (1 - p.L.N))
+}
+
+// E is the stored energy (OssLaw.E).
+func (p OssPoint) E() q.Energy {
+	return q.Energy(p.L.K * p.pv / (2 - p.L.N))
 }
 
 // C returns the small-signal capacitance at v.
@@ -889,12 +918,21 @@ const riseEps = 1e-4
 
 // At completes a RiseBase for switched voltage v (one power evaluation).
 func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
+	pv := 0.0
+	if v > 0 {
+		pv = powPos(float64(v), 2-b.n)
+	}
+	return b.atPower(v, pv)
+}
+
+// atPower is At with v^(2−N) given (OssPoint's, for the same law).
+func (b *RiseIntegral) atPower(v q.Voltage, pv float64) RiseIntegral {
 	r := *b
 	r.v, r.positive = float64(v), v > 0
 	if !r.positive {
 		return r
 	}
-	r.pv = powPos(r.v, 2-r.n)
+	r.pv = pv
 	r.cossTop = r.k * r.pv / (r.v * r.v) // K·v^−N
 	r.cgdTop = float64(r.m.Chi)
 	if v <= r.m.Vk {

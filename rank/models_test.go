@@ -276,3 +276,16 @@ func TestEvaluateAllocations(t *testing.T) {
 		t.Errorf("Evaluate allocates %v times per call", a)
 	}
 }
+
+// OssPoint gives the law's own C, Q and E from its one power (the power-law
+// integrals, Erickson & Maksimović 2001, ch. 4), at and below zero volts as
+// the law does.
+func TestOssPoint(t *testing.T) {
+	l := OssLaw{K: 2e-9, N: 0.62}
+	for _, v := range []q.Voltage{48, 3.3, 600, 0, -1} {
+		p := l.At(v)
+		near(t, "C", float64(p.C()), float64(l.C(v)), 1e-13)
+		near(t, "Q", float64(p.Q()), float64(l.Q(v)), 1e-13)
+		near(t, "E", float64(p.E()), float64(l.E(v)), 1e-13)
+	}
+}

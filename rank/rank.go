@@ -31,7 +31,7 @@ func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
 	}
 	parallelChunks(len(devs), w, chunk, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
-			out[i] = Evaluate(pt, &devs[i], partner, nil)
+			EvaluateInto(&out[i], pt, &devs[i], partner, nil)
 		}
 	})
 	return sortResults(out)
