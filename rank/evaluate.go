@@ -362,7 +362,7 @@ func (m *devModel) prepare() {
 		if m.hard {
 			m.rise = d.rise.atPower(st.V, m.oss.pv)
 			if m.rise.n > 0 {
-				m.risePow = newPowNear(-1 / m.rise.n)
+				m.risePow = newPowNear(-1/m.rise.n, riseXsTol)
 			}
 			m.cossSmall = q.Capacitance(m.rise.cossTop)
 		}
@@ -599,9 +599,12 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 	s := &pt.Stage
 	drv := &s.Driver
 	f := float64(s.Fsw)
-	*out = DeviceResult{Dev: d, Role: role, Method: d.Method, Flags: d.Flags, Stress: *st, RdsDyn: 1}
+	*out = DeviceResult{}
+	out.Dev, out.Role, out.Method, out.Flags, out.Stress, out.RdsDyn = d, role, d.Method, d.Flags, *st, 1
 	name := role.String()
-	m := devModel{d: d, s: s, st: st, f: f, hard: st.HardOn || st.HardOff, dead: role == RoleSync && s.DeadTime.OK}
+	var m devModel
+	m.d, m.s, m.st, m.f = d, s, st, f
+	m.hard, m.dead = st.HardOn || st.HardOff, role == RoleSync && s.DeadTime.OK
 
 	// Gate loop: driver, external and internal gate resistance.
 	m.rOn = drv.RSource + drv.RgExt + d.RgInt
@@ -716,7 +719,7 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		lastT = t
 		return a.p
 	}
-	tm := ThermalModel{Fixed: fixed, Cond: Conduction(st.IRms, rdyn), Law: d.Temp, Other: other}
+	tm := ThermalModel{Fixed: fixed, Cond: Conduction(st.IRms, rdyn), Law: &d.Temp, Other: other}
 	var tj q.Temperature
 	out.Thermal, tj = junction(&tm, s, rthv, d.TjMax)
 

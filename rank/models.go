@@ -15,28 +15,31 @@ import (
 // ulp times |y·ln x|).
 func powPos(x, y float64) float64 { return math.Exp(y * math.Log(x)) }
 
+// riseXsTol is the relative error allowed in the turn-off integral's
+// crossing (RiseIntegral.energy).
+const riseXsTol = 1e-12
+
 // powNear evaluates x^p for a fixed p and x > 0 that moves little between
 // calls (the thermal loop's iterates): near the last exactly computed point
 // x0 it sums the binomial series y0·(1 + u)^p, u = x/x0 − 1, to the u³
 // term, and it computes powPos again (and takes the new point as x0) when
 // |u| exceeds the radius at which the first neglected term,
-// |C(p, 4)|·u⁴, reaches 10⁻¹²: the series' relative error stays below
-// about 10⁻¹² (binomial theorem; the remainder is of the sign and order of
-// the first neglected term for |u| ≪ 1). The zero value computes every
-// call exactly until p is set by newPowNear.
+// |C(p, 4)|·u⁴, reaches tol (binomial theorem; the remainder is of the
+// sign and order of the first neglected term for |u| ≪ 1). The zero value
+// computes every call exactly.
 type powNear struct {
 	p, x0, y0 float64
 	c2, c3    float64 // C(p, 2), C(p, 3)
 	radius    float64 // largest |u| served by the series
 }
 
-func newPowNear(p float64) powNear {
+func newPowNear(p, tol float64) powNear {
 	c2 := p * (p - 1) / 2
 	c3 := c2 * (p - 2) / 3
 	c4 := math.Abs(c3 * (p - 3) / 4)
 	r := 0.0
 	if c4 > 0 {
-		r = math.Sqrt(math.Sqrt(1e-12 / c4))
+		r = math.Sqrt(math.Sqrt(tol / c4))
 	}
 	return powNear{p: p, c2: c2, c3: c3, radius: r}
 }
@@ -958,9 +961,10 @@ func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 }
 
 // energy is Energy with the power a^(−1/N) taken from pw when it is given
-// (the thermal loop's repeated calls; powNear, relative error below
-// 10⁻¹², which the energy feels only at second order: the integrand is
-// zero at the crossing xs).
+// (the thermal loop's repeated calls; powNear to riseXsTol). The crossing
+// xs = xc·a^(−1/N) enters the energy at first order (through
+// xs^(2−N) = xs²·a·c/K, exact only at the exact crossing), so the energy
+// keeps about the same relative error, 10⁻¹².
 func (r *RiseIntegral) energy(i, ig q.Current, pw *powNear) (q.Energy, q.Current) {
 	if ig <= 0 || i <= 0 || !r.positive {
 		return 0, max(i, 0)

@@ -143,14 +143,14 @@ func TestScaleSwitchingTime(t *testing.T) {
 // 8 A through 10 mΩ at 25 °C, 0.5 W of other loss: α 2.3 → Tj 117.72 °C,
 // P 1.693 W, loop gain 0.281; linear 0.7 %/K → Tj 111.01 °C, gain 0.179.
 func TestSolveJunction(t *testing.T) {
-	pow := ThermalModel{Fixed: 0.5, Cond: 64 * 0.010, Law: TempLaw{T0: 25, Alpha: 2.3}}
+	pow := ThermalModel{Fixed: 0.5, Cond: 64 * 0.010, Law: &TempLaw{T0: 25, Alpha: 2.3}}
 	s := SolveJunction(&pow, 50, 40, 175)
 	if s.Status != ThermalSolved {
 		t.Fatalf("status %v", s.Status)
 	}
 	near(t, "Tj power law", float64(s.Tj), 117.72, 1e-4)
 	near(t, "gain power law", s.Gain, 0.281, 5e-3)
-	lin := ThermalModel{Fixed: 0.5, Cond: 64 * 0.010, Law: TempLaw{T0: 25, NPts: 2, Pts: [8][2]float64{{25, 1}, {125, 1.7}}}}
+	lin := ThermalModel{Fixed: 0.5, Cond: 64 * 0.010, Law: &TempLaw{T0: 25, NPts: 2, Pts: [8][2]float64{{25, 1}, {125, 1.7}}}}
 	s = SolveJunction(&lin, 50, 40, 175)
 	near(t, "Tj linear", float64(s.Tj), 111.01, 1e-4)
 	near(t, "gain linear", s.Gain, 0.179, 5e-3)
@@ -163,7 +163,7 @@ func TestSolveJunction(t *testing.T) {
 		t.Errorf("150 K/W: got %+v, want runaway", s)
 	}
 	// A steady state above Tj,max is reported as such, with its value.
-	s = SolveJunction(&ThermalModel{Fixed: 2, Law: TempLaw{T0: 25, Alpha: 2}}, 25, 70, 150)
+	s = SolveJunction(&ThermalModel{Fixed: 2, Law: &TempLaw{T0: 25, Alpha: 2}}, 25, 70, 150)
 	if s.Status != ThermalAboveMax || !s.Found {
 		t.Errorf("2 W on 70 K/W: got %v, want above tj_max", s.Status)
 	}

@@ -161,7 +161,7 @@ func rfThermal(out *DeviceResult, d *Device, s *Stage, fixed q.Power) {
 	r0 := d.Gate.At(max(s.Driver.VOn, d.Vth+0.1))
 	rthv, fl := rth(p, s)
 	out.Rth, out.Flags = rthv, out.Flags|fl
-	m := ThermalModel{Fixed: fixed, Cond: Conduction(out.Stress.IRms, r0), Law: d.Temp}
+	m := ThermalModel{Fixed: fixed, Cond: Conduction(out.Stress.IRms, r0), Law: &d.Temp}
 	var tj q.Temperature
 	out.Thermal, tj = junction(&m, s, rthv, d.TjMax)
 	out.Rds = r0 * q.Resistance(d.Temp.Factor(tj))

@@ -254,7 +254,7 @@ func TestDynamicRdsFactor(t *testing.T) {
 func TestSolveJunctionWholeLoss(t *testing.T) {
 	m := ThermalModel{
 		Fixed: 0.5, Cond: 0.64,
-		Law:   TempLaw{T0: 25, NPts: 2, Pts: [8][2]float64{{25, 1}, {125, 1.7}}},
+		Law:   &TempLaw{T0: 25, NPts: 2, Pts: [8][2]float64{{25, 1}, {125, 1.7}}},
 		Other: func(t q.Temperature) q.Power { return 0.2 + 0.004*q.Power(t-25) },
 	}
 	s := SolveJunction(&m, 50, 40, 175)
@@ -276,7 +276,7 @@ func TestSolveJunctionWholeLoss(t *testing.T) {
 // must return the stable one (fixed-point theory: only a root with
 // |G′| < 1 attracts the iteration), found here independently by bisection.
 func TestSolveJunctionStableRoot(t *testing.T) {
-	m := ThermalModel{Fixed: 0.2, Cond: 0.3, Law: TempLaw{T0: 25, Alpha: 8}}
+	m := ThermalModel{Fixed: 0.2, Cond: 0.3, Law: &TempLaw{T0: 25, Alpha: 8}}
 	g := func(t float64) float64 { return t - 25 - 35*m.At(q.Temperature(t)) }
 	lo, hi := 50.0, 60.0
 	if g(lo) >= 0 || g(hi) <= 0 || g(100) <= 0 || g(120) >= 0 {

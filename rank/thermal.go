@@ -42,8 +42,9 @@ type ThermalModel struct {
 	Fixed q.Power // loss independent of temperature, W; ≥ 0
 	// Cond is the conduction loss at the reference temperature Tref, W; ≥ 0.
 	Cond q.Power
-	// Law gives R(T)/R(Tref).
-	Law TempLaw
+	// Law gives R(T)/R(Tref); required (a pointer: the device's own law is
+	// used in place, not copied).
+	Law *TempLaw
 	// Other, when non-nil, returns the remaining temperature-dependent loss
 	// at T, W; it must be ≥ 0 and finite for every T it is given. It must
 	// not retain its argument (Evaluate passes a closure over stack values,
@@ -384,7 +385,7 @@ func (sv *surrogate) runawayCheck(tjMax q.Temperature) (ThermalSolution, bool) {
 // rising slope with the residual still positive (no crossing). Other
 // exponents are not decided (false).
 func (sv *surrogate) clear(a, oa, b, k float64) bool {
-	law := &sv.m.Law
+	law := sv.m.Law
 	// h is the surrogate's residual and its slope at t.
 	h := func(t float64) (float64, float64) {
 		f, df, _ := law.FactorD(q.Temperature(t))

@@ -74,7 +74,7 @@ func TestSolveJunctionAgainstFirstCrossing(t *testing.T) {
 				for _, cond := range []float64{0.1, 0.64, 2} {
 					name := fmt.Sprintf("%s/%s/Rth %g/cond %g", law.name, o.name, rth, cond)
 					f := o.f
-					m := ThermalModel{Fixed: 0.1, Cond: q.Power(cond), Law: law.law,
+					m := ThermalModel{Fixed: 0.1, Cond: q.Power(cond), Law: &law.law,
 						Other: func(t q.Temperature) q.Power { return q.Power(f(float64(t))) }}
 					want, found := firstCrossing(&m, 40, rth, 175)
 					s := SolveJunction(&m, 40, q.ThermalResistance(rth), 175)
@@ -138,16 +138,35 @@ func TestSurrogateStepQuadratic(t *testing.T) {
 	}
 }
 
-// powNear agrees with x^p (math.Pow) to its stated 10⁻¹² relative error,
-// both where it sums the binomial series and where it computes anew,
-// along a path like the thermal loop's iterates.
+// powNear agrees with x^p (math.Pow) to its tolerance, both where it sums
+// the binomial series and where it computes anew, along a path like the
+// thermal loop's iterates; and the turn-off integral that uses it for its
+// crossing agrees with the exact one to 1e-11 relative (RiseIntegral.energy).
 func TestPowNear(t *testing.T) {
+	path := []float64{4, 3.6, 3.61, 3.6101, 3.61012, 5, 5.000001, 4.9999, 4.7, 4.75}
 	for _, p := range []float64{-1.25, -2.5, -3, -10} {
-		pw := newPowNear(p)
-		for _, x := range []float64{4, 3.6, 3.61, 3.6101, 3.61012, 5, 5.000001, 4.9999} {
-			got, want := pw.at(x), math.Pow(x, p)
-			if math.Abs(got/want-1) > 2e-12 {
-				t.Errorf("p %g, x %g: %.17g, want %.17g", p, x, got, want)
+		for _, tol := range []float64{1e-12, 1e-6} {
+			pw := newPowNear(p, tol)
+			for _, x := range path {
+				got, want := pw.at(x), math.Pow(x, p)
+				if math.Abs(got/want-1) > 2*tol+1e-14 {
+					t.Errorf("p %g, tol %g, x %g: %.17g, want %.17g", p, tol, x, got, want)
+				}
+			}
+		}
+	}
+	m := MillerLaw{Clo: 400e-12, Chi: 20e-12, Vk: 6}
+	for _, n := range []float64{0.4, 0.62, 0.8} {
+		oss := OssLaw{K: 1.2e-9, N: n}
+		base := RiseBase(m, oss)
+		r := base.At(48)
+		pw := newPowNear(-1/n, riseXsTol)
+		for _, x := range path {
+			ig := q.Current(x / 4)
+			e, _ := r.energy(8, ig, &pw)
+			want, _ := r.Energy(8, ig)
+			if d := math.Abs(float64(e)/float64(want) - 1); d > 1e-11 {
+				t.Errorf("energy, N %g, ig %g: relative error %.3g", n, ig, d)
 			}
 		}
 	}
