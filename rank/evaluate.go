@@ -361,9 +361,7 @@ func (m *devModel) prepare() {
 		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
 		if m.hard {
 			m.rise = d.rise.atPower(st.V, m.oss.pv)
-			if m.rise.n > 0 {
-				m.risePow = newPowNear(-1/m.rise.n, riseXsTol)
-			}
+			m.risePow = d.risePow
 			m.cossSmall = q.Capacitance(m.rise.cossTop)
 		}
 	} else {
@@ -461,6 +459,9 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 	// Hard edges.
 	if m.hard && m.driveOK {
 		v := st.V
+		// Gate currents at the plateaus (the voltage edges).
+		igOn := GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource)
+		igOff := GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink)
 		if d.Method == MethodGateCharge {
 			// Gate-charge intervals (GateChargeTransitions with the mean
 			// gate voltage; the current intervals through
@@ -469,8 +470,8 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 			hOff := max((vth+a.vplOff)/2-drv.VOff, 1e-3)
 			a.trans.Tir = CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, m.lcs, st.IOn)
 			a.trans.Tif = CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, m.lcs, st.IOff)
-			a.trans.Tvf = chargeTime(m.qgdV, GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource))
-			a.trans.Tvr = chargeTime(m.qgdV, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink))
+			a.trans.Tvf = chargeTime(m.qgdV, igOn)
+			a.trans.Tvr = chargeTime(m.qgdV, igOff)
 			a.tRise, a.tFall = a.trans.Tir, a.trans.Tif
 		} else {
 			ron, roff := m.rOn, m.rOff
@@ -494,7 +495,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 		if st.HardOn {
 			eMiller := OverlapEnergy(v, st.IOn, 0, a.trans.Tvf)
 			if d.HasMiller {
-				eMiller = MillerFallEnergy(d.Miller, v, st.IOn, GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource))
+				eMiller = MillerFallEnergy(d.Miller, v, st.IOn, igOn)
 			}
 			if d.Method == MethodGateCharge {
 				a.eon = CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop) + eMiller
@@ -507,7 +508,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 			if d.HasMiller {
 				// The load current charges Coss while the voltage rises:
 				// the channel keeps only the rest (MillerRiseEnergy).
-				evr, iTop := m.rise.energy(st.IOff, GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink), &m.risePow)
+				evr, iTop := m.rise.energy(st.IOff, igOff, &m.risePow)
 				a.iTop = iTop
 				// The loop's stored ½·L·I² is counted in the switch
 				// (docs/second-order.md; the ngspice cells agree within
