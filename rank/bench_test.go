@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"swrank/devices"
+	q "swrank/devices/quantity"
 	"swrank/devices/synth"
 )
 
@@ -54,6 +55,38 @@ func BenchmarkEvaluateOne(b *testing.B) {
 		}
 	}
 	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "evals/s")
+}
+
+// BenchmarkEvaluatePoints is BenchmarkEvaluateOne at other operating
+// points, for the record in docs/performance.md: two ordinary synchronous
+// bucks at which most of these parts reach a steady temperature, and a
+// single hard-switched switch (custom stage).
+func BenchmarkEvaluatePoints(b *testing.B) {
+	devs := benchDevices(b, 1000)
+	for _, c := range []struct {
+		name string
+		st   Stage
+	}{
+		{"buck-24V-5V-4A-300k", Stage{Topology: Buck, Vin: 24, Vout: 5, Iout: 4, Fsw: 300e3, Driver: Driver{VOn: 10}, RthCA: q.Some[q.ThermalResistance](10)}},
+		{"buck-12V-3.3V-3A-500k", Stage{Topology: Buck, Vin: 12, Vout: 3.3, Iout: 3, Fsw: 500e3, Driver: Driver{VOn: 10}}},
+		{"custom-48V-10A-250k", Stage{Topology: Custom, Vblock: 48, Ion: 10, Ioff: 10, Irms: 7, Fsw: 250e3, Driver: Driver{VOn: 10}}},
+	} {
+		pt, err := c.st.Resolve()
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(c.name, func(b *testing.B) {
+			var r Result
+			b.ReportAllocs()
+			for i := 0; i < b.N; i++ {
+				EvaluateInto(&r, &pt, &devs[i%len(devs)], nil, nil)
+				if r.N == 0 {
+					b.Fatal("no result")
+				}
+			}
+			b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "evals/s")
+		})
+	}
 }
 
 // BenchmarkRank10k ranks a generated library of 10,000 parts at one point
