@@ -314,7 +314,10 @@ func (sv *surrogate) step(t0, h0, df, d2f, k float64) (float64, rootStatus) {
 	a := 0.5 * sv.r * c * d2f
 	b := sv.r*(c*df+k) - 1
 	disc := b*b - 4*a*h0
-	den := -b + math.Sqrt(max(disc, 0))
+	den := -b + math.Abs(b) // a = 0 (a curve law's straight piece): √disc = |b|
+	if a != 0 {
+		den = -b + math.Sqrt(max(disc, 0))
+	}
 	if disc < 0 || !(den > 0) {
 		if h0 > 0 {
 			return t0, rootNone // above zero and not falling through it ahead
