@@ -2,7 +2,11 @@ package rank
 
 import (
 	"fmt"
+	"math/rand/v2"
+	"slices"
 	"testing"
+
+	"swrank/devices"
 
 	q "swrank/devices/quantity"
 )
@@ -94,6 +98,32 @@ func TestRankParallelIdentical(t *testing.T) {
 	for i := range one {
 		if one[i].Dev != two[i].Dev || one[i].Losses != two[i].Losses {
 			t.Fatalf("workers differ at %d: %s vs %s", i, one[i].Dev.Part.Name, two[i].Dev.Part.Name)
+		}
+	}
+}
+
+// sortResults (a permutation applied by its cycles) puts results in the
+// order the standard library's sort gives them under CompareRef.
+func TestSortResultsInPlace(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 11))
+	for _, n := range []int{0, 1, 2, 17, 500} {
+		devs := make([]Device, n)
+		rs := make([]Result, n)
+		for i := range rs {
+			devs[i].Part = &devices.Part{Name: fmt.Sprintf("p%03d", rng.IntN(50))}
+			rs[i] = Result{Dev: &devs[i], N: 1}
+			rs[i].Losses.Conduction = q.Power(rng.IntN(20))
+			if rng.IntN(4) == 0 {
+				rs[i].Screens = ScreenTjMax
+			}
+		}
+		want := slices.Clone(rs)
+		slices.SortStableFunc(want, func(a, b Result) int { return CompareRef(&a, &b) })
+		got := sortResults(rs)
+		for i := range got {
+			if CompareRef(&got[i], &want[i]) != 0 {
+				t.Fatalf("n %d: place %d holds %s %v, want %s %v", n, i, got[i].Dev.Part.Name, got[i].Losses.Total(), want[i].Dev.Part.Name, want[i].Losses.Total())
+			}
 		}
 	}
 }

@@ -37,19 +37,35 @@ func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
 	return sortResults(out)
 }
 
-// sortResults puts results in rank order, moving each result once (they
-// are large: sorting a permutation is cheaper than sorting them).
+// sortResults puts results in rank order in place and returns rs. The
+// results are large: it sorts a permutation and then follows its cycles,
+// moving each result once, with one result of scratch space.
 func sortResults(rs []Result) []Result {
 	idx := make([]int32, len(rs))
 	for i := range idx {
 		idx[i] = int32(i)
 	}
 	slices.SortFunc(idx, func(i, j int32) int { return CompareRef(&rs[i], &rs[j]) })
-	out := make([]Result, len(rs))
-	for i, k := range idx {
-		out[i] = rs[k]
+	// Place i takes rs[idx[i]]; a placed slot is marked −1.
+	var tmp Result
+	for i := range idx {
+		if idx[i] < 0 || int(idx[i]) == i {
+			continue
+		}
+		tmp = rs[i]
+		j := i
+		for {
+			k := int(idx[j])
+			idx[j] = -1
+			if k == i {
+				rs[j] = tmp
+				break
+			}
+			rs[j] = rs[k]
+			j = k
+		}
 	}
-	return out
+	return rs
 }
 
 // Compare orders results: passing before screened, then by total loss,
