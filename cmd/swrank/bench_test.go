@@ -179,10 +179,11 @@ func BenchmarkEvaluate(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
+	var r rank.Result
 	b.ReportAllocs()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
-		r := rank.Evaluate(&pt, &lib[i%len(lib)], nil, nil)
+		rank.EvaluateInto(&r, &pt, &lib[i%len(lib)], nil, nil)
 		if r.N == 0 {
 			b.Fatal("no result")
 		}
