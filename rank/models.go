@@ -21,38 +21,49 @@ const riseXsTol = 1e-12
 
 // powNear evaluates x^p for a fixed p and x > 0 that moves little between
 // calls (the thermal loop's iterates): near the last exactly computed point
-// x0 it sums the binomial series y0·(1 + u)^p, u = x/x0 − 1, to the u³
-// term, and it computes powPos again (and takes the new point as x0) when
-// |u| exceeds the radius at which the first neglected term,
-// |C(p, 4)|·u⁴, reaches tol (binomial theorem; the remainder is of the
-// sign and order of the first neglected term for |u| ≪ 1). The zero value
-// computes every call exactly.
+// x0 it sums the binomial series y0·(1 + u)^p, u = x/x0 − 1, to the
+// u^powNearOrder term (Horner: a multiply-add a term, cheaper than the
+// logarithm and exponential of powPos), and it computes powPos again (and
+// takes the new point as x0) when |u| exceeds the radius at which the first
+// neglected term, |C(p, order + 1)|·|u|^(order+1), reaches tol, or 0.2.
+// Binomial theorem: the ratio of successive terms, (|p| + k)·|u|/(k + 1),
+// falls with k towards |u| ≤ 0.2 (for |p| > 1, as here), so the remainder is
+// of the order of the first neglected term. The zero value computes every
+// call exactly.
 type powNear struct {
-	p, x0, y0 float64
-	c2, c3    float64 // C(p, 2), C(p, 3)
-	radius    float64 // largest |u| served by the series
+	x0inv, y0 float64
+	c         [powNearOrder]float64 // C(p, 1) … C(p, order)
+	p, radius float64               // radius: the largest |u| served by the series
 }
 
+const powNearOrder = 14
+
 func newPowNear(p, tol float64) powNear {
-	c2 := p * (p - 1) / 2
-	c3 := c2 * (p - 2) / 3
-	c4 := math.Abs(c3 * (p - 3) / 4)
-	r := 0.0
-	if c4 > 0 {
-		r = math.Sqrt(math.Sqrt(tol / c4))
+	m := powNear{p: p}
+	ck := 1.0
+	for k := range m.c {
+		ck *= (p - float64(k)) / float64(k+1)
+		m.c[k] = ck
 	}
-	return powNear{p: p, c2: c2, c3: c3, radius: r}
+	if cn := math.Abs(ck * (p - powNearOrder) / (powNearOrder + 1)); cn > 0 {
+		m.radius = min(math.Pow(tol/cn, 1.0/(powNearOrder+1)), 0.2)
+	}
+	return m
 }
 
 func (m *powNear) at(x float64) float64 {
-	if m.x0 != 0 {
-		if u := x/m.x0 - 1; math.Abs(u) <= m.radius {
-			return m.y0 * (1 + u*(m.p+u*(m.c2+u*m.c3)))
+	if m.x0inv != 0 {
+		if u := x*m.x0inv - 1; math.Abs(u) <= m.radius {
+			s := 0.0
+			for k := powNearOrder - 1; k >= 0; k-- {
+				s = u * (m.c[k] + s)
+			}
+			return m.y0 * (1 + s)
 		}
 	}
 	y := powPos(x, m.p)
 	if m.radius > 0 {
-		m.x0, m.y0 = x, y
+		m.x0inv, m.y0 = 1/x, y
 	}
 	return y
 }
