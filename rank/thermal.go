@@ -341,16 +341,23 @@ func (sv *surrogate) step(t0, h0, df, d2f, k float64) (float64, rootStatus) {
 // through all the samples (straight lines between them, the conduction law
 // exact) stays above zero from Ta to Tj,max + 500 K. That is the general
 // method's test (the residual at both temperatures) and a check of the
-// whole range between the samples besides. Anything else goes back to the
-// general method.
+// whole range between the samples besides. Because Other ≥ 0, the
+// residual is at least that of conduction and the fixed loss alone: when
+// that stays positive from Tj,max to Tj,max + 500 K, no crossing lies
+// there whatever Other does, and the evaluation at Tj,max + 500 K is
+// skipped. Anything else goes back to the general method.
 func (sv *surrogate) runawayCheck(tjMax q.Temperature) (ThermalSolution, bool) {
 	s := &sv.sol
 	m := sv.m
 	residual := func(t, o float64) float64 {
 		return sv.ta + sv.r*(float64(m.Fixed)+float64(m.Cond)*m.Law.Factor(q.Temperature(t))+o) - t
 	}
-	sv.exact(sv.lim)
-	sv.exact(float64(tjMax))
+	tm := float64(tjMax)
+	hot := residual(tm, 0) > 0 && residual(sv.lim, 0) > 0 && sv.clear(tm, 0, sv.lim, 0)
+	if !hot {
+		sv.exact(sv.lim)
+	}
+	sv.exact(tm)
 	pts := sv.samples[:sv.nSamples]
 	// Insertion sort by temperature (a dozen samples at most).
 	for i := 1; i < len(pts); i++ {
