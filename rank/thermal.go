@@ -217,8 +217,9 @@ func SolveJunction(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, t
 // round evaluates Other and the law once, at the surrogate's root, and
 // stops when the exact residual is below the tolerance: usually three
 // evaluations of Other where plain secant needs five or more. When the
-// surrogate has no crossing, runawayCheck decides with two more evaluations
-// (at Tj,max + 500 K and at Tj,max). It reports ok = false (and the caller
+// surrogate has no crossing, runawayCheck decides with at most two more
+// evaluations (at Tj,max + 500 K and at Tj,max); a loop that conduction and
+// the fixed loss alone run away from Ta on is decided with none. It reports ok = false (and the caller
 // falls back to the general method) for an unstable root, for a crossing
 // the surrogate cannot place and for a conduction law whose curvature it
 // cannot bound.
@@ -235,6 +236,15 @@ func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, 
 	residual := func(t, o float64) (h, df, d2f float64) {
 		f, df, d2f := m.Law.FactorD(q.Temperature(t))
 		return sv.ta + sv.r*(float64(m.Fixed)+C*f+o) - t, df, d2f
+	}
+	// Other ≥ 0: when conduction and the fixed loss alone keep the residual
+	// positive from Ta to Tj,max + 500 K, nothing brings it down to zero,
+	// and the loop runs away without an evaluation of Other.
+	if hl, _, _ := residual(sv.lim, 0); hl > 0 {
+		if h, _, _ := residual(sv.ta, 0); h > 0 && sv.clear(sv.ta, 0, sv.lim, 0) {
+			s.Status = ThermalRunaway
+			return *s, true
+		}
 	}
 	t0 := sv.ta
 	o0 := sv.exact(t0)

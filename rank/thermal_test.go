@@ -171,3 +171,22 @@ func TestPowNear(t *testing.T) {
 		}
 	}
 }
+
+// When conduction and the fixed loss alone run away, the rest of the loss
+// (never negative) cannot stop it: the solver says runaway without
+// evaluating it. P = 0.5 W + 0.3 W·(T/298.15 K)⁸ on 150 K/W from 25 °C:
+// Ta + Rth·P(T) − T is at least 120 K from Ta up (by hand, x = T/298.15 K:
+// its slope 150·0.3·8·x⁷/298.15 K − 1 = 1.207·x⁷ − 1 is zero at x ≈ 0.973,
+// 17 °C, below Ta, so from Ta it only rises from 25 + 150·0.8 − 25 = 120 K).
+func TestSolveJunctionConductionRunaway(t *testing.T) {
+	calls := 0
+	m := ThermalModel{Fixed: 0.5, Cond: 0.3, Law: &TempLaw{T0: 25, Alpha: 8},
+		Other: func(q.Temperature) q.Power { calls++; return 0.1 }}
+	s := SolveJunction(&m, 25, 150, 175)
+	if s.Status != ThermalRunaway || s.Found {
+		t.Fatalf("got %+v, want runaway", s)
+	}
+	if calls != 0 {
+		t.Errorf("the rest of the loss was evaluated %d times, want 0", calls)
+	}
+}
