@@ -112,7 +112,7 @@ type Device struct {
 	Miller    MillerLaw
 	HasMiller bool
 	rise      RiseIntegral // RiseBase of Miller and Oss
-	risePow   powNear      // the turn-off integral's a^(−1/N) (newPowNear, riseXsTol)
+	risePow   powSeries    // the turn-off integral's a^(−1/N) (newPowSeries, riseXsTol)
 	CrssV     q.Voltage    // voltage of Crss, V
 	CgsEst    bool         // Cgs estimated from the gate charge to the plateau
 
@@ -253,7 +253,7 @@ func Prepare(p *devices.Part) (Device, error) {
 		d.Miller, d.HasMiller = FitMillerLaw(d.Qgd, d.QgVds, d.Crss, d.VplSpec), true
 		d.rise = RiseBase(d.Miller, d.Oss)
 		if d.Oss.N > 0 {
-			d.risePow = newPowNear(-1/d.Oss.N, riseXsTol)
+			d.risePow = newPowSeries(-1/d.Oss.N, riseXsTol)
 		}
 	} else if d.Method == MethodGateCharge {
 		d.Flags |= FlagMillerLumped

@@ -361,7 +361,7 @@ func (m *devModel) prepare() {
 		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
 		if m.hard {
 			m.rise = d.rise.atPower(st.V, m.oss.pv)
-			m.risePow = d.risePow
+			m.risePow = powNear{s: &d.risePow}
 			m.cossSmall = q.Capacitance(m.rise.cossTop)
 		}
 	} else {

@@ -28,18 +28,23 @@ const riseXsTol = 1e-12
 // neglected term, |C(p, order + 1)|·|u|^(order+1), reaches tol, or 0.2.
 // Binomial theorem: the ratio of successive terms, (|p| + k)·|u|/(k + 1),
 // falls with k towards |u| ≤ 0.2 (for |p| > 1, as here), so the remainder is
-// of the order of the first neglected term. The zero value computes every
-// call exactly.
+// of the order of the first neglected term. s must be set (newPowSeries);
+// the first call computes exactly.
 type powNear struct {
-	x0inv, y0 float64
+	s         *powSeries
+	x0inv, y0 float64 // 1/x0 and x0^p (x0inv = 0: no point yet)
+}
+
+// powSeries is powNear's fixed part, prepared once for p.
+type powSeries struct {
 	c         [powNearOrder]float64 // C(p, 1) … C(p, order)
 	p, radius float64               // radius: the largest |u| served by the series
 }
 
 const powNearOrder = 14
 
-func newPowNear(p, tol float64) powNear {
-	m := powNear{p: p}
+func newPowSeries(p, tol float64) powSeries {
+	m := powSeries{p: p}
 	ck := 1.0
 	for k := range m.c {
 		ck *= (p - float64(k)) / float64(k+1)
@@ -52,17 +57,18 @@ func newPowNear(p, tol float64) powNear {
 }
 
 func (m *powNear) at(x float64) float64 {
+	ps := m.s
 	if m.x0inv != 0 {
-		if u := x*m.x0inv - 1; math.Abs(u) <= m.radius {
+		if u := x*m.x0inv - 1; math.Abs(u) <= ps.radius {
 			s := 0.0
 			for k := powNearOrder - 1; k >= 0; k-- {
-				s = u * (m.c[k] + s)
+				s = u * (ps.c[k] + s)
 			}
 			return m.y0 * (1 + s)
 		}
 	}
-	y := powPos(x, m.p)
-	if m.radius > 0 {
+	y := powPos(x, ps.p)
+	if ps.radius > 0 {
 		m.x0inv, m.y0 = 1/x, y
 	}
 	return y
@@ -995,7 +1001,7 @@ func (r *RiseIntegral) energy(i, ig q.Current, pw *powNear) (q.Energy, q.Current
 			if s != s { // one power evaluation serves both segments
 				if r.n == 0.5 {
 					s = 1 / (a * a) // the √ law: a^−2
-				} else if pw != nil {
+				} else if pw != nil && pw.s != nil {
 					s = pw.at(a)
 				} else {
 					s = powPos(a, -1/r.n)

@@ -146,7 +146,8 @@ func TestPowNear(t *testing.T) {
 	path := []float64{4, 3.6, 3.61, 3.6101, 3.61012, 5, 5.000001, 4.9999, 4.7, 4.75}
 	for _, p := range []float64{-1.25, -2.5, -3, -10} {
 		for _, tol := range []float64{1e-12, 1e-6} {
-			pw := newPowNear(p, tol)
+			ps := newPowSeries(p, tol)
+			pw := powNear{s: &ps}
 			for _, x := range path {
 				got, want := pw.at(x), math.Pow(x, p)
 				if math.Abs(got/want-1) > 2*tol+1e-14 {
@@ -160,7 +161,8 @@ func TestPowNear(t *testing.T) {
 		oss := OssLaw{K: 1.2e-9, N: n}
 		base := RiseBase(m, oss)
 		r := base.At(48)
-		pw := newPowNear(-1/n, riseXsTol)
+		ps := newPowSeries(-1/n, riseXsTol)
+		pw := powNear{s: &ps}
 		for _, x := range path {
 			ig := q.Current(x / 4)
 			e, _ := r.energy(8, ig, &pw)
