@@ -218,11 +218,11 @@ func SolveJunction(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, t
 // stops when the exact residual is below the tolerance: usually three
 // evaluations of Other where plain secant needs five or more. When the
 // surrogate has no crossing, runawayCheck decides with at most two more
-// evaluations (at Tj,max + 500 K and at Tj,max); a loop that conduction and
-// the fixed loss alone run away from Ta on is decided with none. It reports ok = false (and the caller
-// falls back to the general method) for an unstable root, for a crossing
-// the surrogate cannot place and for a conduction law whose curvature it
-// cannot bound.
+// evaluations (at Tj,max + 500 K and at Tj,max); a loop that conduction
+// and the fixed loss alone run away from Ta on is decided with none. It
+// reports ok = false (and the caller falls back to the general method) for
+// an unstable root, for a crossing the surrogate cannot place and for a
+// conduction law whose curvature it cannot bound.
 //
 // Source: a secant (regula-falsi-like) model of the slowly varying part
 // and a Taylor model of the conduction law, Burden & Faires, Numerical
