@@ -175,7 +175,7 @@ func Prepare(p *devices.Part) (Device, error) {
 			d.Temp.Pts[i] = [2]float64{float64(c.Tj), float64(c.Factor)}
 			d.Temp.NPts = i + 1
 		}
-		d.Temp.c0 = d.Temp.curve(float64(d.Temp.T0))
+		d.Temp.prepare()
 	case p.RdsHot.OK && p.RdsHotTj.OK && p.RdsHotTj.V != d.Temp.T0:
 		d.Temp.Alpha = FitTempExponent(p.RdsOn, d.Temp.T0, p.RdsHot.V, p.RdsHotTj.V)
 	default:

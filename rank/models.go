@@ -539,7 +539,34 @@ type TempLaw struct {
 	// increasing in temperature; the first NPts are used.
 	Pts  [8][2]float64
 	NPts int
-	c0   float64 // the curve at T0 (set by Prepare; 0: work it out)
+	c0   float64 // the curve at T0 (set by prepare; 0: work it out)
+	// piece[i] is the curve between Pts[i-1] and Pts[i] over its value at
+	// T0: the value at Pts[i-1] and the slope, 1/K (set by prepare, with
+	// c0; the thermal loop reads it without dividing).
+	piece [8][2]float64
+}
+
+// prepare fixes c0 and the normalised pieces of a curve law.
+func (l *TempLaw) prepare() {
+	if l.NPts < 2 {
+		return
+	}
+	l.c0 = l.curve(float64(l.T0))
+	for i := 1; i < l.NPts; i++ {
+		a, b := l.Pts[i-1], l.Pts[i]
+		l.piece[i] = [2]float64{a[1] / l.c0, (b[1] - a[1]) / (b[0] - a[0]) / l.c0}
+	}
+}
+
+// at is the normalised curve and its slope at t (a prepared curve law).
+func (l *TempLaw) at(t float64) (float64, float64) {
+	p := l.Pts[:l.NPts]
+	i := 1
+	for i < len(p)-1 && t > p[i][0] {
+		i++
+	}
+	c := &l.piece[i]
+	return c[0] + c[1]*(t-p[i-1][0]), c[1]
 }
 
 // Factor returns R(T)/R(T0).
@@ -547,11 +574,11 @@ func (l *TempLaw) Factor(t q.Temperature) float64 {
 	if l.NPts < 2 {
 		return TempFactor(t, l.T0, l.Alpha)
 	}
-	c0 := l.c0
-	if c0 == 0 {
-		c0 = l.curve(float64(l.T0))
+	if l.c0 != 0 {
+		f, _ := l.at(float64(t))
+		return f
 	}
-	return l.curve(float64(t)) / c0
+	return l.curve(float64(t)) / l.curve(float64(l.T0))
 }
 
 // FactorD returns R(T)/R(T0) and its first and second derivatives with
@@ -562,10 +589,11 @@ func (l *TempLaw) FactorD(t q.Temperature) (f, df, d2f float64) {
 		tk := kelvin(t)
 		return f, l.Alpha * f / tk, l.Alpha * (l.Alpha - 1) * f / (tk * tk)
 	}
-	c0 := l.c0
-	if c0 == 0 {
-		c0 = l.curve(float64(l.T0))
+	if l.c0 != 0 {
+		f, df := l.at(float64(t))
+		return f, df, 0
 	}
+	c0 := l.curve(float64(l.T0))
 	p := l.Pts[:l.NPts]
 	x := float64(t)
 	i := 1
