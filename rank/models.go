@@ -935,6 +935,8 @@ type RiseIntegral struct {
 	zero, full [2]float64
 	cossTop    float64 // Coss(v), F
 	cgdTop     float64 // Cgd at v, F
+	cossPerCgd float64 // cossTop/cgdTop
+	kInv, kN   float64 // 1/K and K/(2 − N), for the segments without dividing
 	positive   bool    // v > 0
 }
 
@@ -949,6 +951,10 @@ func NewRiseIntegral(m MillerLaw, oss OssLaw, v q.Voltage) RiseIntegral {
 // (worked out once per part); At completes it for a voltage.
 func RiseBase(m MillerLaw, oss OssLaw) RiseIntegral {
 	r := RiseIntegral{m: m, k: oss.K, n: oss.N, vk: float64(m.Vk)}
+	if r.k > 0 {
+		r.kInv = 1 / r.k
+	}
+	r.kN = r.k / (2 - r.n)
 	if m.Vk > 0 {
 		r.pvk = math.Pow(r.vk, 2-r.n)
 	}
@@ -987,6 +993,7 @@ func (b *RiseIntegral) atPower(v q.Voltage, pv float64) RiseIntegral {
 		r.vk, r.pvk = r.v, r.pv
 		r.cgdTop = float64(r.m.Clo)
 	}
+	r.cossPerCgd = r.cossTop / r.cgdTop
 	if r.n > 0 && r.vk > 0 {
 		// x ≥ xs = (K/(a·c))^(1/N) ⇔ a ≥ K/(c·x^N); x^N = x²/x^(2−N).
 		vkN, vN := r.vk*r.vk/r.pvk, r.v*r.v/r.pv
@@ -1040,7 +1047,7 @@ func (r *RiseIntegral) energy(i, ig q.Current, pw *powNear) (q.Energy, q.Current
 	}
 	e := r.seg(a*float64(r.m.Clo), xs[0], 0, r.vk, 0, r.pvk) +
 		r.seg(a*float64(r.m.Chi), xs[1], r.vk, r.v, r.pvk, r.pv)
-	iTop := float64(i) - float64(ig)*r.cossTop/r.cgdTop
+	iTop := float64(i) - float64(ig)*r.cossPerCgd
 	return q.Energy(e), q.Current(math.Max(iTop, 0))
 }
 
@@ -1061,7 +1068,7 @@ func (r *RiseIntegral) seg(ac, xs, lo, hi, plo, phi float64) float64 {
 			return 0
 		}
 		// xs^(2−N) = xs²/xs^N = xs²·ac/K.
-		lo, plo = xs, xs*xs*ac/r.k
+		lo, plo = xs, xs*xs*ac*r.kInv
 	}
-	return ac*(hi*hi-lo*lo)/2 - r.k*(phi-plo)/(2-r.n)
+	return ac*(hi*hi-lo*lo)/2 - r.kN*(phi-plo)
 }
