@@ -23,7 +23,8 @@ const riseXsTol = 1e-12
 // calls (the thermal loop's iterates): near the last exactly computed point
 // x0 it sums the binomial series y0·(1 + u)^p, u = x/x0 − 1, to the
 // u^powNearOrder term (Horner: a multiply-add a term, cheaper than the
-// logarithm and exponential of powPos), and it computes powPos again (and
+// logarithm and exponential of powPos; only to the u⁴ term where the u⁵
+// term is below tol), and it computes powPos again (and
 // takes the new point as x0) when |u| exceeds the radius at which the first
 // neglected term, |C(p, order + 1)|·|u|^(order+1), reaches tol, or 0.2.
 // Binomial theorem: the ratio of successive terms, (|p| + k)·|u|/(k + 1),
@@ -39,6 +40,7 @@ type powNear struct {
 type powSeries struct {
 	c         [powNearOrder]float64 // C(p, 1) … C(p, order)
 	p, radius float64               // radius: the largest |u| served by the series
+	short     float64               // the largest |u| served by its first four terms
 }
 
 const powNearOrder = 14
@@ -53,13 +55,19 @@ func newPowSeries(p, tol float64) powSeries {
 	if cn := math.Abs(ck * (p - powNearOrder) / (powNearOrder + 1)); cn > 0 {
 		m.radius = min(math.Pow(tol/cn, 1.0/(powNearOrder+1)), 0.2)
 	}
+	if c5 := math.Abs(m.c[4]); c5 > 0 {
+		m.short = min(math.Pow(tol/c5, 1.0/5), m.radius)
+	}
 	return m
 }
 
 func (m *powNear) at(x float64) float64 {
 	ps := m.s
 	if m.x0inv != 0 {
-		if u := x*m.x0inv - 1; math.Abs(u) <= ps.radius {
+		if u := x*m.x0inv - 1; math.Abs(u) <= ps.short {
+			c := &ps.c
+			return m.y0 * (1 + u*(c[0]+u*(c[1]+u*(c[2]+u*c[3]))))
+		} else if math.Abs(u) <= ps.radius {
 			s := 0.0
 			for k := powNearOrder - 1; k >= 0; k-- {
 				s = u * (ps.c[k] + s)
