@@ -224,32 +224,26 @@ func (c GateCurve) StoredEnergy(vOff, vOn q.Voltage) q.Energy {
 
 // storedEnergy is StoredEnergy with the charges at the two ends given.
 func (c GateCurve) storedEnergy(vOff, vOn q.Voltage, qOff, qOn q.Charge) q.Energy {
-	// Breakpoints of the curve in voltage; the plateau is a jump in charge at Vpl.
-	type pt struct {
-		v q.Voltage
-		q q.Charge
+	// Breakpoints of the curve in voltage, in order; the plateau is a jump
+	// in charge at Vpl. Each piece adds its charge times its mean voltage
+	// above vOff.
+	var e float64
+	pv, pq := vOff, qOff
+	to := func(v q.Voltage, qq q.Charge) {
+		e += float64(qq-pq) * (float64(v+pv)/2 - float64(vOff))
+		pv, pq = v, qq
 	}
-	var pts [6]pt
-	n := 0
-	add := func(v q.Voltage, qq q.Charge) { pts[n] = pt{v, qq}; n++ }
-	add(vOff, qOff)
 	if vOff < 0 && vOn > 0 {
-		add(0, 0)
+		to(0, 0)
 	}
 	if vOff < c.Vth && vOn > c.Vth {
-		add(c.Vth, c.Qth)
+		to(c.Vth, c.Qth)
 	}
 	if vOff < c.Vpl && vOn > c.Vpl {
-		add(c.Vpl, c.Qth+c.Qgs2)
-		add(c.Vpl, c.Qth+c.Qgs2+c.Qgd)
+		to(c.Vpl, c.Qth+c.Qgs2)
+		to(c.Vpl, c.Qth+c.Qgs2+c.Qgd)
 	}
-	add(vOn, qOn)
-	var e float64
-	for i := 1; i < n; i++ {
-		dq := float64(pts[i].q - pts[i-1].q)
-		vm := float64(pts[i].v+pts[i-1].v)/2 - float64(vOff)
-		e += dq * vm
-	}
+	to(vOn, qOn)
 	return q.Energy(e)
 }
 
