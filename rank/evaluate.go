@@ -721,8 +721,7 @@ func evalDevice(out *DeviceResult, pt *Point, d *Device, role Role, st *SwitchSt
 		return a.p
 	}
 	tm := ThermalModel{Fixed: fixed, Cond: Conduction(st.IRms, rdyn), Law: &d.Temp, Other: other}
-	var tj q.Temperature
-	out.Thermal, tj = junction(&tm, s, rthv, d.TjMax)
+	tj := junction(&out.Thermal, &tm, s, rthv, d.TjMax)
 
 	// Everything at the solved temperature.
 	if lastT != tj {

@@ -162,8 +162,7 @@ func rfThermal(out *DeviceResult, d *Device, s *Stage, fixed q.Power) {
 	rthv, fl := rth(p, s)
 	out.Rth, out.Flags = rthv, out.Flags|fl
 	m := ThermalModel{Fixed: fixed, Cond: Conduction(out.Stress.IRms, r0), Law: &d.Temp}
-	var tj q.Temperature
-	out.Thermal, tj = junction(&m, s, rthv, d.TjMax)
+	tj := junction(&out.Thermal, &m, s, rthv, d.TjMax)
 	out.Rds = r0 * q.Resistance(d.Temp.Factor(tj))
 	out.Losses.Conduction = Conduction(out.Stress.IRms, out.Rds)
 	switch {

@@ -95,11 +95,23 @@ const (
 // (a contraction when |g| < 1); the secant method and Aitken's Δ² as in
 // Burden & Faires, Numerical Analysis, ch. 2.
 func SolveJunction(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) ThermalSolution {
-	if m.Other != nil {
-		if s, ok := solveSurrogate(m, ta, rth, tjMax); ok {
-			return s
-		}
+	var s ThermalSolution
+	solveJunctionInto(&s, m, ta, rth, tjMax)
+	return s
+}
+
+// solveJunctionInto is SolveJunction writing into s (the evaluation's own
+// result, without copying it out).
+func solveJunctionInto(s *ThermalSolution, m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) {
+	if m.Other != nil && solveSurrogate(s, m, ta, rth, tjMax) {
+		return
 	}
+	*s = solveGeneral(m, ta, rth, tjMax)
+}
+
+// solveGeneral is SolveJunction's general method: secant, fixed point and
+// bisection.
+func solveGeneral(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) ThermalSolution {
 	p := func(t q.Temperature) float64 { return m.At(t) }
 	g := func(t q.Temperature) float64 { return float64(t) - float64(ta) - float64(rth)*p(t) }
 	gain := func(t q.Temperature) float64 {
@@ -228,9 +240,9 @@ func SolveJunction(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, t
 // and a Taylor model of the conduction law, Burden & Faires, Numerical
 // Analysis, ch. 2; both models' errors vanish as the rounds close in, and
 // only the exact residual ends the iteration.
-func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) (ThermalSolution, bool) {
-	sv := surrogate{m: m, ta: float64(ta), r: float64(rth), lim: float64(tjMax) + 500}
-	s := &sv.sol
+func solveSurrogate(s *ThermalSolution, m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) bool {
+	*s = ThermalSolution{}
+	sv := surrogate{m: m, ta: float64(ta), r: float64(rth), lim: float64(tjMax) + 500, sol: s}
 	C := float64(m.Cond)
 	// residual is the exact Ta + Rth·P(T) − T with the law's derivatives.
 	residual := func(t, o float64) (h, df, d2f float64) {
@@ -243,7 +255,7 @@ func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, 
 	if hl, _, _ := residual(sv.lim, 0); hl > 0 {
 		if h, _, _ := residual(sv.ta, 0); h > 0 && sv.clear(sv.ta, 0, sv.lim, 0) {
 			s.Status = ThermalRunaway
-			return *s, true
+			return true
 		}
 	}
 	t0 := sv.ta
@@ -256,7 +268,7 @@ func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, 
 		case rootNone:
 			return sv.runawayCheck(tjMax)
 		case rootFailed:
-			return *s, false
+			return false
 		}
 		o1 := sv.exact(t1)
 		var h1 float64
@@ -267,17 +279,17 @@ func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, 
 		if math.Abs(h1) < thermalTol {
 			gain := sv.r * (C*df + k)
 			if !(gain < 1) {
-				return *s, false // an unstable root: the general method decides
+				return false // an unstable root: the general method decides
 			}
 			s.Tj, s.Gain, s.Found = q.Temperature(t1), gain, true
 			if s.Tj > tjMax {
 				s.Status = ThermalAboveMax
 			}
-			return *s, true
+			return true
 		}
 		t0, o0, h0 = t1, o1, h1
 	}
-	return *s, false
+	return false
 }
 
 // surrogate is the state of solveSurrogate: the model, the exact samples
@@ -286,14 +298,14 @@ func solveSurrogate(m *ThermalModel, ta q.Temperature, rth q.ThermalResistance, 
 type surrogate struct {
 	m          *ThermalModel
 	ta, r, lim float64
-	sol        ThermalSolution
+	sol        *ThermalSolution
 	samples    [12][2]float64 // (T, Other(T)) in the order taken
 	nSamples   int
 }
 
 // exact evaluates Other at t and keeps the sample.
 func (sv *surrogate) exact(t float64) float64 {
-	s := &sv.sol
+	s := sv.sol
 	if s.Iterations < len(s.History) {
 		s.History[s.Iterations] = q.Temperature(t)
 	}
@@ -356,8 +368,8 @@ func (sv *surrogate) step(t0, h0, df, d2f, k float64) (float64, rootStatus) {
 // that stays positive from Tj,max to Tj,max + 500 K, no crossing lies
 // there whatever Other does, and the evaluation at Tj,max + 500 K is
 // skipped. Anything else goes back to the general method.
-func (sv *surrogate) runawayCheck(tjMax q.Temperature) (ThermalSolution, bool) {
-	s := &sv.sol
+func (sv *surrogate) runawayCheck(tjMax q.Temperature) bool {
+	s := sv.sol
 	m := sv.m
 	residual := func(t, o float64) float64 {
 		return sv.ta + sv.r*(float64(m.Fixed)+float64(m.Cond)*m.Law.Factor(q.Temperature(t))+o) - t
@@ -376,11 +388,11 @@ func (sv *surrogate) runawayCheck(tjMax q.Temperature) (ThermalSolution, bool) {
 		}
 	}
 	if pts[0][0] != sv.ta {
-		return *s, false
+		return false
 	}
 	for _, p := range pts {
 		if p[0] <= sv.lim && !(residual(p[0], p[1]) > 0) {
-			return *s, false // a crossing before this sample
+			return false // a crossing before this sample
 		}
 	}
 	for i := 1; i < len(pts) && pts[i-1][0] < sv.lim; i++ {
@@ -389,11 +401,11 @@ func (sv *surrogate) runawayCheck(tjMax q.Temperature) (ThermalSolution, bool) {
 			continue
 		}
 		if !sv.clear(a[0], a[1], min(b[0], sv.lim), (b[1]-a[1])/(b[0]-a[0])) {
-			return *s, false
+			return false
 		}
 	}
 	s.Status, s.Tj, s.Found = ThermalRunaway, 0, false
-	return *s, true
+	return true
 }
 
 // clear reports whether the surrogate through (a, oa) with slope k stays
@@ -442,22 +454,21 @@ func (sv *surrogate) clear(a, oa, b, k float64) bool {
 	return false
 }
 
-// junction solves the thermal loop of one device at stage s: pinned by
-// the user, at ambient without a thermal path, else by SolveJunction. It
-// returns the solution and the temperature to evaluate the losses at
+// junction solves the thermal loop of one device at stage s into sol:
+// pinned by the user, at ambient without a thermal path, else by
+// SolveJunction. It returns the temperature to evaluate the losses at
 // (Tj,max when no steady state exists).
-func junction(m *ThermalModel, s *Stage, rth q.ThermalResistance, tjMax q.Temperature) (ThermalSolution, q.Temperature) {
-	var sol ThermalSolution
+func junction(sol *ThermalSolution, m *ThermalModel, s *Stage, rth q.ThermalResistance, tjMax q.Temperature) q.Temperature {
 	switch {
 	case s.TjFixed.OK:
-		sol = ThermalSolution{Tj: s.TjFixed.V, Status: ThermalFixed, Found: true}
+		*sol = ThermalSolution{Tj: s.TjFixed.V, Status: ThermalFixed, Found: true}
 	case rth == 0:
-		sol = ThermalSolution{Tj: s.Ambient, Status: ThermalSolved, Found: true}
+		*sol = ThermalSolution{Tj: s.Ambient, Status: ThermalSolved, Found: true}
 	default:
-		sol = SolveJunction(m, s.Ambient, rth, tjMax)
+		solveJunctionInto(sol, m, s.Ambient, rth, tjMax)
 	}
 	if !sol.Found {
-		return sol, tjMax
+		return tjMax
 	}
-	return sol, sol.Tj
+	return sol.Tj
 }
