@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"slices"
 	"strconv"
 	"strings"
@@ -354,15 +353,8 @@ func EvaluateProfile(pr *Profile, dev, partner *Device) WeightedResult {
 // The order does not depend on opt.Workers.
 func RankProfile(pr *Profile, devs []Device, partner *Device, opt Options) []WeightedResult {
 	out := make([]WeightedResult, len(devs))
-	w := opt.Workers
-	if w <= 0 {
-		w = runtime.GOMAXPROCS(0)
-	}
 	const chunk = 256
-	if len(devs) < 2*chunk {
-		w = 1
-	}
-	parallelChunks(len(devs), w, chunk, func(lo, hi int) {
+	ForChunks(len(devs), opt.workers(len(devs), chunk), chunk, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
 			out[i] = EvaluateProfile(pr, &devs[i], partner)
 		}

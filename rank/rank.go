@@ -15,21 +15,27 @@ type Options struct {
 	Workers int
 }
 
+// workers is the number of goroutines for n parts handed out in chunks of
+// chunk: Workers, or every processor when it is 0; one when there are
+// fewer than two chunks.
+func (o Options) workers(n, chunk int) int {
+	if n < 2*chunk {
+		return 1
+	}
+	if o.Workers > 0 {
+		return o.Workers
+	}
+	return runtime.GOMAXPROCS(0)
+}
+
 // Rank evaluates every device at pt and returns the results in rank order:
 // parts that pass every screen by increasing total stage loss, then the
 // screened parts by increasing loss; ties by name. partner, when non-nil,
 // fills the other place of a synchronous cell.
 func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
 	out := make([]Result, len(devs))
-	w := opt.Workers
-	if w <= 0 {
-		w = runtime.GOMAXPROCS(0)
-	}
 	const chunk = 1024
-	if len(devs) < 2*chunk {
-		w = 1
-	}
-	parallelChunks(len(devs), w, chunk, func(lo, hi int) {
+	ForChunks(len(devs), opt.workers(len(devs), chunk), chunk, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
 			EvaluateInto(&out[i], pt, &devs[i], partner, nil)
 		}

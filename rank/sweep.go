@@ -215,13 +215,15 @@ func Sweep(base Stage, ll LightLoad, spec SweepSpec, devs []*Device, partner *De
 			}
 		}
 	}
-	parallelChunks(n, r.workers, 16, eval)
+	ForChunks(n, r.workers, 16, eval)
 	return r, nil
 }
 
-// parallelChunks calls fn on [lo, hi) chunks of [0, n) with w goroutines
-// (inline when w is 1 or n is small).
-func parallelChunks(n, w, chunk int, fn func(lo, hi int)) {
+// ForChunks calls fn on the chunks [lo, hi) of [0, n), chunk long (the
+// last may be shorter), from w goroutines that take the next chunk as they
+// finish one; inline on the caller's goroutine when w ≤ 1 or n ≤ chunk. fn
+// must be safe to call concurrently on disjoint chunks.
+func ForChunks(n, w, chunk int, fn func(lo, hi int)) {
 	if w <= 1 || n <= chunk {
 		fn(0, n)
 		return
@@ -432,7 +434,7 @@ func (r *SweepResult) refine(set []int, lo, hi float64, a, b, depth int) ([]Cros
 // bestAt returns the part of set with the least penalised loss at pt.
 func (r *SweepResult) bestAt(set []int, pt *Point) (int, float64) {
 	loss := make([]float64, len(set))
-	parallelChunks(len(set), r.workers, 256, func(lo, hi int) {
+	ForChunks(len(set), r.workers, 256, func(lo, hi int) {
 		for j := lo; j < hi; j++ {
 			loss[j], _ = r.lossAt(set[j], pt)
 		}

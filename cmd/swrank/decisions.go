@@ -12,7 +12,6 @@ import (
 	"slices"
 	"strconv"
 	"strings"
-	"sync"
 
 	"github.com/olekukonko/tablewriter"
 	"github.com/olekukonko/tablewriter/renderer"
@@ -132,21 +131,11 @@ func evaluateAll(plan *stagePlan, devs []rank.Device, counts []int, auto bool) (
 		}
 		out[i] = c
 	}
-	w := runtime.GOMAXPROCS(0)
-	var wg sync.WaitGroup
-	next := make(chan int, w)
-	for range w {
-		wg.Go(func() {
-			for i := range next {
-				work(i)
-			}
-		})
-	}
-	for i := range devs {
-		next <- i
-	}
-	close(next)
-	wg.Wait()
+	rank.ForChunks(len(devs), runtime.GOMAXPROCS(0), 1, func(lo, hi int) {
+		for i := lo; i < hi; i++ {
+			work(i)
+		}
+	})
 	if err := errors.Join(errs...); err != nil {
 		return nil, err
 	}
