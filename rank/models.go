@@ -396,24 +396,17 @@ type OssLaw struct {
 	N float64 // exponent, [0, 0.95]
 }
 
-// Q returns the output charge ∫₀^v C dv = K·v^(1−N)/(1−N).
-func (l OssLaw) Q(v q.Voltage) q.Charge {
-	if v <= 0 {
-		return 0
-	}
-	return q.Charge(l.K * powPos(float64(v), 1-l.N) / (1 - l.N))
-}
+// Q returns the output charge ∫₀^v C dv = K·v^(1−N)/(1−N) (0 for v ≤ 0).
+func (l OssLaw) Q(v q.Voltage) q.Charge { return l.At(v).Q() }
 
-// E returns the stored energy ∫₀^v v·C dv = K·v^(2−N)/(2−N).
-func (l OssLaw) E(v q.Voltage) q.Energy {
-	if v <= 0 {
-		return 0
-	}
-	return q.Energy(l.K * powPos(float64(v), 2-l.N) / (2 - l.N))
-}
+// E returns the stored energy ∫₀^v v·C dv = K·v^(2−N)/(2−N) (0 for v ≤ 0).
+func (l OssLaw) E(v q.Voltage) q.Energy { return l.At(v).E() }
+
+// C returns the small-signal capacitance K·v^−N at v (at 1 mV for v ≤ 0).
+func (l OssLaw) C(v q.Voltage) q.Capacitance { return l.At(v).C() }
 
 // OssPoint is an output-capacitance law at one voltage: C, Q and E all
-// follow from the one power v^(2−N) (the law's own formulas rewritten:
+// follow from the one power v^(2−N) (the law's formulas rewritten:
 // K·v^−N = K·v^(2−N)/v², K·v^(1−N) = K·v^(2−N)/v).
 type OssPoint struct {
 	L  OssLaw
@@ -433,7 +426,7 @@ func (l OssLaw) At(v q.Voltage) OssPoint {
 // C is the small-signal capacitance (OssLaw.C).
 func (p OssPoint) C() q.Capacitance {
 	if p.V <= 0 {
-		return p.L.C(p.V)
+		return p.L.At(1e-3).C()
 	}
 	return q.Capacitance(p.L.K * p.pv / (float64(p.V) * float64(p.V)))
 }
@@ -449,14 +442,6 @@ func (p OssPoint) Q() q.Charge {
 // E is the stored energy (OssLaw.E).
 func (p OssPoint) E() q.Energy {
 	return q.Energy(p.L.K * p.pv / (2 - p.L.N))
-}
-
-// C returns the small-signal capacitance at v.
-func (l OssLaw) C(v q.Voltage) q.Capacitance {
-	if v <= 0 {
-		v = 1e-3
-	}
-	return q.Capacitance(l.K * powPos(float64(v), -l.N))
 }
 
 // OssFromCapacitance is the √ law through one small-signal datasheet point.

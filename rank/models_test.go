@@ -277,15 +277,26 @@ func TestEvaluateAllocations(t *testing.T) {
 	}
 }
 
-// OssPoint gives the law's own C, Q and E from its one power (the power-law
-// integrals, Erickson & Maksimović 2001, ch. 4), at and below zero volts as
-// the law does.
+// OssPoint and the law's methods give the power-law integrals of
+// Erickson & Maksimović 2001, ch. 4: C = K·v^−N, Q = K·v^(1−N)/(1−N),
+// E = K·v^(2−N)/(2−N), worked here with math.Pow; C at 1 mV and Q, E zero
+// at and below zero volts.
 func TestOssPoint(t *testing.T) {
 	l := OssLaw{K: 2e-9, N: 0.62}
-	for _, v := range []q.Voltage{48, 3.3, 600, 0, -1} {
+	for _, v := range []q.Voltage{48, 3.3, 600} {
+		x := float64(v)
 		p := l.At(v)
-		near(t, "C", float64(p.C()), float64(l.C(v)), 1e-13)
-		near(t, "Q", float64(p.Q()), float64(l.Q(v)), 1e-13)
-		near(t, "E", float64(p.E()), float64(l.E(v)), 1e-13)
+		near(t, "C", float64(p.C()), l.K*math.Pow(x, -l.N), 1e-13)
+		near(t, "Q", float64(p.Q()), l.K*math.Pow(x, 1-l.N)/(1-l.N), 1e-13)
+		near(t, "E", float64(p.E()), l.K*math.Pow(x, 2-l.N)/(2-l.N), 1e-13)
+		near(t, "OssLaw.C", float64(l.C(v)), float64(p.C()), 1e-15)
+		near(t, "OssLaw.Q", float64(l.Q(v)), float64(p.Q()), 1e-15)
+		near(t, "OssLaw.E", float64(l.E(v)), float64(p.E()), 1e-15)
+	}
+	for _, v := range []q.Voltage{0, -1} {
+		p := l.At(v)
+		near(t, "C at 1 mV", float64(p.C()), l.K*math.Pow(1e-3, -l.N), 1e-13)
+		near(t, "Q", float64(p.Q()), 0, 0)
+		near(t, "E", float64(p.E()), 0, 0)
 	}
 }
