@@ -4,6 +4,8 @@ import (
 	"container/heap"
 
 	"swrank/devices"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
 )
 
 // Best keeps the best results offered to it, in rank order, without holding
@@ -22,7 +24,7 @@ type Best struct {
 }
 
 // Offer considers one result.
-func (b *Best) Offer(r *Result) {
+func (b *Best) Offer(r *evaluate.Result) {
 	h := &b.pass
 	if r.Screened() {
 		b.Screened++
@@ -41,8 +43,8 @@ func (b *Best) Offer(r *Result) {
 
 // Results returns the kept results in rank order: passing ones, then
 // screened ones.
-func (b *Best) Results() []Result {
-	out := make([]Result, 0, len(b.pass)+len(b.fail))
+func (b *Best) Results() []evaluate.Result {
+	out := make([]evaluate.Result, 0, len(b.pass)+len(b.fail))
 	out = append(out, b.pass...)
 	out = append(out, b.fail...)
 	return sortResults(out)
@@ -50,12 +52,12 @@ func (b *Best) Results() []Result {
 
 // own copies the result's device and part so that the caller may reuse
 // its own.
-func own(r *Result) Result {
+func own(r *evaluate.Result) evaluate.Result {
 	c := *r
 	orig := r.Dev
 	p := new(devices.Part)
 	*p = *orig.Part
-	d := new(Device)
+	d := new(fit.Device)
 	*d = *orig
 	d.Part = p
 	c.Dev = d
@@ -68,12 +70,12 @@ func own(r *Result) Result {
 }
 
 // worstFirst is a heap with the worst-ranked result on top.
-type worstFirst []Result
+type worstFirst []evaluate.Result
 
 func (h worstFirst) Len() int           { return len(h) }
 func (h worstFirst) Less(i, j int) bool { return CompareRef(&h[i], &h[j]) > 0 }
 func (h worstFirst) Swap(i, j int)      { h[i], h[j] = h[j], h[i] }
-func (h *worstFirst) Push(x any)        { *h = append(*h, x.(Result)) }
+func (h *worstFirst) Push(x any)        { *h = append(*h, x.(evaluate.Result)) }
 func (h *worstFirst) Pop() any {
 	old := *h
 	x := old[len(old)-1]

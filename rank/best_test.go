@@ -7,6 +7,10 @@ import (
 	"testing"
 
 	"swrank/devices"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/internal/testkit"
+	"swrank/rank/stage"
 
 	q "swrank/devices/quantity"
 )
@@ -16,22 +20,22 @@ import (
 // of the selection, checked against the full sort; no outside source is
 // needed for ordering).
 func TestBestMatchesRank(t *testing.T) {
-	var devs []Device
+	var devs []fit.Device
 	for i := 0; i < 40; i++ {
-		p := handCasePart()
+		p := testkit.HandCasePart()
 		p.Name = fmt.Sprintf("part-%02d", i)
 		p.RdsOn = q.Resistance(2e-3 + 0.4e-3*float64(i%7))
 		p.Qg = q.Charge(4e-9 + 1e-9*float64(i%5))
 		if i%9 == 0 {
 			p.VdsMax = 12 // screened: 12 V cell above 80 % of rating
 		}
-		d, err := Prepare(&p)
+		d, err := fit.Prepare(&p)
 		if err != nil {
 			t.Fatal(err)
 		}
 		devs = append(devs, d)
 	}
-	st := Stage{Topology: Buck, Vin: 12, Vout: 1.8, Iout: 8, Fsw: 600e3, Driver: Driver{VOn: 5}}
+	st := stage.Stage{Topology: stage.Buck, Vin: 12, Vout: 1.8, Iout: 8, Fsw: 600e3, Driver: stage.Driver{VOn: 5}}
 	pt, err := st.Resolve()
 	if err != nil {
 		t.Fatal(err)
@@ -39,12 +43,12 @@ func TestBestMatchesRank(t *testing.T) {
 	all := Rank(&pt, devs, nil, Options{Workers: 1})
 	for _, n := range []int{0, 1, 5} {
 		b := Best{N: n}
-		var reused Device
+		var reused fit.Device
 		for i := range devs {
 			reused = devs[i]
 			p := *devs[i].Part
 			reused.Part = &p
-			r := Evaluate(&pt, &reused, nil, nil)
+			r := evaluate.Evaluate(&pt, &reused, nil, nil)
 			b.Offer(&r)
 			p.Name = "overwritten" // the caller reuses its part
 		}
@@ -52,7 +56,7 @@ func TestBestMatchesRank(t *testing.T) {
 		if b.Passed+b.Screened != len(devs) || b.Screened != 5 {
 			t.Errorf("N=%d: counted %d passed, %d screened", n, b.Passed, b.Screened)
 		}
-		var want []Result
+		var want []evaluate.Result
 		if n == 0 {
 			want = all
 		} else {
@@ -79,19 +83,19 @@ func TestBestMatchesRank(t *testing.T) {
 // Rank over a library large enough to split among workers gives the same
 // results as one worker.
 func TestRankParallelIdentical(t *testing.T) {
-	parts := make([]Device, 5000)
+	parts := make([]fit.Device, 5000)
 	for i := range parts {
-		p := handCasePart()
+		p := testkit.HandCasePart()
 		p.Name = fmt.Sprintf("p%05d", i)
 		p.RdsOn = q.Resistance(2e-3 + 1e-6*float64((i*7919)%5000))
 		p.Qg = q.Charge(5e-9 + 1e-12*float64((i*104729)%5000))
-		d, err := Prepare(&p)
+		d, err := fit.Prepare(&p)
 		if err != nil {
 			t.Fatal(err)
 		}
 		parts[i] = d
 	}
-	st := Stage{Topology: Buck, Vin: 12, Vout: 1.8, Iout: 8, Fsw: 600e3, Driver: Driver{VOn: 5}}
+	st := stage.Stage{Topology: stage.Buck, Vin: 12, Vout: 1.8, Iout: 8, Fsw: 600e3, Driver: stage.Driver{VOn: 5}}
 	pt, _ := st.Resolve()
 	one := Rank(&pt, parts, nil, Options{Workers: 1})
 	two := Rank(&pt, parts, nil, Options{Workers: 2})
@@ -107,18 +111,18 @@ func TestRankParallelIdentical(t *testing.T) {
 func TestSortResultsInPlace(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 11))
 	for _, n := range []int{0, 1, 2, 17, 500} {
-		devs := make([]Device, n)
-		rs := make([]Result, n)
+		devs := make([]fit.Device, n)
+		rs := make([]evaluate.Result, n)
 		for i := range rs {
 			devs[i].Part = &devices.Part{Name: fmt.Sprintf("p%03d", rng.IntN(50))}
-			rs[i] = Result{Dev: &devs[i], N: 1}
+			rs[i] = evaluate.Result{Dev: &devs[i], N: 1}
 			rs[i].Losses.Conduction = q.Power(rng.IntN(20))
 			if rng.IntN(4) == 0 {
-				rs[i].Screens = ScreenTjMax
+				rs[i].Screens = evaluate.ScreenTjMax
 			}
 		}
 		want := slices.Clone(rs)
-		slices.SortStableFunc(want, func(a, b Result) int { return CompareRef(&a, &b) })
+		slices.SortStableFunc(want, func(a, b evaluate.Result) int { return CompareRef(&a, &b) })
 		got := sortResults(rs)
 		for i := range got {
 			if CompareRef(&got[i], &want[i]) != 0 {

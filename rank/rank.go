@@ -2,9 +2,11 @@ package rank
 
 import (
 	"cmp"
-	"fmt"
 	"runtime"
 	"slices"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/stage"
 )
 
 // Options tune Rank.
@@ -15,10 +17,10 @@ type Options struct {
 	Workers int
 }
 
-// workers is the number of goroutines for n parts handed out in chunks of
+// WorkerCount is the number of goroutines for n parts handed out in chunks of
 // chunk: Workers, or every processor when it is 0; one when there are
 // fewer than two chunks.
-func (o Options) workers(n, chunk int) int {
+func (o Options) WorkerCount(n, chunk int) int {
 	if n < 2*chunk {
 		return 1
 	}
@@ -32,12 +34,12 @@ func (o Options) workers(n, chunk int) int {
 // parts that pass every screen by increasing total stage loss, then the
 // screened parts by increasing loss; ties by name. partner, when non-nil,
 // fills the other place of a synchronous cell.
-func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
-	out := make([]Result, len(devs))
+func Rank(pt *stage.Point, devs []fit.Device, partner *fit.Device, opt Options) []evaluate.Result {
+	out := make([]evaluate.Result, len(devs))
 	const chunk = 1024
-	ForChunks(len(devs), opt.workers(len(devs), chunk), chunk, func(lo, hi int) {
+	ForChunks(len(devs), opt.WorkerCount(len(devs), chunk), chunk, func(lo, hi int) {
 		for i := lo; i < hi; i++ {
-			EvaluateInto(&out[i], pt, &devs[i], partner, nil)
+			evaluate.EvaluateInto(&out[i], pt, &devs[i], partner, nil)
 		}
 	})
 	return sortResults(out)
@@ -46,14 +48,14 @@ func Rank(pt *Point, devs []Device, partner *Device, opt Options) []Result {
 // sortResults puts results in rank order in place and returns rs. The
 // results are large: it sorts a permutation and then follows its cycles,
 // moving each result once, with one result of scratch space.
-func sortResults(rs []Result) []Result {
+func sortResults(rs []evaluate.Result) []evaluate.Result {
 	idx := make([]int32, len(rs))
 	for i := range idx {
 		idx[i] = int32(i)
 	}
 	slices.SortFunc(idx, func(i, j int32) int { return CompareRef(&rs[i], &rs[j]) })
 	// Place i takes rs[idx[i]]; a placed slot is marked −1.
-	var tmp Result
+	var tmp evaluate.Result
 	for i := range idx {
 		if idx[i] < 0 || int(idx[i]) == i {
 			continue
@@ -76,10 +78,10 @@ func sortResults(rs []Result) []Result {
 
 // Compare orders results: passing before screened, then by total loss,
 // then by part name.
-func Compare(a, b Result) int { return CompareRef(&a, &b) }
+func Compare(a, b evaluate.Result) int { return CompareRef(&a, &b) }
 
 // CompareRef is Compare on pointers.
-func CompareRef(a, b *Result) int {
+func CompareRef(a, b *evaluate.Result) int {
 	if sa, sb := a.Screened(), b.Screened(); sa != sb {
 		if sa {
 			return 1
@@ -90,82 +92,4 @@ func CompareRef(a, b *Result) int {
 		return c
 	}
 	return cmp.Compare(a.Dev.Part.Name, b.Dev.Part.Name)
-}
-
-// Reasons explains why the part is screened, one sentence a reason.
-func (r *Result) Reasons() []string {
-	var out []string
-	for i := 0; i < r.N; i++ {
-		d := &r.Devices[i]
-		if d.Screens == 0 {
-			continue
-		}
-		p := d.Dev.Part
-		s := d.Screens
-		who := p.Name
-		if r.N > 1 {
-			who = fmt.Sprintf("%s (%s)", p.Name, d.Role)
-		}
-		add := func(format string, a ...any) { out = append(out, who+": "+fmt.Sprintf(format, a...)) }
-		if s&ScreenVoltage != 0 {
-			v := max(d.Vpeak, d.Stress.V)
-			if r.RF.VPeak > 0 {
-				add("peak switch voltage %s (with this part's own output capacitance in the resonant stage) exceeds %.0f %% of vds_max %s",
-					r.RF.VPeak, 100*float64(r.Derate), p.VdsMax)
-			} else if v > d.Stress.V {
-				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %.0f %% of vds_max %s",
-					v, d.Stress.V, 100*float64(r.Derate), p.VdsMax)
-			} else {
-				add("drain voltage %s exceeds %.0f %% of vds_max %s", v, 100*float64(r.Derate), p.VdsMax)
-			}
-		}
-		if s&ScreenPeakCurrent != 0 {
-			add("peak current %s exceeds id_pulse %s", d.Stress.IPeak, p.IdPulse.V)
-		}
-		if s&ScreenRmsCurrent != 0 {
-			add("rms current %s exceeds the continuous rating derated to the case temperature, %s", d.Stress.IRms, d.IdLimit)
-		}
-		if s&ScreenGateMax != 0 {
-			add("gate drive exceeds vgs_max %s", p.VgsMax)
-		}
-		if s&ScreenGateMin != 0 {
-			add("off-level gate drive below vgs_min %s", d.Dev.VgsMin)
-		}
-		if s&ScreenBelowThreshold != 0 {
-			add("gate drive does not exceed the threshold %s", d.Dev.Vth)
-		}
-		if s&ScreenBelowPlateau != 0 {
-			add("gate drive does not exceed the plateau %s at the peak current %s", PlateauAt(d.Dev.Vth, d.Dev.VplSpec, d.Dev.QgId, d.Stress.IPeak), d.Stress.IPeak)
-		}
-		if s&ScreenTjMax != 0 {
-			if d.Thermal.Found {
-				add("junction temperature %s exceeds tj_max %s", d.Thermal.Tj, d.Dev.TjMax)
-			} else {
-				add("no steady junction temperature below %s", d.Dev.TjMax)
-			}
-		}
-		if s&ScreenFalseTurnOn != 0 {
-			f := &d.FalseOn
-			if f.Bounce == 0 {
-				add("false turn-on: the off level does not hold the gate below its hot threshold %s", f.Vth)
-			} else {
-				add("false turn-on: dv/dt lifts the off gate by %s, beyond its hot threshold %s (margin %s)",
-					f.Bounce, f.Vth, f.Margin)
-			}
-		}
-		if s&ScreenShuntTooSmall != 0 {
-			add("its output capacitance (%s over the swing) exceeds the %s shunt capacitance the class E design needs; it holds class E only up to %s",
-				r.RF.CDevice, r.RF.CRequired, r.RF.FMax)
-		}
-		if s&ScreenTooSlow != 0 {
-			add("its current fall time %s is too long a part of the period for class E", r.RF.Tf)
-		}
-		if s&ScreenNoOutputCap != 0 {
-			add("its output-capacitance law cannot be evaluated over this swing")
-		}
-		if s&ScreenRunaway != 0 {
-			add("thermal runaway: the loss rises faster with temperature than the heat path removes it (no steady temperature up to %s)", d.Dev.TjMax+500)
-		}
-	}
-	return out
 }

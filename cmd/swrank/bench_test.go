@@ -15,7 +15,8 @@ import (
 
 	"swrank/devices"
 	"swrank/devices/synth"
-	"swrank/rank"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
 )
 
 // TestMain lets the benchmarks run the command line in a child process of
@@ -179,11 +180,11 @@ func BenchmarkEvaluate(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	var r rank.Result
+	var r evaluate.Result
 	b.ReportAllocs()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
-		rank.EvaluateInto(&r, &pt, &lib[i%len(lib)], nil, nil)
+		evaluate.EvaluateInto(&r, &pt, &lib[i%len(lib)], nil, nil)
 		if r.N == 0 {
 			b.Fatal("no result")
 		}
@@ -192,14 +193,14 @@ func BenchmarkEvaluate(b *testing.B) {
 }
 
 // rankReaderDevices loads and prepares a library from memory.
-func rankReaderDevices(data []byte) ([]rank.Device, error) {
+func rankReaderDevices(data []byte) ([]fit.Device, error) {
 	lib, err := devices.Read(bytes.NewReader(data), "bench")
 	if err != nil {
 		return nil, err
 	}
-	devs := make([]rank.Device, len(lib.Parts))
+	devs := make([]fit.Device, len(lib.Parts))
 	for i := range lib.Parts {
-		if devs[i], err = rank.Prepare(&lib.Parts[i]); err != nil {
+		if devs[i], err = fit.Prepare(&lib.Parts[i]); err != nil {
 			return nil, err
 		}
 	}

@@ -11,13 +11,16 @@ import (
 
 	"swrank/devices"
 	"swrank/rank"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/stage"
 )
 
 const rankSynopsis = `rank [--parts FILE.csv | --demo] [--topology buck|boost|custom] [stage flags] --vdrive V [driver, thermal and output flags]`
 
 // loadLibrary reads the parts library named by the flags and prepares
 // every part for evaluation. Warnings go to stderr.
-func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []rank.Device, error) {
+func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []fit.Device, error) {
 	var lib *devices.Library
 	var err error
 	switch {
@@ -36,9 +39,9 @@ func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []rank.Device,
 	for _, w := range lib.Warnings {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
-	devs := make([]rank.Device, len(lib.Parts))
+	devs := make([]fit.Device, len(lib.Parts))
 	for i := range lib.Parts {
-		d, err := rank.Prepare(&lib.Parts[i])
+		d, err := fit.Prepare(&lib.Parts[i])
 		if err != nil {
 			return nil, nil, fmt.Errorf("%s: %w", lib.Source, err)
 		}
@@ -48,7 +51,7 @@ func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []rank.Device,
 }
 
 // findDevice returns the device named name (case-insensitive).
-func findDevice(devs []rank.Device, name string) (*rank.Device, error) {
+func findDevice(devs []fit.Device, name string) (*fit.Device, error) {
 	for i := range devs {
 		if strings.EqualFold(devs[i].Part.Name, name) {
 			return &devs[i], nil
@@ -58,7 +61,7 @@ func findDevice(devs []rank.Device, name string) (*rank.Device, error) {
 }
 
 // prepare parses the shared inputs and resolves the operating point.
-func prepare(in *inputs, stderr io.Writer) (*rank.Point, []rank.Device, *rank.Device, *devices.Library, error) {
+func prepare(in *inputs, stderr io.Writer) (*stage.Point, []fit.Device, *fit.Device, *devices.Library, error) {
 	if err := checkFormat(in.format); err != nil {
 		return nil, nil, nil, nil, err
 	}
@@ -70,9 +73,9 @@ func prepare(in *inputs, stderr io.Writer) (*rank.Point, []rank.Device, *rank.De
 	if err != nil {
 		return nil, nil, nil, nil, err
 	}
-	var partner *rank.Device
+	var partner *fit.Device
 	if in.partner != "" {
-		if !pt.HasSync || pt.Stage.Topology == rank.ClassD {
+		if !pt.HasSync || pt.Stage.Topology == stage.ClassD {
 			return nil, nil, nil, nil, errors.New("--partner needs a synchronous buck or boost stage (class D ranks the part in both places)")
 		}
 		if partner, err = findDevice(devs, in.partner); err != nil {
@@ -143,14 +146,14 @@ func rankStream(in *inputs, stderr io.Writer) (report, error) {
 }
 
 // rankReader ranks the library read from r at pt.
-func rankReader(in *inputs, pt *rank.Point, r io.Reader, name string, stderr io.Writer) (report, error) {
+func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io.Writer) (report, error) {
 	best := rank.Best{N: in.top}
 	hdr, probs := devices.Scan(r, name, func(p *devices.Part) error {
-		d, err := rank.Prepare(p)
+		d, err := fit.Prepare(p)
 		if err != nil {
 			return err
 		}
-		res := rank.Evaluate(pt, &d, nil, nil)
+		res := evaluate.Evaluate(pt, &d, nil, nil)
 		best.Offer(&res)
 		return nil
 	})
@@ -187,8 +190,8 @@ func runExplain(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	var tr rank.Trace
-	r := rank.Evaluate(pt, dev, partner, &tr)
+	var tr evaluate.Trace
+	r := evaluate.Evaluate(pt, dev, partner, &tr)
 	return renderExplain(stdout, in.format, pt, &r, &tr)
 }
 

@@ -11,6 +11,10 @@ import (
 
 	q "swrank/devices/quantity"
 	"swrank/rank"
+	"swrank/rank/decide"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/stage"
 )
 
 const compareSynopsis = `compare --fitted PART [CANDIDATE ...] [--parts FILE.csv | --demo | --design FILE.toml] [stage, driver, thermal and output flags as for rank]`
@@ -49,7 +53,7 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return fmt.Errorf("--fitted: %w", err)
 	}
-	var cands []*rank.Device
+	var cands []*fit.Device
 	if fs.NArg() == 0 {
 		for i := range devs {
 			if &devs[i] != fd {
@@ -67,10 +71,10 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 			}
 		}
 	}
-	fr := rank.Evaluate(plan.pt, fd, plan.partner, nil)
-	res := make([]rank.Result, len(cands))
+	fr := evaluate.Evaluate(plan.pt, fd, plan.partner, nil)
+	res := make([]evaluate.Result, len(cands))
 	for i, d := range cands {
-		res[i] = rank.Evaluate(plan.pt, d, plan.partner, nil)
+		res[i] = evaluate.Evaluate(plan.pt, d, plan.partner, nil)
 	}
 	slices.SortStableFunc(res, rank.Compare)
 	cr := compareReport{pt: plan.pt, source: lib.source, parts: len(devs), fitted: fr, top: in.top}
@@ -79,7 +83,7 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 		if in.top > 0 && i == in.top {
 			break
 		}
-		cr.cmps = append(cr.cmps, rank.CompareParts(&cr.fitted, &res[i], pout))
+		cr.cmps = append(cr.cmps, decide.CompareParts(&cr.fitted, &res[i], pout))
 	}
 	switch strings.ToLower(in.format) {
 	case "json":
@@ -93,16 +97,16 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 }
 
 type compareReport struct {
-	pt     *rank.Point
+	pt     *stage.Point
 	source string
 	parts  int
-	fitted rank.Result
-	cmps   []rank.Comparison
+	fitted evaluate.Result
+	cmps   []decide.Comparison
 	top    int
 }
 
 // fmtDelta prints a change with its sign and the relative change.
-func fmtDelta(d rank.Delta, format func(float64) string) string {
+func fmtDelta(d decide.Delta, format func(float64) string) string {
 	if d.Abs == 0 {
 		return "0"
 	}
@@ -129,7 +133,7 @@ func watts(v float64) string { return q.Format(q.Power(v), 3) }
 // fitted part or any candidate (the total always).
 func (r *compareReport) columns() []int {
 	var out []int
-	comps := rank.Components()
+	comps := decide.Components()
 	for j := range comps {
 		keep := j == len(comps)-1
 		for _, c := range r.cmps {
@@ -147,7 +151,7 @@ func (r *compareReport) columns() []int {
 func (r *compareReport) table(w io.Writer, markdown bool) error {
 	if !markdown {
 		describePoint(w, r.pt, r.source, r.parts)
-		if r.pt.Mode != rank.ModeGiven {
+		if r.pt.Mode != stage.ModeGiven {
 			fmt.Fprintf(w, "conduction mode: %s\n", r.pt.Mode)
 		}
 	}
@@ -160,12 +164,12 @@ func (r *compareReport) table(w io.Writer, markdown bool) error {
 		fmt.Fprintf(w, ", efficiency %.2f %%", 100*float64(po)/float64(po+f.Losses.Total()))
 	}
 	if f.Screened() {
-		fmt.Fprintf(w, " (set aside: %s)", strings.Join(rank.ScreenNames(f.Screens), ", "))
+		fmt.Fprintf(w, " (set aside: %s)", strings.Join(decide.ScreenNames(f.Screens), ", "))
 	}
 	fmt.Fprintln(w)
 	fmt.Fprintln(w)
 	cols := r.columns()
-	comps := rank.Components()
+	comps := decide.Components()
 	header := []string{"candidate", "total"}
 	for _, j := range cols {
 		header = append(header, "Δ "+comps[j].Name)
@@ -207,7 +211,7 @@ func csvName(s string) string {
 }
 
 func (r *compareReport) csv(w io.Writer) error {
-	comps := rank.Components()
+	comps := decide.Components()
 	header := []string{"candidate", "fitted"}
 	for _, c := range comps {
 		n := csvName(c.Name)
@@ -237,7 +241,7 @@ func (r *compareReport) csv(w io.Writer) error {
 		if c.Eff != nil {
 			eff, deff = num(c.Eff.Cand), num(c.Eff.Abs)
 		}
-		row = append(row, tj, dtj, eff, deff, strings.Join(rank.ScreenNames(c.NewScreens), "; "),
+		row = append(row, tj, dtj, eff, deff, strings.Join(decide.ScreenNames(c.NewScreens), "; "),
 			strconv.FormatBool(c.PackageDiffers), strconv.FormatBool(c.Cand.Screened()), c.Verdict)
 		if err := cw.Write(row); err != nil {
 			return err
@@ -283,7 +287,7 @@ func (r *compareReport) json(w io.Writer) error {
 		Fitted: resultJSON(0, &r.fitted, r.pt.Stage.Pout), Candidates: []jsonComparison{}}
 	for _, c := range r.cmps {
 		j := jsonComparison{Candidate: c.Cand.Dev.Part.Name, TotalW: float64(c.Cand.Losses.Total()), Decides: c.Decides,
-			NewScreens: rank.ScreenNames(c.NewScreens), PackageDiffers: c.PackageDiffers, Screened: c.Cand.Screened(),
+			NewScreens: decide.ScreenNames(c.NewScreens), PackageDiffers: c.PackageDiffers, Screened: c.Cand.Screened(),
 			Reasons: c.Cand.Reasons(), Verdict: c.Verdict}
 		if j.NewScreens == nil {
 			j.NewScreens = []string{}

@@ -19,6 +19,10 @@ import (
 
 	q "swrank/devices/quantity"
 	"swrank/rank"
+	"swrank/rank/decide"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/stage"
 )
 
 // The decision path of rank: several weighted points, paralleled devices
@@ -31,8 +35,8 @@ const worstLeaders = 10
 
 // eval is one part (at one count) at the stage: one point or a profile.
 type eval struct {
-	res  rank.Result         // single point
-	w    rank.WeightedResult // profile
+	res  evaluate.Result       // single point
+	w    decide.WeightedResult // profile
 	prof bool
 }
 
@@ -59,7 +63,7 @@ func (e *eval) tj() (q.Temperature, bool) {
 	return e.res.Tj()
 }
 
-func (e *eval) flags() rank.Flags {
+func (e *eval) flags() fit.Flags {
 	if e.prof {
 		return e.w.Flags
 	}
@@ -68,9 +72,9 @@ func (e *eval) flags() rank.Flags {
 
 // candidate is one library part in the decision path.
 type candidate struct {
-	base   *rank.Device
+	base   *fit.Device
 	n      int // the count shown
-	dev    *rank.Device
+	dev    *fit.Device
 	single eval // one device
 	chosen eval // n devices
 	tried  []float64
@@ -82,16 +86,16 @@ func (c *candidate) name() string { return c.dev.Part.Name }
 
 // stagePlan is what the decision commands evaluate.
 type stagePlan struct {
-	pt      *rank.Point   // the (rated) point
-	prof    *rank.Profile // nil: one point
-	partner *rank.Device
+	pt      *stage.Point    // the (rated) point
+	prof    *decide.Profile // nil: one point
+	partner *fit.Device
 }
 
-func (p *stagePlan) evaluate(d *rank.Device) eval {
+func (p *stagePlan) evaluate(d *fit.Device) eval {
 	if p.prof != nil {
-		return eval{w: rank.EvaluateProfile(p.prof, d, p.partner), prof: true}
+		return eval{w: decide.EvaluateProfile(p.prof, d, p.partner), prof: true}
 	}
-	return eval{res: rank.Evaluate(p.pt, d, p.partner, nil)}
+	return eval{res: evaluate.Evaluate(p.pt, d, p.partner, nil)}
 }
 
 // better reports whether a beats b for the choice of a count: passing
@@ -105,7 +109,7 @@ func better(a, b *eval) bool {
 
 // evaluateAll evaluates every device at every count and keeps the chosen
 // one; the order of the result is the rank order.
-func evaluateAll(plan *stagePlan, devs []rank.Device, counts []int, auto bool) ([]candidate, error) {
+func evaluateAll(plan *stagePlan, devs []fit.Device, counts []int, auto bool) ([]candidate, error) {
 	out := make([]candidate, len(devs))
 	errs := make([]error, len(devs))
 	work := func(i int) {
@@ -113,7 +117,7 @@ func evaluateAll(plan *stagePlan, devs []rank.Device, counts []int, auto bool) (
 		for _, n := range counts {
 			d := &devs[i]
 			if n > 1 {
-				dn, err := rank.Parallel(d, n)
+				dn, err := decide.Parallel(d, n)
 				if err != nil {
 					errs[i] = err
 					return
@@ -162,7 +166,7 @@ func addWorst(plan *stagePlan, cs []candidate) error {
 			break
 		}
 		k++
-		w, ok, err := rank.WorstCase(cs[i].dev)
+		w, ok, err := decide.WorstCase(cs[i].dev)
 		if err != nil {
 			return fmt.Errorf("%s: %w", cs[i].name(), err)
 		}
@@ -178,7 +182,7 @@ func addWorst(plan *stagePlan, cs []candidate) error {
 
 // spreadNote says whether the winner's lead outweighs its own spread
 // between typical and worst-case values ("" when it cannot be told).
-func spreadNote(cs []candidate, unit func(float64) string) (string, *rank.Spread) {
+func spreadNote(cs []candidate, unit func(float64) string) (string, *decide.Spread) {
 	if len(cs) < 2 || cs[0].chosen.screened() || cs[1].chosen.screened() || cs[0].worst == nil {
 		return "", nil
 	}
@@ -186,7 +190,7 @@ func spreadNote(cs []candidate, unit func(float64) string) (string, *rank.Spread
 	if cs[1].worst != nil {
 		runnerWorst = cs[1].worst.key()
 	}
-	s := rank.SpreadOf(q.Power(cs[0].chosen.key()), q.Power(cs[0].worst.key()), q.Power(cs[1].chosen.key()), q.Power(runnerWorst))
+	s := decide.SpreadOf(q.Power(cs[0].chosen.key()), q.Power(cs[0].worst.key()), q.Power(cs[1].chosen.key()), q.Power(runnerWorst))
 	a, b := cs[0].name(), cs[1].name()
 	if s.Clear {
 		return fmt.Sprintf("%s leads %s by %s, more than its own spread from typical to worst-case values (%s): a clear choice",
@@ -200,19 +204,19 @@ func spreadNote(cs []candidate, unit func(float64) string) (string, *rank.Spread
 // carry a price (N × price when paralleled), in increasing price.
 func frontOf(cs []candidate) []int {
 	var idx []int
-	var items []rank.PriceLoss
+	var items []decide.PriceLoss
 	for i := range cs {
 		p := cs[i].dev.Part.Price
 		if !p.OK || cs[i].chosen.screened() {
 			continue
 		}
 		idx = append(idx, i)
-		items = append(items, rank.PriceLoss{Price: p.V, Loss: cs[i].chosen.key()})
+		items = append(items, decide.PriceLoss{Price: p.V, Loss: cs[i].chosen.key()})
 	}
 	if len(items) < 2 {
 		return nil
 	}
-	f := rank.ParetoFront(items)
+	f := decide.ParetoFront(items)
 	out := make([]int, len(f))
 	for i, j := range f {
 		out[i] = idx[j]
@@ -258,7 +262,7 @@ type libInfo struct{ source string }
 
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
-func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*stagePlan, []rank.Device, libInfo, error) {
+func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*stagePlan, []fit.Device, libInfo, error) {
 	if err := checkFormat(in.format); err != nil {
 		return nil, nil, libInfo{}, err
 	}
@@ -409,7 +413,7 @@ func (r *decisionReport) describe(w io.Writer) {
 		for _, p := range pr.Points {
 			s := &p.Point.Stage
 			fmt.Fprintf(w, "  %-10s weight %.4g: %s", p.Name, p.Weight, s.Topology)
-			if s.Topology == rank.Custom {
+			if s.Topology == stage.Custom {
 				fmt.Fprintf(w, " %s, %s rms, %s", s.Vblock, s.Irms, s.Pout)
 			} else {
 				fmt.Fprintf(w, " %s → %s at %s (%s)", s.Vin, s.Vout, s.Iout, s.Pout)
@@ -422,7 +426,7 @@ func (r *decisionReport) describe(w io.Writer) {
 		fmt.Fprintf(w, "library %s: %d parts\n", r.source, r.parts)
 	} else {
 		describePoint(w, r.plan.pt, r.source, r.parts)
-		if r.plan.pt.Mode != rank.ModeGiven {
+		if r.plan.pt.Mode != stage.ModeGiven {
 			fmt.Fprintf(w, "conduction mode: %s\n", r.plan.pt.Mode)
 		}
 	}
@@ -647,7 +651,7 @@ type jsonPointMode struct {
 	Mode string `json:"mode"`
 }
 
-func withMode(p jsonPoint, m rank.Mode) jsonPointMode { return jsonPointMode{p, m.String()} }
+func withMode(p jsonPoint, m stage.Mode) jsonPointMode { return jsonPointMode{p, m.String()} }
 
 // writeTable prints a table with tablewriter, as text or Markdown.
 func writeTable(w io.Writer, header []string, rows [][]string, markdown bool) error {
@@ -671,7 +675,7 @@ func writeTable(w io.Writer, header []string, rows [][]string, markdown bool) er
 // leaders and the price-loss front when the library gives maximum values
 // or prices: after the table (text and Markdown), as extra columns (CSV)
 // or extra members (JSON).
-func decorate(w io.Writer, format string, rep report, partner *rank.Device) error {
+func decorate(w io.Writer, format string, rep report, partner *fit.Device) error {
 	shown := rep.shown()
 	plan := &stagePlan{pt: rep.pt, partner: partner}
 	cs := make([]candidate, len(shown))

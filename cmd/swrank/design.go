@@ -12,10 +12,10 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"swrank/rank/decide"
+	"swrank/rank/stage"
 
 	"github.com/BurntSushi/toml"
-
-	"swrank/rank"
 )
 
 // A design file is a small TOML file that holds a stage: its operating
@@ -44,7 +44,7 @@ type decisionFlags struct {
 type designPoint struct {
 	name   string
 	weight float64
-	stage  rank.Stage
+	stage  stage.Stage
 }
 
 func (d *decisionFlags) register(fs *flag.FlagSet) {
@@ -56,7 +56,7 @@ func (d *decisionFlags) register(fs *flag.FlagSet) {
 }
 
 // lightLoad is the light-load behaviour asked for.
-func (d *decisionFlags) lightLoad() rank.LightLoad { return rank.LightLoad{Valley: d.valley} }
+func (d *decisionFlags) lightLoad() stage.LightLoad { return stage.LightLoad{Valley: d.valley} }
 
 // parallelCounts returns the counts to try and whether the best is chosen.
 func (d *decisionFlags) parallelCounts() (counts []int, auto bool, err error) {
@@ -64,8 +64,8 @@ func (d *decisionFlags) parallelCounts() (counts []int, auto bool, err error) {
 	case "", "1":
 		return []int{1}, false, nil
 	case "auto":
-		if d.parallelMax < 1 || d.parallelMax > rank.MaxParallel {
-			return nil, false, fmt.Errorf("--parallel-max %d: want 1 to %d", d.parallelMax, rank.MaxParallel)
+		if d.parallelMax < 1 || d.parallelMax > decide.MaxParallel {
+			return nil, false, fmt.Errorf("--parallel-max %d: want 1 to %d", d.parallelMax, decide.MaxParallel)
 		}
 		for n := 1; n <= d.parallelMax; n++ {
 			counts = append(counts, n)
@@ -73,8 +73,8 @@ func (d *decisionFlags) parallelCounts() (counts []int, auto bool, err error) {
 		return counts, true, nil
 	default:
 		n, err := strconv.Atoi(p)
-		if err != nil || n < 1 || n > rank.MaxParallel {
-			return nil, false, fmt.Errorf("--parallel %q: want a count from 1 to %d, or auto", d.parallel, rank.MaxParallel)
+		if err != nil || n < 1 || n > decide.MaxParallel {
+			return nil, false, fmt.Errorf("--parallel %q: want a count from 1 to %d, or auto", d.parallel, decide.MaxParallel)
 		}
 		return []int{1, n}, false, nil
 	}
@@ -404,28 +404,28 @@ func sortedKeys[V any](m map[string]V) []string {
 
 // profile builds the weighted points of the stage, or nil for a single
 // point.
-func (d *decisionFlags) profile(base rank.Stage) (*rank.Profile, error) {
+func (d *decisionFlags) profile(base stage.Stage) (*decide.Profile, error) {
 	switch {
 	case d.weighting != "":
-		w, err := rank.ParseWeighting(d.weighting)
+		w, err := decide.ParseWeighting(d.weighting)
 		if err != nil {
 			return nil, err
 		}
-		pr, err := rank.ResolveProfile(base, w, d.lightLoad())
+		pr, err := decide.ResolveProfile(base, w, d.lightLoad())
 		if err != nil {
 			return nil, fmt.Errorf("load profile: %w", err)
 		}
 		return &pr, nil
 	case len(d.points) > 0:
-		pts := make([]rank.WeightedPoint, len(d.points))
+		pts := make([]decide.WeightedPoint, len(d.points))
 		for i, p := range d.points {
 			pt, err := p.stage.ResolveLight(d.lightLoad())
 			if err != nil {
 				return nil, fmt.Errorf("%s: %s: %w", d.design, p.name, err)
 			}
-			pts[i] = rank.WeightedPoint{Name: p.name, Weight: p.weight, Point: pt}
+			pts[i] = decide.WeightedPoint{Name: p.name, Weight: p.weight, Point: pt}
 		}
-		pr, err := rank.NewProfile("the design's points", pts)
+		pr, err := decide.NewProfile("the design's points", pts)
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", d.design, err)
 		}

@@ -6,7 +6,7 @@ import (
 	"strings"
 
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/stage"
 )
 
 // qty is a flag.Value for a required-or-defaulted quantity.
@@ -76,7 +76,7 @@ type inputs struct {
 	parts   string
 	demo    bool
 	partner string
-	stage   rank.Stage
+	stage   stage.Stage
 	format  string
 	all     bool
 	top     int
@@ -87,9 +87,9 @@ func (in *inputs) register(fs *flag.FlagSet) {
 	s := &in.stage
 	fs.StringVar(&in.parts, "parts", "", "parts library `FILE.csv` (one row per part)")
 	fs.BoolVar(&in.demo, "demo", false, "use the built-in demo library instead of --parts")
-	fs.Var(enum[rank.Topology]{&s.Topology, rank.ParseTopology, str[rank.Topology]}, "topology", "`STAGE`: buck, boost, custom, class-e or class-d")
-	fs.Var(enum[rank.Rectifier]{&s.Rectifier, rank.ParseRectifier, str[rank.Rectifier]}, "rectifier", "second place of a buck or boost, `KIND`: sync (a transistor) or diode")
-	fs.Var(enum[rank.Position]{&s.Position, rank.ParsePosition, str[rank.Position]}, "position", "`PLACE` ranked in a synchronous stage: control, sync or pair (whole-stage loss in every case)")
+	fs.Var(enum[stage.Topology]{&s.Topology, stage.ParseTopology, str[stage.Topology]}, "topology", "`STAGE`: buck, boost, custom, class-e or class-d")
+	fs.Var(enum[stage.Rectifier]{&s.Rectifier, stage.ParseRectifier, str[stage.Rectifier]}, "rectifier", "second place of a buck or boost, `KIND`: sync (a transistor) or diode")
+	fs.Var(enum[stage.Position]{&s.Position, stage.ParsePosition, str[stage.Position]}, "position", "`PLACE` ranked in a synchronous stage: control, sync or pair (whole-stage loss in every case)")
 	fs.StringVar(&in.partner, "partner", "", "`PART` filling the other place (default: the ranked part itself)")
 	fs.Var(qty[q.Voltage]{&s.Vin}, "vin", "input voltage, `V`")
 	fs.Var(qty[q.Voltage]{&s.Vout}, "vout", "output voltage, `V`")

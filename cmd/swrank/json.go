@@ -8,7 +8,9 @@ import (
 	"strings"
 
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/stage"
 )
 
 // Field names carry their unit: _w, _v, _a, _hz, _ohm, _farad, _coulomb,
@@ -130,11 +132,11 @@ type jsonReport struct {
 
 func ptr(v float64) *float64 { return &v }
 
-func stressJSON(s *rank.SwitchStress) jsonStress {
+func stressJSON(s *stage.SwitchStress) jsonStress {
 	return jsonStress{float64(s.V), float64(s.IOn), float64(s.IOff), float64(s.IRms), float64(s.IPeak), float64(s.Duty), s.HardOn, s.HardOff}
 }
 
-func pointJSON(pt *rank.Point) jsonPoint {
+func pointJSON(pt *stage.Point) jsonPoint {
 	s := &pt.Stage
 	d := &s.Driver
 	j := jsonPoint{
@@ -147,9 +149,9 @@ func pointJSON(pt *rank.Point) jsonPoint {
 	if j.Notes == nil {
 		j.Notes = []string{}
 	}
-	if s.Topology == rank.ClassE || s.Topology == rank.ClassD {
+	if s.Topology == stage.ClassE || s.Topology == stage.ClassD {
 		j.VinV, j.RLoadOhm, j.QL = float64(s.Vin), float64(s.RLoad), float64(s.QL)
-		if s.Topology == rank.ClassE {
+		if s.Topology == stage.ClassE {
 			e := &pt.RF.E
 			j.ShuntRequiredFarad = ptr(float64(e.C1))
 		} else {
@@ -157,7 +159,7 @@ func pointJSON(pt *rank.Point) jsonPoint {
 			j.PhaseRad = ptr(float64(pt.RF.D.Phase))
 			j.DeadTimeS = ptr(float64(s.DeadTime.V))
 		}
-	} else if s.Topology != rank.Custom {
+	} else if s.Topology != stage.Custom {
 		j.Rectifier = s.Rectifier.String()
 		j.VinV, j.VoutV, j.IoutA, j.ILA = float64(s.Vin), float64(s.Vout), float64(s.Iout), float64(pt.IL)
 		j.InductanceH = float64(s.Inductance)
@@ -180,7 +182,7 @@ func pointJSON(pt *rank.Point) jsonPoint {
 	return j
 }
 
-func lossesJSON(l rank.Losses) jsonLosses {
+func lossesJSON(l evaluate.Losses) jsonLosses {
 	return jsonLosses{
 		TotalW: float64(l.Total()), SwitchW: float64(l.Switch()), DriverW: float64(l.Driver()),
 		ConductionW: float64(l.Conduction), TurnOnW: float64(l.TurnOn), TurnOffW: float64(l.TurnOff),
@@ -190,15 +192,15 @@ func lossesJSON(l rank.Losses) jsonLosses {
 	}
 }
 
-func flagList(f rank.Flags) []string {
-	f &^= rank.FlagQrrInModel
+func flagList(f fit.Flags) []string {
+	f &^= fit.FlagQrrInModel
 	if f == 0 {
 		return []string{}
 	}
 	return strings.Split(f.Codes(), ",")
 }
 
-func resultJSON(i int, x *rank.Result, pout q.Power) jsonResult {
+func resultJSON(i int, x *evaluate.Result, pout q.Power) jsonResult {
 	j := jsonResult{
 		Rank: i + 1, Part: x.Dev.Part.Name, Position: x.Position.String(), jsonLosses: lossesJSON(x.Losses),
 		Method: methods(x), Flags: flagList(x.Flags), Screened: x.Screened(), Reasons: x.Reasons(),
@@ -271,7 +273,7 @@ type jsonExplain struct {
 	Flags          []string   `json:"flag_notes"`
 }
 
-func renderExplain(w io.Writer, format string, pt *rank.Point, r *rank.Result, tr *rank.Trace) error {
+func renderExplain(w io.Writer, format string, pt *stage.Point, r *evaluate.Result, tr *evaluate.Trace) error {
 	if format == "json" {
 		out := jsonExplain{OperatingPoint: pointJSON(pt), Result: resultJSON(0, r, pt.Stage.Pout), Flags: r.Flags.Sentences()}
 		for _, s := range tr.Steps {
@@ -343,11 +345,11 @@ func renderExplain(w io.Writer, format string, pt *rank.Point, r *rank.Result, t
 	return nil
 }
 
-func methodWhy(d *rank.DeviceResult) string {
+func methodWhy(d *evaluate.DeviceResult) string {
 	if !(d.Stress.HardOn || d.Stress.HardOff) {
 		return "none needed (soft-switched: no overlap loss)"
 	}
-	if d.Method == rank.MethodGateCharge {
+	if d.Method == fit.MethodGateCharge {
 		return "gate-charge (qgs, qgd and v_plateau are given)"
 	}
 	return "tr/tf (the library lacks qgs, qgd or v_plateau)"

@@ -13,23 +13,25 @@ import (
 	"github.com/olekukonko/tablewriter/tw"
 
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/stage"
 )
 
 // report is what rank prints.
 type report struct {
-	pt       *rank.Point
-	source   string        // the library's name
-	parts    int           // parts in the library
-	results  []rank.Result // in rank order (all of them, or the leaders kept)
-	screened int           // screened parts in the library (0: count the results)
+	pt       *stage.Point
+	source   string            // the library's name
+	parts    int               // parts in the library
+	results  []evaluate.Result // in rank order (all of them, or the leaders kept)
+	screened int               // screened parts in the library (0: count the results)
 	all      bool
 	top      int
 }
 
 // shown returns the results the table lists.
-func (r *report) shown() []rank.Result {
-	var out []rank.Result
+func (r *report) shown() []evaluate.Result {
+	var out []evaluate.Result
 	for _, x := range r.results {
 		if x.Screened() && !r.all {
 			continue
@@ -64,7 +66,7 @@ func fmtP(p q.Power) string {
 
 var tableHeader = []string{"#", "part", "conduction", "turn-on", "turn-off", "output cap", "diode", "gate (in FET)", "switch", "driver", "total", "Tj", "% of Pout", "method / flags"}
 
-func tableRow(i int, x *rank.Result, pout q.Power) []string {
+func tableRow(i int, x *evaluate.Result, pout q.Power) []string {
 	l := x.Losses
 	name := x.Dev.Part.Name
 	if x.Partner != nil {
@@ -104,18 +106,18 @@ func tableRow(i int, x *rank.Result, pout q.Power) []string {
 }
 
 // header returns the table's column names for the stage.
-func header(pt *rank.Point) []string {
+func header(pt *stage.Point) []string {
 	h := append([]string(nil), tableHeader[:len(tableHeader)-1]...)
 	switch pt.Stage.Topology {
-	case rank.ClassE:
+	case stage.ClassE:
 		h = append(h, "peak V", "C ext", "f max", "η stage %", "η +driver %")
-	case rank.ClassD:
+	case stage.ClassD:
 		h = append(h, "V", "ZVS", "η stage %", "η +driver %")
 	}
 	return append(h, tableHeader[len(tableHeader)-1])
 }
 
-func methods(x *rank.Result) string {
+func methods(x *evaluate.Result) string {
 	m := x.Devices[0].Method.String()
 	if x.N > 1 && x.Devices[1].Dev != x.Devices[0].Dev && x.Devices[1].Method != x.Devices[0].Method {
 		m += "/" + x.Devices[1].Method.String()
@@ -123,8 +125,8 @@ func methods(x *rank.Result) string {
 	return m
 }
 
-func flagCodes(f rank.Flags) string {
-	f &^= rank.FlagQrrInModel
+func flagCodes(f fit.Flags) string {
+	f &^= fit.FlagQrrInModel
 	if c := f.Codes(); c != "" {
 		return " " + c
 	}
@@ -132,11 +134,11 @@ func flagCodes(f rank.Flags) string {
 }
 
 // describePoint prints the operating point as understood.
-func describePoint(w io.Writer, pt *rank.Point, source string, parts int) {
+func describePoint(w io.Writer, pt *stage.Point, source string, parts int) {
 	s := &pt.Stage
 	d := &s.Driver
 	switch s.Topology {
-	case rank.ClassE:
+	case stage.ClassE:
 		e := &pt.RF.E
 		ql := "ideal (Q → ∞)"
 		if s.QL > 0 {
@@ -145,11 +147,11 @@ func describePoint(w io.Writer, pt *rank.Point, source string, parts int) {
 		fmt.Fprintf(w, "class E %s supply, %s into %s at %s, loaded Q %s\n", s.Vin, e.Po, e.R, s.Fsw, ql)
 		fmt.Fprintf(w, "switch: %s dc, %s rms, %s peak, %s at turn-off; peak voltage %s with a linear shunt; shunt needed %s\n",
 			e.IDC, e.IRms, e.IPeak, e.IOff, e.VPeak, e.C1)
-	case rank.ClassD:
+	case stage.ClassD:
 		d := &pt.RF.D
 		fmt.Fprintf(w, "class D half-bridge %s, %s into %s at %s, load phase %.3f rad; tank current %s peak, %s at the edges; dead time %s\n",
 			s.Vin, d.Po, d.R, s.Fsw, float64(d.Phase), d.Im, d.ISwitch, s.DeadTime.V)
-	case rank.Custom:
+	case stage.Custom:
 		fmt.Fprintf(w, "custom switch: %s blocked, %s at turn-on, %s at turn-off, %s rms, %s\n",
 			s.Vblock, s.Ion, s.Ioff, s.Irms, s.Fsw)
 	default:
@@ -192,14 +194,14 @@ func describePoint(w io.Writer, pt *rank.Point, source string, parts int) {
 	}
 }
 
-func placeWord(pt *rank.Point) string {
+func placeWord(pt *stage.Point) string {
 	if !pt.HasSync {
 		return "control switch"
 	}
 	switch pt.Stage.Position {
-	case rank.Control:
+	case stage.Control:
 		return "control switch (whole-stage loss)"
-	case rank.Sync:
+	case stage.Sync:
 		return "sync switch (whole-stage loss)"
 	}
 	return "pair: the part in both places"
@@ -234,7 +236,7 @@ func renderTable(w io.Writer, r report, markdown bool) error {
 	if err := t.Render(); err != nil {
 		return err
 	}
-	var screened []rank.Result
+	var screened []evaluate.Result
 	for _, x := range r.results {
 		if x.Screened() {
 			screened = append(screened, x)
@@ -262,14 +264,14 @@ func renderTable(w io.Writer, r report, markdown bool) error {
 }
 
 // flagsUsed explains each flag code that appears in the shown rows.
-func flagsUsed(rs []rank.Result) []string {
-	var all rank.Flags
+func flagsUsed(rs []evaluate.Result) []string {
+	var all fit.Flags
 	for _, x := range rs {
 		all |= x.Flags
 	}
-	all &^= rank.FlagQrrInModel
+	all &^= fit.FlagQrrInModel
 	var out []string
-	for bit := rank.Flags(1); bit != 0 && all != 0; bit <<= 1 {
+	for bit := fit.Flags(1); bit != 0 && all != 0; bit <<= 1 {
 		if all&bit == 0 {
 			continue
 		}

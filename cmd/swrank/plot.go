@@ -15,7 +15,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/decide"
 )
 
 // siTicks relabels another ticker's major ticks with SI prefixes and the
@@ -35,11 +35,11 @@ func (t siTicks) Ticks(lo, hi float64) []plot.Tick {
 	return ts
 }
 
-func sweepKind(v rank.SweepVar) q.Kind {
+func sweepKind(v decide.SweepVar) q.Kind {
 	switch v {
-	case rank.SweepFsw:
+	case decide.SweepFsw:
 		return q.Frequency(0).Kind()
-	case rank.SweepIout:
+	case decide.SweepIout:
 		return q.Current(0).Kind()
 	}
 	return q.Voltage(0).Kind()
@@ -49,7 +49,7 @@ func sweepKind(v rank.SweepVar) q.Kind {
 // variable: one curve per part (named in the legend), points where a screen
 // sets the part aside marked with a cross, the crossovers marked with a
 // ring and their value; a log axis for a log sweep.
-func sweepPlot(sw *rank.SweepResult, set []int, cs []rank.Crossover) (*plot.Plot, error) {
+func sweepPlot(sw *decide.SweepResult, set []int, cs []decide.Crossover) (*plot.Plot, error) {
 	p := plot.New()
 	v := sw.Spec.Var
 	p.Title.Text = "total stage loss against " + v.Title()
@@ -110,7 +110,7 @@ func sweepPlot(sw *rank.SweepResult, set []int, cs []rank.Crossover) (*plot.Plot
 		for i, c := range cs {
 			xy[i] = plotter.XY{X: c.X, Y: c.Loss}
 			labels[i] = fmtX(v, c.X)
-			if c.Kind != rank.CrossLoss {
+			if c.Kind != decide.CrossLoss {
 				labels[i] += " (" + c.Kind.String() + ")"
 			}
 		}
@@ -133,7 +133,7 @@ func sweepPlot(sw *rank.SweepResult, set []int, cs []rank.Crossover) (*plot.Plot
 
 // writePlot draws the sweep to path (.svg or .png), atomically: the image
 // goes to a temporary file in the same directory, renamed into place.
-func writePlot(path string, sw *rank.SweepResult, set []int, cs []rank.Crossover) error {
+func writePlot(path string, sw *decide.SweepResult, set []int, cs []decide.Crossover) error {
 	format := strings.TrimPrefix(strings.ToLower(filepath.Ext(path)), ".")
 	if format != "svg" && format != "png" {
 		return fmt.Errorf("--plot %q: the file must end in .svg or .png", path)

@@ -11,6 +11,8 @@ import (
 
 	q "swrank/devices/quantity"
 	"swrank/rank"
+	"swrank/rank/decide"
+	"swrank/rank/fit"
 )
 
 const sweepSynopsis = `sweep --var fsw|iout|vin|vdrive --from X --to Y [--steps N] [--scale log|linear] [--top N | PART ...] [--components] [--plot FILE.svg|png] [stage flags as for rank]`
@@ -53,11 +55,11 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if err := checkFormat(in.format); err != nil {
 		return err
 	}
-	v, err := rank.ParseSweepVar(sf.variable)
+	v, err := decide.ParseSweepVar(sf.variable)
 	if err != nil {
 		return fmt.Errorf("--var: %w", err)
 	}
-	spec := rank.SweepSpec{Var: v, Steps: sf.steps, Log: v == rank.SweepFsw}
+	spec := decide.SweepSpec{Var: v, Steps: sf.steps, Log: v == decide.SweepFsw}
 	switch strings.ToLower(sf.scale) {
 	case "":
 	case "log":
@@ -96,14 +98,14 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	var partner *rank.Device
+	var partner *fit.Device
 	if in.partner != "" {
 		if partner, err = findDevice(devs, in.partner); err != nil {
 			return fmt.Errorf("--partner: %w", err)
 		}
 	}
 	// The parts swept: the named ones, or all (the best are picked after).
-	var ptrs []*rank.Device
+	var ptrs []*fit.Device
 	if fs.NArg() > 0 {
 		for _, name := range fs.Args() {
 			d, err := findDevice(devs, name)
@@ -121,14 +123,14 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	}
 	if n := counts[len(counts)-1]; n > 1 {
 		for i, d := range ptrs {
-			dn, err := rank.Parallel(d, n)
+			dn, err := decide.Parallel(d, n)
 			if err != nil {
 				return err
 			}
 			ptrs[i] = &dn
 		}
 	}
-	sw, err := rank.Sweep(in.stage, dec.lightLoad(), spec, ptrs, partner, rank.Options{})
+	sw, err := decide.Sweep(in.stage, dec.lightLoad(), spec, ptrs, partner, rank.Options{})
 	if err != nil {
 		return err
 	}
@@ -161,12 +163,12 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 }
 
 // parseIn reads a value of the swept variable's quantity.
-func parseIn(v rank.SweepVar, s string) (float64, error) {
+func parseIn(v decide.SweepVar, s string) (float64, error) {
 	switch v {
-	case rank.SweepFsw:
+	case decide.SweepFsw:
 		x, err := q.Parse[q.Frequency](s)
 		return float64(x), err
-	case rank.SweepIout:
+	case decide.SweepIout:
 		x, err := q.Parse[q.Current](s)
 		return float64(x), err
 	}
@@ -175,11 +177,11 @@ func parseIn(v rank.SweepVar, s string) (float64, error) {
 }
 
 // fmtX prints a value of the swept variable with its unit.
-func fmtX(v rank.SweepVar, x float64) string {
+func fmtX(v decide.SweepVar, x float64) string {
 	switch v {
-	case rank.SweepFsw:
+	case decide.SweepFsw:
 		return q.Format(q.Frequency(x), 4)
-	case rank.SweepIout:
+	case decide.SweepIout:
 		return q.Format(q.Current(x), 4)
 	}
 	return q.Format(q.Voltage(x), 4)
@@ -207,9 +209,9 @@ func checkPlotPath(plot string, others ...string) error {
 }
 
 type sweepReport struct {
-	sw         *rank.SweepResult
+	sw         *decide.SweepResult
 	set        []int
-	cross      []rank.Crossover
+	cross      []decide.Crossover
 	components bool
 	source     string
 	parts      int
@@ -282,7 +284,7 @@ func (r *sweepReport) table(w io.Writer, markdown bool) error {
 				}
 				rows = append(rows, []string{fmtX(r.sw.Spec.Var, x), r.name(k), fmtP(l.Conduction), fmtP(l.TurnOn + l.TurnOff),
 					fmtP(l.Coss), fmtP(l.DeadTime + l.Recovery), fmtP(l.GateRint + l.Driver()), fmtP(l.Total()), tj,
-					strings.Join(rank.ScreenNames(res.Screens), ", ")})
+					strings.Join(decide.ScreenNames(res.Screens), ", ")})
 			}
 		}
 	} else {

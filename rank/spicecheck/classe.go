@@ -7,17 +7,18 @@ import (
 	"strings"
 
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/evaluate"
+	"swrank/rank/stage"
 )
 
 // ClassEStage is swrank's class E stage for case c: the supply, the design
 // output power, the frequency and the loaded Q, the same driver, and the
 // junction pinned to the simulation's 25 °C.
-func ClassEStage(c *ClassECase) rank.Stage {
-	return rank.Stage{
-		Topology: rank.ClassE,
+func ClassEStage(c *ClassECase) stage.Stage {
+	return stage.Stage{
+		Topology: stage.ClassE,
 		Vin:      q.Voltage(c.Vdd), Pout: q.Power(c.Pout), Fsw: q.Frequency(c.Fsw), QL: q.Ratio(c.QL),
-		Driver: rank.Driver{VOn: q.Voltage(c.VOn), VOff: 0,
+		Driver: stage.Driver{VOn: q.Voltage(c.VOn), VOff: 0,
 			RSource: q.Resistance(c.RSource), RSink: q.Resistance(c.RSink), RgExt: q.Resistance(c.RgExt)},
 		TjFixed: q.Some[q.Temperature](25),
 	}
@@ -44,7 +45,7 @@ type ClassEParts struct {
 // ClassEPartsFor takes the component values from swrank's resolved point
 // (the finite-Q design of rank/resonant: R, L, C₂) and its evaluation of the
 // part (RF.CExternal), and sizes the feed choke to c.FeedRatio.
-func ClassEPartsFor(c *ClassECase, pt *rank.Point, res *rank.Result) ClassEParts {
+func ClassEPartsFor(c *ClassECase, pt *stage.Point, res *evaluate.Result) ClassEParts {
 	e := &pt.RF.E
 	w := 2 * math.Pi * c.Fsw
 	return ClassEParts{

@@ -9,8 +9,10 @@ import (
 
 	"swrank/devices"
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
 	"swrank/rank/resonant"
+	"swrank/rank/stage"
 )
 
 // Tolerances of the class E check (docs/spice-crosscheck.md): "a few per
@@ -27,7 +29,7 @@ const (
 // devices as the switch (reference tool: ngspice 39) and compares the peak
 // switch voltage with swrank's Result.RF.VPeak, the output power with the
 // design's P_o and the stage's loss with swrank's. The tank is simulated
-// twice: with the series capacitor of swrank's design (rank.Point.RF.E.C2,
+// twice: with the series capacitor of swrank's design (stage.Point.RF.E.C2,
 // sized for a linear shunt), and with the excess reactance that
 // rank/resonant's ClassEShunt finds for the device's nonlinear Coss.
 func TestClassEVDMOS(t *testing.T) {
@@ -49,8 +51,8 @@ func TestClassEVDMOS(t *testing.T) {
 	type run struct {
 		c     *ClassECase
 		tank  string // "design C2" or "shunt X"
-		pt    rank.Point
-		res   rank.Result
+		pt    stage.Point
+		res   evaluate.Result
 		parts ClassEParts
 		sim   *ClassEMeasured
 	}
@@ -77,11 +79,11 @@ func TestClassEVDMOS(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", c.Name, err)
 		}
-		dev, err := rank.Prepare(&parts.Parts[0])
+		dev, err := fit.Prepare(&parts.Parts[0])
 		if err != nil {
 			t.Fatalf("%s: %v", c.Name, err)
 		}
-		res := rank.Evaluate(&pt, &dev, nil, nil)
+		res := evaluate.Evaluate(&pt, &dev, nil, nil)
 		res.Dev = nil
 		for k := range res.Devices {
 			res.Devices[k].Dev = nil

@@ -8,7 +8,10 @@ import (
 
 	"swrank/devices"
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/evaluate"
+	"swrank/rank/fit"
+	"swrank/rank/loss"
+	"swrank/rank/stage"
 )
 
 // Component names, in report order.
@@ -29,14 +32,14 @@ var Components = []string{CompConduction, CompTurnOn, CompTurnOff, CompCoss, Com
 // both edges, the rms current of a flat on-state current over the gate duty,
 // the same driver, an ideal partner, and the junction pinned to the
 // simulation's 25 °C.
-func Stage(p *Point, e *CellEnergies) rank.Stage {
-	return rank.Stage{
-		Topology: rank.Custom,
+func Stage(p *Point, e *CellEnergies) stage.Stage {
+	return stage.Stage{
+		Topology: stage.Custom,
 		Vblock:   q.Voltage(e.VBlock),
 		Ion:      q.Current(p.Current), Ioff: q.Current(p.Current),
 		Irms: q.Current(p.Current * math.Sqrt(p.Duty)),
 		Fsw:  q.Frequency(p.Fsw),
-		Driver: rank.Driver{VOn: q.Voltage(p.VOn), VOff: 0,
+		Driver: stage.Driver{VOn: q.Voltage(p.VOn), VOff: 0,
 			RSource: q.Resistance(p.RSource), RSink: q.Resistance(p.RSink), RgExt: q.Resistance(p.RgExt)},
 		TjFixed: q.Some[q.Temperature](25),
 		Derate:  q.Ratio(p.Derate),
@@ -47,17 +50,17 @@ func Stage(p *Point, e *CellEnergies) rank.Stage {
 }
 
 // Predict runs swrank's models for the part at the simulated cell.
-func Predict(part *devices.Part, p *Point, e *CellEnergies) (rank.Result, error) {
+func Predict(part *devices.Part, p *Point, e *CellEnergies) (evaluate.Result, error) {
 	st := Stage(p, e)
 	pt, err := st.Resolve()
 	if err != nil {
-		return rank.Result{}, fmt.Errorf("point %s: %w", p.Name, err)
+		return evaluate.Result{}, fmt.Errorf("point %s: %w", p.Name, err)
 	}
-	dev, err := rank.Prepare(part)
+	dev, err := fit.Prepare(part)
 	if err != nil {
-		return rank.Result{}, fmt.Errorf("point %s: %w", p.Name, err)
+		return evaluate.Result{}, fmt.Errorf("point %s: %w", p.Name, err)
 	}
-	res := rank.Evaluate(&pt, &dev, nil, nil)
+	res := evaluate.Evaluate(&pt, &dev, nil, nil)
 	res.Dev = nil // the prepared device does not outlive this call
 	for i := range res.Devices {
 		res.Devices[i].Dev = nil
@@ -77,7 +80,7 @@ type Row struct {
 	VoltageOnly bool
 	Method      string // swrank's overlap method
 	SimE        *CellEnergies
-	Trans       rank.Transitions // swrank's edge intervals
+	Trans       loss.Transitions // swrank's edge intervals
 	VplOn       float64          // swrank's plateau at the load current
 
 	// Cells with parasitic inductance.
@@ -104,7 +107,7 @@ func (r *Row) OvershootRatio() float64 {
 }
 
 // NewRow pairs a prediction with a simulation.
-func NewRow(dev string, p *Point, res *rank.Result, e *CellEnergies) Row {
+func NewRow(dev string, p *Point, res *evaluate.Result, e *CellEnergies) Row {
 	f := p.Fsw
 	l := res.Losses
 	d := &res.Devices[0]
@@ -114,7 +117,7 @@ func NewRow(dev string, p *Point, res *rank.Result, e *CellEnergies) Row {
 		Eloop: float64(d.Eloop)}
 	if r.Screened {
 		r.ScreenNote = screenNames(res.Screens)
-		r.VoltageOnly = res.Screens == rank.ScreenVoltage
+		r.VoltageOnly = res.Screens == evaluate.ScreenVoltage
 	}
 	r.Pred = map[string]float64{
 		CompConduction: float64(l.Conduction),
@@ -242,16 +245,16 @@ func KendallTau(conc, disc, n int) float64 {
 }
 
 // screenNames spells out the screens that set a part aside.
-func screenNames(s rank.Screens) string {
+func screenNames(s evaluate.Screens) string {
 	names := []struct {
-		s rank.Screens
+		s evaluate.Screens
 		n string
-	}{{rank.ScreenVoltage, "voltage rating"}, {rank.ScreenPeakCurrent, "peak current"},
-		{rank.ScreenRmsCurrent, "rms current"}, {rank.ScreenGateMax, "drive above vgs_max"},
-		{rank.ScreenGateMin, "drive below vgs_min"}, {rank.ScreenBelowThreshold, "drive below threshold"},
-		{rank.ScreenBelowPlateau, "drive below plateau"}, {rank.ScreenTjMax, "tj_max"},
-		{rank.ScreenRunaway, "thermal runaway"}, {rank.ScreenNoOutputCap, "no output-capacitance data"},
-		{rank.ScreenFalseTurnOn, "false turn-on"}}
+	}{{evaluate.ScreenVoltage, "voltage rating"}, {evaluate.ScreenPeakCurrent, "peak current"},
+		{evaluate.ScreenRmsCurrent, "rms current"}, {evaluate.ScreenGateMax, "drive above vgs_max"},
+		{evaluate.ScreenGateMin, "drive below vgs_min"}, {evaluate.ScreenBelowThreshold, "drive below threshold"},
+		{evaluate.ScreenBelowPlateau, "drive below plateau"}, {evaluate.ScreenTjMax, "tj_max"},
+		{evaluate.ScreenRunaway, "thermal runaway"}, {evaluate.ScreenNoOutputCap, "no output-capacitance data"},
+		{evaluate.ScreenFalseTurnOn, "false turn-on"}}
 	var out []string
 	for _, x := range names {
 		if s&x.s != 0 {

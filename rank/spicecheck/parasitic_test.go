@@ -8,7 +8,8 @@ import (
 
 	"swrank/devices"
 	q "swrank/devices/quantity"
-	"swrank/rank"
+	"swrank/rank/fit"
+	"swrank/rank/loss"
 )
 
 // Acceptance limits of the peak drain voltage (docs/spice-crosscheck.md):
@@ -169,20 +170,20 @@ func checkOvershoot(t *testing.T, cfg *Config, s *Suite) {
 // L_cs ∥ R_off·C_iss/g_m in place of L_cs (derived here from the gate-loop
 // equation of docs/second-order.md §1 linearised about the plateau).
 func proposedOvershoot(p *devices.Part, pt *Point, r *Row) (float64, error) {
-	dev, err := rank.Prepare(p)
+	dev, err := fit.Prepare(p)
 	if err != nil {
 		return 0, err
 	}
 	e := r.SimE
 	v, i := q.Voltage(e.VBlock), q.Current(pt.Current)
 	rOff := q.Resistance(pt.RSink+pt.RgExt) + dev.RgInt
-	vpl := rank.PlateauAt(dev.Vth, dev.VplSpec, dev.QgId, i)
-	_, iTop := rank.MillerRiseEnergy(dev.Miller, dev.Oss, v, i, rank.GateCurrent(0, vpl, rOff, 0))
+	vpl := loss.PlateauAt(dev.Vth, dev.VplSpec, dev.QgId, i)
+	_, iTop := loss.MillerRiseEnergy(dev.Miller, dev.Oss, v, i, loss.GateCurrent(0, vpl, rOff, 0))
 	c := float64(dev.Oss.C(v))
 	tif := float64(r.Trans.Tif)
 	lRing := e.Par.Lcs
 	if iTop > 0 && p.Ciss.OK {
-		gm := 2 * float64(iTop) / float64(rank.PlateauAt(dev.Vth, dev.VplSpec, dev.QgId, iTop)-dev.Vth)
+		gm := 2 * float64(iTop) / float64(loss.PlateauAt(dev.Vth, dev.VplSpec, dev.QgId, iTop)-dev.Vth)
 		lfb := float64(rOff) * float64(p.Ciss.V) / gm
 		lRing = 1 / (1/e.Par.Lcs + 1/lfb)
 		if e.Par.Lcs == 0 {

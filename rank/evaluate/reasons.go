@@ -1,0 +1,84 @@
+package evaluate
+
+import (
+	"fmt"
+	"swrank/rank/loss"
+)
+
+// Reasons explains why the part is screened, one sentence a reason.
+func (r *Result) Reasons() []string {
+	var out []string
+	for i := 0; i < r.N; i++ {
+		d := &r.Devices[i]
+		if d.Screens == 0 {
+			continue
+		}
+		p := d.Dev.Part
+		s := d.Screens
+		who := p.Name
+		if r.N > 1 {
+			who = fmt.Sprintf("%s (%s)", p.Name, d.Role)
+		}
+		add := func(format string, a ...any) { out = append(out, who+": "+fmt.Sprintf(format, a...)) }
+		if s&ScreenVoltage != 0 {
+			v := max(d.Vpeak, d.Stress.V)
+			if r.RF.VPeak > 0 {
+				add("peak switch voltage %s (with this part's own output capacitance in the resonant stage) exceeds %.0f %% of vds_max %s",
+					r.RF.VPeak, 100*float64(r.Derate), p.VdsMax)
+			} else if v > d.Stress.V {
+				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %.0f %% of vds_max %s",
+					v, d.Stress.V, 100*float64(r.Derate), p.VdsMax)
+			} else {
+				add("drain voltage %s exceeds %.0f %% of vds_max %s", v, 100*float64(r.Derate), p.VdsMax)
+			}
+		}
+		if s&ScreenPeakCurrent != 0 {
+			add("peak current %s exceeds id_pulse %s", d.Stress.IPeak, p.IdPulse.V)
+		}
+		if s&ScreenRmsCurrent != 0 {
+			add("rms current %s exceeds the continuous rating derated to the case temperature, %s", d.Stress.IRms, d.IdLimit)
+		}
+		if s&ScreenGateMax != 0 {
+			add("gate drive exceeds vgs_max %s", p.VgsMax)
+		}
+		if s&ScreenGateMin != 0 {
+			add("off-level gate drive below vgs_min %s", d.Dev.VgsMin)
+		}
+		if s&ScreenBelowThreshold != 0 {
+			add("gate drive does not exceed the threshold %s", d.Dev.Vth)
+		}
+		if s&ScreenBelowPlateau != 0 {
+			add("gate drive does not exceed the plateau %s at the peak current %s", loss.PlateauAt(d.Dev.Vth, d.Dev.VplSpec, d.Dev.QgId, d.Stress.IPeak), d.Stress.IPeak)
+		}
+		if s&ScreenTjMax != 0 {
+			if d.Thermal.Found {
+				add("junction temperature %s exceeds tj_max %s", d.Thermal.Tj, d.Dev.TjMax)
+			} else {
+				add("no steady junction temperature below %s", d.Dev.TjMax)
+			}
+		}
+		if s&ScreenFalseTurnOn != 0 {
+			f := &d.FalseOn
+			if f.Bounce == 0 {
+				add("false turn-on: the off level does not hold the gate below its hot threshold %s", f.Vth)
+			} else {
+				add("false turn-on: dv/dt lifts the off gate by %s, beyond its hot threshold %s (margin %s)",
+					f.Bounce, f.Vth, f.Margin)
+			}
+		}
+		if s&ScreenShuntTooSmall != 0 {
+			add("its output capacitance (%s over the swing) exceeds the %s shunt capacitance the class E design needs; it holds class E only up to %s",
+				r.RF.CDevice, r.RF.CRequired, r.RF.FMax)
+		}
+		if s&ScreenTooSlow != 0 {
+			add("its current fall time %s is too long a part of the period for class E", r.RF.Tf)
+		}
+		if s&ScreenNoOutputCap != 0 {
+			add("its output-capacitance law cannot be evaluated over this swing")
+		}
+		if s&ScreenRunaway != 0 {
+			add("thermal runaway: the loss rises faster with temperature than the heat path removes it (no steady temperature up to %s)", d.Dev.TjMax+500)
+		}
+	}
+	return out
+}

@@ -1,0 +1,262 @@
+package evaluate
+
+import (
+	"math"
+	"swrank/devices"
+	q "swrank/devices/quantity"
+	"swrank/rank/fit"
+	"swrank/rank/loss"
+	"swrank/rank/resonant"
+	"swrank/rank/stage"
+	"swrank/rank/thermal"
+)
+
+// RFResult is what a resonant stage adds to a part's result.
+type RFResult struct {
+	VPeak     q.Voltage     // peak switch voltage with the part's own output capacitance, V
+	IPeak     q.Current     // peak switch current, A
+	CRequired q.Capacitance // class E: shunt capacitance the design needs, F
+	CDevice   q.Capacitance // class E: the part's charge-equivalent share of it, Q_oss(VPeak)/VPeak, F
+	CExternal q.Capacitance // class E: linear capacitor still to add, F
+	FMax      q.Frequency   // class E: highest frequency the part can hold class E at this power and supply, Hz
+	// XExcess is the excess series reactance that keeps nominal class E
+	// with this part's capacitance in the shunt, Ω (the series capacitor
+	// follows from it and the tank's inductance).
+	XExcess q.Resistance
+	Tf      q.Time // current fall time at turn-off, s
+	// Class D: the turn-on edge.
+	ZVS       bool      // full zero-voltage turn-on
+	VResidual q.Voltage // voltage left across the switch at its turn-on, V
+	Diode     bool      // the partner's body diode is recovered at turn-on (below resonance)
+	// Efficiencies as fractions: the power stage alone, and with the gate
+	// drivers counted (P_o over the supply power of stage and drivers).
+	EffStage, EffWithDriver q.Ratio
+	Hysteresis              bool // an output-capacitance hysteresis loss was counted
+}
+
+// fallTime is the channel's current-fall time at turn-off of current i:
+// the gate-charge method's current interval, or the datasheet tf rescaled
+// to this gate loop (loss.GateChargeTransitions, loss.ScaleSwitchingTime).
+func fallTime(d *fit.Device, drv *stage.Driver, i q.Current) q.Time {
+	rOff := drv.RSink + drv.RgExt + d.RgInt
+	vpl := loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i)
+	if d.Method == fit.MethodGateCharge {
+		c := d.Curve(0, i, 0)
+		loop := loss.GateLoop{VOn: drv.VOn, VOff: drv.VOff, ROn: rOff, ROff: rOff, IPkOff: drv.IPeakSink}
+		return loss.GateChargeTransitions(c.Qgs2, 0, d.Vth, vpl, loop, true).Tif
+	}
+	r := rOff
+	if drv.IPeakSink > 0 {
+		r = max(r, q.Resistance(float64(vpl-drv.VOff)/float64(drv.IPeakSink)))
+	}
+	if !d.TswOK {
+		return loss.ScaleSwitchingTime(d.Part.Tf.V, 0, r, 0, vpl-drv.VOff)
+	}
+	return loss.ScaleSwitchingTime(d.Part.Tf.V, d.TswR, r, d.TswHead[1], vpl-drv.VOff)
+}
+
+// softGate fills the gate-drive losses of a switch whose edges are
+// soft-switched (no Miller plateau: the drain sits near 0 V while the gate
+// moves), as for the synchronous switch of a converter.
+func softGate(out *DeviceResult, d *fit.Device, drv *stage.Driver, i q.Current, f float64) {
+	c := d.Curve(0, i, 0)
+	out.Qg = c.Charge(drv.VOn) - c.Charge(drv.VOff)
+	out.Egate = loss.GateEnergy(c, drv.VOff, drv.VOn)
+	split := loss.SplitGateEnergy(out.Egate, c.StoredEnergy(drv.VOff, drv.VOn), drv.RSource, drv.RSink, drv.RgExt, d.RgInt)
+	if d.Method != fit.MethodGateCharge {
+		out.Qg = d.Part.Qg * q.Charge((drv.VOn-drv.VOff)/d.Part.QgVgs)
+		out.Egate = q.Energy(float64(out.Qg) * float64(drv.VOn-drv.VOff))
+		split = loss.SplitGateEnergy(out.Egate, out.Egate/2, drv.RSource, drv.RSink, drv.RgExt, d.RgInt)
+	}
+	out.Losses.GateDriver = q.Power(float64(split.Driver) * f)
+	out.Losses.GateRext = q.Power(float64(split.Rext) * f)
+	out.Losses.GateRint = q.Power(float64(split.Rint) * f)
+	out.Losses.DriverQuiescent = q.Power(float64(drv.VOn-drv.VOff) * float64(drv.IQ))
+}
+
+// rfScreens applies the screens of a resonant stage.
+func rfScreens(out *DeviceResult, d *fit.Device, s *stage.Stage, vpeak q.Voltage) {
+	p := d.Part
+	drv := &s.Driver
+	out.Vpeak = vpeak
+	if vpeak > q.Voltage(s.Derate)*p.VdsMax {
+		out.Screens |= ScreenVoltage
+	}
+	driveScreens(out, d, drv, loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, out.Stress.IPeak))
+}
+
+// rfThermal solves the junction temperature with the loss `fixed` that does
+// not depend on it, sets the conduction loss, and applies the thermal and
+// current-rating screens.
+func rfThermal(out *DeviceResult, d *fit.Device, s *stage.Stage, fixed q.Power) {
+	p := d.Part
+	r0 := d.Gate.At(max(s.Driver.VOn, d.Vth+0.1))
+	rthv, fl := rth(p, s)
+	out.Rth, out.Flags = rthv, out.Flags|fl
+	m := thermal.Model{Fixed: fixed, Cond: loss.Conduction(out.Stress.IRms, r0), Law: &d.Temp}
+	tj := junction(&out.Thermal, &m, s, rthv, d.TjMax)
+	out.Rds = r0 * q.Resistance(d.Temp.Factor(tj))
+	out.Losses.Conduction = loss.Conduction(out.Stress.IRms, out.Rds)
+	switch {
+	case out.Thermal.Status == thermal.Runaway:
+		out.Screens |= ScreenRunaway
+	case out.Thermal.Status == thermal.AboveMax || out.Thermal.Tj > d.TjMax:
+		out.Screens |= ScreenTjMax
+	default:
+		tc := tj
+		if p.RthJC.OK && out.Flags&fit.FlagRthJCOnly == 0 {
+			tc = tj - q.Temperature(float64(p.RthJC.V)*float64(out.Losses.Switch()))
+		} else if out.Flags&fit.FlagRthJCOnly != 0 {
+			tc = s.Ambient
+		}
+		out.IdLimit = loss.CurrentRatingAt(p.IdMax, d.TjMax, tc)
+		if out.Stress.IRms > out.IdLimit {
+			out.Screens |= ScreenRmsCurrent
+		}
+	}
+}
+
+// evaluateRF evaluates a part in a class E or class D stage.
+func evaluateRF(r *Result, pt *stage.Point, dev *fit.Device, tr *Trace) {
+	if pt.Stage.Topology == stage.ClassE {
+		r.N = 1
+		evalClassE(r, pt, dev, tr)
+		return
+	}
+	r.N = 2
+	evalClassD(r, pt, dev, tr)
+}
+
+func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
+	s := &pt.Stage
+	e := &pt.RF.E
+	f := float64(s.Fsw)
+	out := &r.Devices[0]
+	*out = DeviceResult{Dev: d, Role: RoleControl, Method: d.Method, Flags: d.Flags, Stress: pt.Ctrl}
+	rf := &r.RF
+	sh, err := resonant.ClassEShunt(*e, d.Oss.Q)
+	if err != nil {
+		out.Screens |= ScreenNoOutputCap
+		sh.VPeak = e.VPeak
+	}
+	rf.VPeak, rf.IPeak, rf.CRequired = sh.VPeak, e.IPeak, e.C1
+	rf.CDevice, rf.CExternal, rf.FMax, rf.XExcess = sh.CDevice, sh.CExternal, sh.FMax, sh.X
+	if sh.DeviceTooLarge {
+		out.Screens |= ScreenShuntTooSmall
+	}
+	rf.Tf = fallTime(d, &s.Driver, e.IOff)
+	to, err := resonant.ClassETurnOff(*e, rf.Tf)
+	if err != nil {
+		// Beyond the model's range (ω·t_f above MaxTurnOffAngle): too slow
+		// to hold class E; count the small-t_f estimate and screen.
+		out.Screens |= ScreenTooSlow
+		p, _ := resonant.ClassETurnOffSmall(*e, rf.Tf)
+		to.TurnOff = p
+	}
+	out.Losses.TurnOff = to.TurnOff
+	out.Losses.TurnOn = to.TurnOn
+	out.Eoff = q.Energy(float64(to.TurnOff) / f)
+	if p := d.Part; p.EossLoss.OK && p.EossLossVds.OK {
+		h, err := resonant.HysteresisLoss(resonant.Hysteresis{E: p.EossLoss.V, VStated: p.EossLossVds.V}, sh.VPeak, s.Fsw)
+		if err == nil {
+			out.Losses.Coss = h
+			rf.Hysteresis = true
+		}
+	} else {
+		out.Flags |= fit.FlagNoHysteresis
+	}
+	softGate(out, d, &s.Driver, e.IOff, f)
+	rfScreens(out, d, s, sh.VPeak)
+	rfThermal(out, d, s, out.Losses.Switch())
+	l := out.Losses
+	rf.EffStage, rf.EffWithDriver, _ = resonant.Efficiency(s.Pout, l.Switch(), l.Driver())
+	if tr != nil {
+		tr.add("control", "class E design", "ideal class E at 50 % duty (Sokal & Sokal 1975; Raab 1977), finite-Q solver when --ql is given",
+			T("VDD", s.Vin), T("R load", e.R), T("P out", e.Po), T("I dc", e.IDC), T("I rms", e.IRms),
+			T("I peak", e.IPeak), T("I at turn-off", e.IOff), T("V peak (linear shunt)", e.VPeak), T("C1 required", e.C1))
+		tr.add("control", "shunt", "device share of C1: Q_oss(V_peak)/V_peak with the part's own law; external capacitor = what is left",
+			T("V peak", sh.VPeak), T("C device", sh.CDevice), T("C external", sh.CExternal), T("excess reactance", sh.X), T("f max", sh.FMax))
+		tr.add("control", "turn-off", "linear current fall in t_f inside the periodic steady state (≈ (ω·t_f)²/12·P_o)",
+			T("t_f", rf.Tf), T("P turn-off", out.Losses.TurnOff), T("P turn-on", out.Losses.TurnOn))
+		note := "no eoss_loss column: output-capacitance hysteresis not counted"
+		if rf.Hysteresis {
+			note = "eoss_loss scaled as (V/V_stated)^1.5"
+		}
+		tr.add("control", "hysteresis", note, T("P", out.Losses.Coss))
+		tr.add("control", "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f at zero drain voltage (soft edges)",
+			T("Qg moved", out.Qg), T("E gate/cycle", out.Egate), T("driver", out.Losses.GateDriver),
+			T("Rg ext", out.Losses.GateRext), T("Rg int", out.Losses.GateRint))
+		tr.add("control", "conduction", "P = I_rms²·Rds(on)(Vgs, Tj)", T("I rms", out.Stress.IRms), T("Rds", out.Rds),
+			T("P", out.Losses.Conduction), T("Tj", out.Thermal.Tj))
+		tr.add("control", "efficiency", "η_stage = Po/(Po + P_switch); η with driver = Po/(Po + P_switch + P_driver)",
+			N("eff stage", float64(rf.EffStage)), N("eff with driver", float64(rf.EffWithDriver)))
+	}
+}
+
+func evalClassD(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
+	s := &pt.Stage
+	cd := &pt.RF.D
+	f := float64(s.Fsw)
+	rf := &r.RF
+	edge, err := resonant.ClassDTurnOn(*cd, d.Oss.Q, d.Oss.Q)
+	for k, role := range []Role{RoleControl, RoleSync} {
+		out := &r.Devices[k]
+		*out = DeviceResult{Dev: d, Role: role, Method: d.Method, Flags: d.Flags, Stress: pt.Ctrl}
+		if err != nil {
+			out.Screens |= ScreenNoOutputCap
+			continue
+		}
+		out.Ecoss = edge.ETurnOn
+		out.Losses.Coss = q.Power(float64(edge.ETurnOn) * f)
+		i := q.Current(math.Abs(float64(cd.ISwitch)))
+		tf := fallTime(d, &s.Driver, i)
+		rf.Tf = tf
+		if cd.Phase > 0 {
+			cnode, err2 := resonant.NodeCapacitance(d.Oss.Q, d.Oss.Q, s.Vin)
+			if err2 == nil {
+				eoff, err3 := resonant.ZVSTurnOffEnergy(i, tf, cnode, s.Vin)
+				if err3 == nil {
+					out.Eoff = eoff
+					out.Losses.TurnOff = q.Power(float64(eoff) * f)
+				}
+			}
+		}
+		// Body-diode conduction per edge: this switch's own diode after a
+		// full transition, or (below resonance) the partner's, by symmetry
+		// the same per switch and period.
+		vsd := d.ReverseDrop(i, s.Driver.VOff, 25)
+		out.Edead = q.Energy(float64(vsd) * float64(i) * float64(edge.TDiode))
+		out.Losses.DeadTime = q.Power(float64(out.Edead) * f)
+		if edge.PartnerDiode && d.Part.Technology != devices.GaN && d.Part.Qrr.OK {
+			out.Erec = loss.RecoveryEnergy(d.Part.Qrr.V, s.Vin)
+			out.Losses.Recovery = q.Power(float64(out.Erec) * f)
+		}
+		// Gate charge at zero drain voltage: the Miller charge of a partial
+		// swing is not counted (docs/resonant.md).
+		softGate(out, d, &s.Driver, i, f)
+		rfScreens(out, d, s, s.Vin)
+		rfThermal(out, d, s, out.Losses.Switch())
+	}
+	rf.ZVS, rf.VResidual, rf.Diode = edge.ZVS, edge.VResidual, edge.PartnerDiode
+	rf.VPeak, rf.IPeak = s.Vin, cd.Im
+	var sw, dr q.Power
+	for k := 0; k < 2; k++ {
+		sw += r.Devices[k].Losses.Switch()
+		dr += r.Devices[k].Losses.Driver()
+	}
+	rf.EffStage, rf.EffWithDriver, _ = resonant.Efficiency(s.Pout, sw, dr)
+	if tr != nil {
+		tr.add("", "class D tank", "series-resonant load, fundamental approximation (Kazimierczuk & Czarkowski 2011, ch. 2)",
+			T("V in", s.Vin), T("R load", cd.R), T("P out", cd.Po), N("phase (rad)", float64(cd.Phase)), T("I m", cd.Im),
+			T("I at the edges", cd.ISwitch), T("Q movable in dead time", cd.QDead))
+		tr.add("", "turn-on edge", "partial ZVS: E = E_S(V_r) + V·[Q_K(V) − Q_K(V−V_r)] − [E_K(V) − E_K(V−V_r)]",
+			T("Q needed", edge.QNeeded), T("V residual", edge.VResidual), T("E turn-on", edge.ETurnOn), T("t diode", edge.TDiode))
+		for k := 0; k < 2; k++ {
+			o := &r.Devices[k]
+			tr.add(o.Role.String(), "losses", "per switch: conduction (I_m/2)²·R, turn-on edge, capacitive turn-off I²·t_f²/(24·C_node), diode, gate",
+				T("t_f", rf.Tf), T("conduction", o.Losses.Conduction), T("turn-on", o.Losses.Coss),
+				T("turn-off", o.Losses.TurnOff), T("diode", o.Losses.DeadTime), T("recovery", o.Losses.Recovery),
+				T("gate driver", o.Losses.GateDriver), T("Tj", o.Thermal.Tj))
+		}
+	}
+}

@@ -1,0 +1,397 @@
+package fit
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"swrank/devices"
+	q "swrank/devices/quantity"
+	"swrank/rank/loss"
+)
+
+// Technology defaults (used when the CSV leaves a value blank).
+const (
+	// Temperature exponents of the on-resistance power law in kelvin.
+	// Silicon above 60 V: drift-dominated, α ≈ 2.0-2.5 (Baliga 2008);
+	// low-voltage trench silicon: effective α ≈ 1.2-1.6 (common practice);
+	// GaN: about 2× from 25 to 150 °C (common practice, from memory);
+	// SiC: about 1.4× from 25 to 150 °C (common practice, from memory).
+	alphaSiHV                  = 2.3
+	alphaSiLV                  = 1.5
+	alphaGaN                   = 2.0
+	alphaSiC                   = 0.95
+	defaultTjMax q.Temperature = 150
+	// Body-diode drops: silicon 0.8 V, SiC 3.5 V (common practice, from
+	// memory); GaN reverse conduction is Vth + |Voff| + I·R (team notes).
+	vsdSi  q.Voltage = 0.8
+	vsdSiC q.Voltage = 3.5
+	// Threshold (and plateau) temperature coefficients, V/K, for a
+	// threshold stated at 25 °C: silicon about −5 mV/K, silicon carbide
+	// about −5 mV/K, GaN HEMTs much flatter, about −1 mV/K (common practice,
+	// from memory; low confidence for GaN, whose parts differ).
+	vthTCSi  = -5e-3
+	vthTCSiC = -5e-3
+	vthTCGaN = -1e-3
+	// Forward-drop coefficient of a p-n body diode (silicon and SiC), V/K,
+	// for a vsd taken at 25 °C (common practice; SiC from memory).
+	vsdTC = -2e-3
+	// SiC parts are specified and usually driven at 15-20 V on (common
+	// practice, from memory).
+	SiCDriveMin q.Voltage = 15
+)
+
+// Method is how the hard-switching overlap of a device was computed.
+type Method uint8
+
+// Methods.
+const (
+	MethodGateCharge Method = iota // gate-charge intervals (Qgs2, Qgd, plateau, gate current)
+	MethodTimes                    // datasheet tr/tf rescaled to the user's gate loop
+)
+
+func (m Method) String() string {
+	if m == MethodTimes {
+		return "tr/tf"
+	}
+	return "gate-charge"
+}
+
+// Device is a part prepared for evaluation: the laws the models need,
+// fitted once from the datasheet values. Prepare builds it; it is read-only
+// afterwards and safe to share between goroutines.
+type Device struct {
+	Part *devices.Part
+
+	Gate    loss.GateLaw  // on-resistance against gate voltage at T0
+	Temp    loss.TempLaw  // on-resistance against temperature
+	VgsLow  q.Voltage     // lowest gate voltage of the on-resistance data
+	Oss     loss.OssLaw   // output capacitance law
+	OssV    q.Voltage     // voltage of the output-capacitance data
+	Method  Method        // how overlap losses are computed
+	Vth     q.Voltage     // threshold, V
+	VplSpec q.Voltage     // plateau at QgId (estimated when not given)
+	QgId    q.Current     // current of the gate-charge (plateau) data
+	QgVds   q.Voltage     // drain voltage of the gate-charge data
+	Qth     q.Charge      // charge to the threshold
+	Qgs2    q.Charge      // charge from threshold to plateau at QgId
+	Qgd     q.Charge      // Miller charge at QgVds
+	Slope   q.Capacitance // gate charge per volt above the plateau
+	RgInt   q.Resistance
+	TjMax   q.Temperature
+	VgsMin  q.Voltage
+
+	// Datasheet switching-time test, for MethodTimes.
+	TswR    q.Resistance // test gate loop: tsw_rg + tsw_rgen + rg_int
+	TswHead [2]q.Voltage // test headroom at turn-on (Vgs − Vpl) and turn-off (Vpl)
+	TswOK   bool         // the test conditions were given
+
+	// Temperature laws beyond the on-resistance (docs/second-order.md).
+	VthTC float64 // threshold and plateau coefficient, V/K (technology default)
+	VsdTC float64 // body-diode drop coefficient, V/K (0 for GaN: its drop follows Vth and R)
+	// VthOwn and VsdOwn are true when the coefficients come from the part's
+	// own hot values (vgs_th_hot, vsd_hot) rather than the defaults.
+	VthOwn, VsdOwn bool
+	Qrr            loss.QrrLaw // own recovered charge against temperature (Q0 = 0: none)
+	// QrrHot is true when the recovery law comes from the part's own hot point.
+	QrrHot bool
+
+	// Dynamic on-resistance: factor DynK (≥ 1; 0 when not given) after
+	// blocking DynV (0: voltage unknown).
+	DynK q.Ratio
+	DynV q.Voltage
+
+	// Package parasitics, H (0 when not given).
+	Lcs   q.Inductance // common-source inductance
+	Lloop q.Inductance // package share of the power loop
+
+	// Gate capacitances for the false-turn-on screen.
+	Cgs  q.Capacitance // gate-source, F (0: unknown)
+	Crss q.Capacitance // small-signal Crss at CrssV, F (0: not given)
+	// Miller is Cgd(v) with a knee (MillerLaw), when HasMiller: the
+	// gate-charge method with crss given.
+	Miller    loss.MillerLaw
+	HasMiller bool
+	// Rise is the turn-off integral's part that belongs to the device
+	// (loss.RiseBase of Miller and Oss), when HasMiller.
+	Rise loss.RiseIntegral
+	// RisePow is the series of that integral's a^(−1/N) (loss.RiseSeries).
+	RisePow loss.PowSeries
+	CrssV   q.Voltage // voltage of Crss, V
+	CgsEst  bool      // Cgs estimated from the gate charge to the plateau
+
+	Flags Flags // fallbacks that belong to the part, whatever the operating point
+}
+
+// Prepare fits the models' laws to a validated part.
+func Prepare(p *devices.Part) (Device, error) {
+	d := Device{Part: p, Vth: p.VgsTh, RgInt: p.RgInt.V}
+	if !p.RgInt.OK {
+		d.Flags |= FlagRgIntAssumed
+	}
+	d.TjMax = p.TjMax.Or(defaultTjMax)
+	if !p.TjMax.OK {
+		d.Flags |= FlagTjMaxDefault
+	}
+	switch {
+	case p.VgsMin.OK:
+		d.VgsMin = p.VgsMin.V
+	case p.Technology == devices.GaN:
+		d.VgsMin, d.Flags = 0, d.Flags|FlagVgsMinDefault
+	default:
+		// Flagged at evaluation, and only for a negative off level: a
+		// 0 V off level is inside any silicon or SiC gate rating.
+		d.VgsMin = -p.VgsMax
+	}
+	if !p.IdPulse.OK {
+		d.Flags |= FlagIdPulseMissing
+	}
+
+	// On-resistance against gate voltage at the reference temperature.
+	if p.RdsOn <= 0 || p.RdsOnVgs <= p.VgsTh {
+		return Device{}, fmt.Errorf("part %s: rds_on_vgs must exceed vgs_th", p.Name)
+	}
+	d.VgsLow = p.RdsOnVgs
+	if p.RdsOn2.OK && p.RdsOn2Vgs.OK && p.RdsOn2Vgs.V != p.RdsOnVgs && p.RdsOn2Vgs.V > p.VgsTh {
+		var ok bool
+		d.Gate, ok = loss.FitGateLaw(p.RdsOnVgs, p.RdsOn, p.RdsOn2Vgs.V, p.RdsOn2.V, p.VgsTh)
+		if !ok {
+			d.Flags |= FlagRdsFitClamped
+		}
+		d.VgsLow = min(p.RdsOnVgs, p.RdsOn2Vgs.V)
+	} else {
+		d.Gate = loss.SinglePointGateLaw(p.RdsOnVgs, p.RdsOn, p.VgsTh)
+		d.Flags |= FlagRdsOnePoint
+	}
+
+	// On-resistance against temperature.
+	d.Temp.T0 = p.RdsOnTj.Or(25)
+	switch {
+	case strings.TrimSpace(p.RdsCurve) != "":
+		pts, err := p.Curve()
+		if err != nil {
+			return Device{}, fmt.Errorf("part %s: rds_on_curve: %w", p.Name, err)
+		}
+		for i, c := range pts {
+			if i == len(d.Temp.Pts) {
+				break
+			}
+			d.Temp.Pts[i] = [2]float64{float64(c.Tj), float64(c.Factor)}
+			d.Temp.NPts = i + 1
+		}
+		d.Temp.Prepare()
+	case p.RdsHot.OK && p.RdsHotTj.OK && p.RdsHotTj.V != d.Temp.T0:
+		d.Temp.Alpha = loss.FitTempExponent(p.RdsOn, d.Temp.T0, p.RdsHot.V, p.RdsHotTj.V)
+	default:
+		d.Flags |= FlagTempDefault
+		switch {
+		case p.Technology == devices.GaN:
+			d.Temp.Alpha = alphaGaN
+		case p.Technology == devices.SiC:
+			d.Temp.Alpha = alphaSiC
+		case p.VdsMax > 60:
+			d.Temp.Alpha = alphaSiHV
+		default:
+			d.Temp.Alpha = alphaSiLV
+		}
+	}
+
+	// Output capacitance.
+	switch {
+	case p.Qoss.OK && p.Eoss.OK && p.OssVds.OK:
+		d.Oss, d.OssV = loss.OssFromChargeEnergy(p.Qoss.V, p.Eoss.V, p.OssVds.V), p.OssVds.V
+	case p.Qoss.OK && p.OssVds.OK:
+		d.Oss, d.OssV = loss.OssFromCharge(p.Qoss.V, p.OssVds.V), p.OssVds.V
+		d.Flags |= FlagOssSqrtLaw
+	case p.Coss.OK && p.CapVds.OK:
+		d.Oss, d.OssV = loss.OssFromCapacitance(p.Coss.V, p.CapVds.V), p.CapVds.V
+		d.Flags |= FlagOssSqrtLaw
+	default:
+		return Device{}, fmt.Errorf("part %s: needs coss with cap_vds, or qoss with oss_vds", p.Name)
+	}
+
+	// Gate charge.
+	d.QgVds = p.QgVds.Or(p.VdsMax / 2)
+	if !p.QgVds.OK {
+		d.Flags |= FlagQgVdsAssumed
+	}
+	d.QgId = p.QgId.Or(p.IdMax)
+	if !p.QgId.OK {
+		d.Flags |= FlagQgIdAssumed
+	}
+	d.VplSpec = p.VPlateau.Or(p.VgsTh + 1)
+	if !p.VPlateau.OK {
+		d.Flags |= FlagPlateauEstimated
+	}
+	if p.Qgs.OK && p.Qgd.OK && p.VPlateau.OK && p.VPlateau.V > p.VgsTh && p.QgVgs > p.VPlateau.V {
+		d.Method = MethodGateCharge
+		if p.QgTh.OK && p.QgTh.V < p.Qgs.V {
+			d.Qth, d.Qgs2 = p.QgTh.V, p.Qgs.V-p.QgTh.V
+		} else {
+			d.Qth, d.Qgs2 = p.Qgs.V/2, p.Qgs.V/2
+			d.Flags |= FlagQgThAssumed
+		}
+		d.Qgd = p.Qgd.V
+		d.Slope = q.Capacitance(math.Max(0, float64(p.Qg-p.Qgs.V-p.Qgd.V)) / float64(p.QgVgs-p.VPlateau.V))
+	} else if p.Tr.OK && p.Tf.OK {
+		d.Method = MethodTimes
+		d.Flags |= FlagGateLinear
+		if p.TswVgs.OK && (p.TswRg.OK || p.TswRgen.OK) {
+			d.TswOK = true
+			d.TswR = p.TswRg.V + p.TswRgen.V + d.RgInt
+			vpl := d.VplSpec
+			if p.TswId.OK {
+				vpl = loss.PlateauAt(p.VgsTh, d.VplSpec, d.QgId, p.TswId.V)
+			}
+			d.TswHead = [2]q.Voltage{p.TswVgs.V - vpl, vpl}
+		} else {
+			d.Flags |= FlagTswNoConditions
+		}
+	} else {
+		return Device{}, fmt.Errorf("part %s: needs qgs, qgd and v_plateau, or tr and tf", p.Name)
+	}
+	if err := d.prepareSecondOrder(); err != nil {
+		return Device{}, err
+	}
+	if d.Method == MethodGateCharge && d.Crss > 0 && d.QgVds > 0 && d.Qgd > 0 {
+		d.Miller, d.HasMiller = loss.FitMillerLaw(d.Qgd, d.QgVds, d.Crss, d.VplSpec), true
+		d.Rise = loss.RiseBase(d.Miller, d.Oss)
+		if d.Oss.N > 0 {
+			d.RisePow = loss.RiseSeries(d.Oss)
+		}
+	} else if d.Method == MethodGateCharge {
+		d.Flags |= FlagMillerLumped
+	}
+	return d, nil
+}
+
+// prepareSecondOrder fills the laws of docs/second-order.md: temperature
+// coefficients, the recovery law, dynamic on-resistance, package parasitics
+// and the gate capacitances of the false-turn-on screen.
+func (d *Device) prepareSecondOrder() error {
+	p := d.Part
+	bad := func(field, format string, a ...any) error {
+		return fmt.Errorf("part %s: %s: %s", p.Name, field, fmt.Sprintf(format, a...))
+	}
+	switch p.Technology {
+	case devices.GaN:
+		d.VthTC = vthTCGaN
+	case devices.SiC:
+		d.VthTC, d.VsdTC = vthTCSiC, vsdTC
+	default:
+		d.VthTC, d.VsdTC = vthTCSi, vsdTC
+	}
+	// The part's own hot points replace the defaults (vgs_th is at 25 °C;
+	// vsd at its stated temperature, taken as 25 °C).
+	if p.VgsThHot.OK && p.VgsThHotTj.OK && p.VgsThHotTj.V != 25 {
+		d.VthTC, d.VthOwn = float64(p.VgsThHot.V-p.VgsTh)/float64(p.VgsThHotTj.V-25), true
+	}
+	if p.Technology != devices.GaN && p.Vsd.OK && p.VsdHot.OK && p.VsdHotTj.OK && p.VsdHotTj.V != 25 {
+		d.VsdTC, d.VsdOwn = float64(p.VsdHot.V-p.Vsd.V)/float64(p.VsdHotTj.V-25), true
+	}
+
+	// Recovery (GaN has none).
+	if p.Technology != devices.GaN && p.Qrr.OK {
+		if p.Qrr.V < 0 {
+			return bad("qrr", "must be ≥ 0 C (got %s)", p.Qrr.V)
+		}
+		t0 := p.QrrTj.Or(25)
+		hot := p.QrrHot.OK && p.QrrHotTj.OK
+		if hot && (p.QrrHot.V < 0 || p.QrrHotTj.V == t0) {
+			return bad("qrr_hot", "needs a charge ≥ 0 at a qrr_hot_tj other than qrr_tj (%s)", t0)
+		}
+		d.Qrr, d.QrrHot = loss.FitQrrLaw(p.Qrr.V, t0, p.QrrHot.V, p.QrrHotTj.V, hot), hot
+	}
+
+	// Dynamic on-resistance.
+	if p.RdsDyn.OK {
+		if !(p.RdsDyn.V >= 1) || math.IsInf(float64(p.RdsDyn.V), 0) {
+			return bad("rds_dyn", "factor must be ≥ 1 (got %g)", float64(p.RdsDyn.V))
+		}
+		d.DynK = p.RdsDyn.V
+		if p.RdsDynVds.OK {
+			if !(p.RdsDynVds.V > 0) {
+				return bad("rds_dyn_vds", "must be > 0 V (got %s)", p.RdsDynVds.V)
+			}
+			d.DynV = p.RdsDynVds.V
+		}
+	}
+
+	// Package parasitics.
+	if p.Lcs.OK {
+		if !(p.Lcs.V >= 0) {
+			return bad("l_cs", "must be ≥ 0 H (got %s)", p.Lcs.V)
+		}
+		d.Lcs = p.Lcs.V
+	}
+	if p.Lloop.OK {
+		if !(p.Lloop.V >= 0) {
+			return bad("l_loop", "must be ≥ 0 H (got %s)", p.Lloop.V)
+		}
+		d.Lloop = p.Lloop.V
+	}
+
+	// Gate capacitances: Cgs = Ciss − Crss at cap_vds (Cgs hardly depends
+	// on the drain voltage); else the charge to the plateau over the
+	// plateau voltage.
+	if p.Crss.OK && p.CapVds.OK && p.Crss.V > 0 && p.CapVds.V > 0 {
+		d.Crss, d.CrssV = p.Crss.V, p.CapVds.V
+	}
+	switch {
+	case p.Ciss.OK && p.Crss.OK && p.Ciss.V > p.Crss.V:
+		d.Cgs = p.Ciss.V - p.Crss.V
+	case d.Method == MethodGateCharge:
+		d.Cgs, d.CgsEst = q.Capacitance(float64(d.Qth+d.Qgs2)/float64(d.VplSpec)), true
+	}
+	return nil
+}
+
+// ThresholdAt is the threshold at junction temperature tj.
+func (d *Device) ThresholdAt(tj q.Temperature) q.Voltage { return loss.ThresholdAt(d.Vth, d.VthTC, tj) }
+
+// CgdAt is the charge-equivalent gate-drain capacitance over a swing from 0
+// to v, Qgd(v)/v: from the Miller charge when it is known, else from Crss at
+// its voltage with the √ law (charge 2·Crss·√(V0·v)). 0 when neither is
+// given.
+func (d *Device) CgdAt(v q.Voltage) q.Capacitance {
+	if v <= 0 {
+		return 0
+	}
+	if d.HasMiller {
+		return q.Capacitance(float64(d.Miller.Charge(v)) / float64(v))
+	}
+	if d.Qgd > 0 {
+		return q.Capacitance(float64(loss.MillerChargeAt(d.Qgd, d.QgVds, v)) / float64(v))
+	}
+	if d.Crss > 0 {
+		return q.Capacitance(2 * float64(d.Crss) * math.Sqrt(float64(d.CrssV/v)))
+	}
+	return 0
+}
+
+// Rds returns the on-resistance at gate voltage vgs and junction
+// temperature tj: the gate law scaled by the temperature law.
+func (d *Device) Rds(vgs q.Voltage, tj q.Temperature) q.Resistance {
+	return d.Gate.At(vgs) * q.Resistance(d.Temp.Factor(tj))
+}
+
+// Curve returns the gate-charge curve at drain voltage vds and the plateau
+// at drain current i, with threshold and plateau shifted by dvth (their
+// temperature shift). The Qgs2 segment grows with the plateau (it charges
+// Cgs from threshold to plateau); the charge to the threshold follows the
+// threshold (a constant Cgs).
+func (d *Device) Curve(vds q.Voltage, i q.Current, dvth q.Voltage) loss.GateCurve {
+	vth := d.Vth + dvth
+	vpl := loss.PlateauAt(vth, d.VplSpec+dvth, d.QgId, i)
+	if vpl <= vth {
+		vpl = vth + 1e-3
+	}
+	qgs2 := d.Qgs2 * q.Charge((vpl-vth)/(d.VplSpec-d.Vth))
+	qth := d.Qth
+	if d.Vth > 0 {
+		qth *= q.Charge(vth / d.Vth)
+	}
+	return loss.GateCurve{
+		Qth: qth, Qgs2: qgs2, Qgd: loss.MillerChargeAt(d.Qgd, d.QgVds, vds),
+		Vth: vth, Vpl: vpl, Slope: d.Slope,
+	}
+}

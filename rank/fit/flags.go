@@ -1,0 +1,119 @@
+package fit
+
+import (
+	"math/bits"
+	"strings"
+)
+
+// Flags record the fallbacks and approximations an evaluation used, so the
+// user can judge how far to trust a number. They are bits, so that
+// evaluation allocates nothing.
+type Flags uint64
+
+// The flags. Each has a short code for tables and a sentence for explain.
+const (
+	FlagQgVdsAssumed     Flags = 1 << iota // gate-charge test voltage missing
+	FlagQgIdAssumed                        // gate-charge test current missing
+	FlagQgThAssumed                        // qg_th missing: Qgs2 = Qgs/2
+	FlagRgIntAssumed                       // rg_int missing: 0 Ω
+	FlagTempDefault                        // no hot on-resistance: technology default law
+	FlagRdsOnePoint                        // one gate-voltage point: channel share assumed
+	FlagRdsExtrapolated                    // drive below the lowest datasheet gate voltage
+	FlagRdsFitClamped                      // two-point gate law replaced by a channel law
+	FlagOssSqrtLaw                         // output capacitance from one point with the √ law
+	FlagOssFar                             // working voltage far (outside 0.5-2×) from the capacitance's test voltage
+	FlagTswNoConditions                    // tr/tf test conditions missing: not rescaled
+	FlagPlateauEstimated                   // plateau unknown: threshold + 1 V
+	FlagGateLinear                         // gate curve unknown: linear gate, half the energy per edge
+	FlagRthJCOnly                          // only junction-to-case and no case-to-ambient: case at ambient
+	FlagNoRth                              // no thermal resistance: junction at ambient
+	FlagQrrMissing                         // no qrr for a silicon part: recovery not counted
+	FlagQrrLessCoss                        // qrr includes the output charge: partner Q_oss subtracted
+	FlagVsdDefault                         // vsd missing: technology default
+	FlagTjMaxDefault                       // tj_max missing: 150 °C
+	FlagDriverLimited                      // driver peak current limits the gate current
+	FlagVgsMinDefault                      // vgs_min missing: taken as −vgs_max (0 V for GaN)
+	FlagIdPulseMissing                     // no pulsed current rating: peak not screened
+	FlagQrrInModel                         // informational: recovery charge counted
+	FlagLcs                                // common-source inductance counted in the current edges
+	FlagLoopL                              // power-loop inductance counted: overshoot and ½·L·I²
+	FlagRdsDyn                             // dynamic on-resistance factor applied
+	FlagRdsDynFar                          // dynamic factor used above its test voltage or without one
+	FlagVthTempDefault                     // threshold, plateau and diode drop moved to Tj by technology defaults
+	FlagQrrTempDefault                     // recovered charge raised with Tj by the default law
+	FlagFalseOnThin                        // gate bounce uses more than half the off-state margin
+	FlagFalseOnUnchecked                   // no capacitance data: false turn-on not screened
+	FlagGateSpike                          // negative gate bounce below vgs_min (transient)
+	FlagSiCLowDrive                        // SiC part driven below 15 V
+	FlagNoHysteresis                       // class E: no eoss_loss column, hysteresis loss not counted
+	FlagMillerLumped                       // no crss: one lumped Qgd with a straight voltage ramp
+	flagCount
+)
+
+var flagText = [...]struct{ code, text string }{
+	{"qg-vds?", "gate-charge test voltage (qg_vds) not given: taken as half of vds_max"},
+	{"qg-id?", "gate-charge test current (qg_id) not given: taken as id_max"},
+	{"qgth?", "qg_th not given: charge from threshold to plateau taken as qgs/2"},
+	{"rg?", "internal gate resistance (rg_int) not given: taken as 0 Ω"},
+	{"temp-law", "no hot on-resistance: the technology's default temperature law is used"},
+	{"rds-1pt", "one gate-voltage point for the on-resistance: half of it taken as channel resistance"},
+	{"rds-extrap", "drive below the lowest gate voltage of the on-resistance data: extrapolated"},
+	{"rds-fit", "the two on-resistance points do not fit R0 + k/(Vgs − Vth): a channel-only law is used"},
+	{"coss-sqrt", "output charge and energy from one capacitance point with the √ law"},
+	{"coss-far", "working voltage outside 0.5-2× the voltage of the output-capacitance data: low confidence"},
+	{"tsw-cond?", "test conditions of tr/tf not given: times used as given, not rescaled to your gate loop"},
+	{"vpl?", "plateau voltage not given: taken as threshold + 1 V"},
+	{"gate-lin", "gate-charge curve unknown: linear gate, Qg scaled with the drive and half the energy per edge"},
+	{"rth-jc", "only junction-to-case resistance and no --rth-ca: case taken at ambient"},
+	{"rth?", "no thermal resistance: junction taken at ambient"},
+	{"qrr?", "no qrr for a part with a body diode: reverse recovery not counted"},
+	{"qrr-coss", "qrr includes the output-capacitance charge: the partner's Q_oss is subtracted from it"},
+	{"vsd?", "vsd not given: the technology's default diode drop is used"},
+	{"tjmax?", "tj_max not given: 150 °C assumed"},
+	{"drv-limit", "the driver's peak-current limit sets the gate current"},
+	{"vgsmin?", "vgs_min not given: taken as −vgs_max (0 V for GaN)"},
+	{"ipulse?", "no pulsed current rating (id_pulse): peak current not screened"},
+	{"qrr", "the partner's reverse-recovery charge is counted"},
+	{"l-cs", "common-source inductance (l_cs) slows the current edges: turn-on and turn-off energies raised"},
+	{"l-loop", "power-loop inductance counted: turn-off overshoot in the voltage screen; ½·L·I² taken from the turn-on overlap and dissipated at turn-off"},
+	{"rds-dyn", "dynamic on-resistance (rds_dyn) applied, linear in the blocked voltage"},
+	{"rds-dyn?", "dynamic on-resistance used above rds_dyn_vds (extrapolated linearly) or without rds_dyn_vds (factor as stated)"},
+	{"vth-tc", "threshold, plateau and diode drop moved to the junction temperature with the technology's default coefficients"},
+	{"qrr-tc", "no qrr_hot: recovered charge raised with temperature by the common-practice law (2× from 25 to 125 °C)"},
+	{"fto-thin", "false turn-on: the dv/dt gate bounce uses more than half of the gap between the off level and the hot threshold"},
+	{"fto?", "no ciss/crss or gate-charge data: false turn-on of the off switch not screened"},
+	{"vgs-spike", "the dv/dt at the other switch's turn-off pulls the gate below vgs_min (a transient: check the transient rating)"},
+	{"sic-drive", "SiC part driven below 15 V: its on-resistance and switching data are usually given at 15-20 V"},
+	{"hyst?", "no eoss_loss: output-capacitance hysteresis loss under soft switching not counted"},
+	{"miller-lump", "no crss (with cap_vds): Qgd taken as one lump with a straight voltage ramp, and Coss charging at turn-off not counted (pessimistic)"},
+}
+
+// Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".
+func (f Flags) Codes() string {
+	var b strings.Builder
+	for f != 0 {
+		i := bits.TrailingZeros64(uint64(f))
+		f &^= 1 << i
+		if i >= len(flagText) {
+			continue
+		}
+		if b.Len() > 0 {
+			b.WriteByte(',')
+		}
+		b.WriteString(flagText[i].code)
+	}
+	return b.String()
+}
+
+// Sentences lists the set flags as sentences.
+func (f Flags) Sentences() []string {
+	var out []string
+	for f != 0 {
+		i := bits.TrailingZeros64(uint64(f))
+		f &^= 1 << i
+		if i < len(flagText) {
+			out = append(out, flagText[i].text)
+		}
+	}
+	return out
+}

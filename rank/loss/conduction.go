@@ -1,0 +1,75 @@
+package loss
+
+import q "swrank/devices/quantity"
+
+// GateLaw is the gate-voltage dependence of the on-resistance,
+// R(Vgs) = R0 + K/(Vgs − Vth): a fixed part (drift, substrate, package) plus
+// a channel part inversely proportional to the gate overdrive.
+//
+// Source: the channel resistance of a MOSFET in its linear region is
+// L/(W·µ·Cox·(Vgs − Vth)) (Sze & Ng, Physics of Semiconductor Devices, 3rd
+// ed., 2007, ch. 6; Baliga 2008, ch. 6); R0 and K are fitted through the
+// datasheet's two gate-voltage points.
+type GateLaw struct {
+	R0  q.Resistance // fixed part, Ω; ≥ 0
+	K   float64      // channel part, Ω·V; ≥ 0
+	Vth q.Voltage    // threshold of the law, V
+}
+
+// At returns R(Vgs); the caller ensures Vgs > Vth.
+func (g GateLaw) At(vgs q.Voltage) q.Resistance {
+	return g.R0 + q.Resistance(g.K/float64(vgs-g.Vth))
+}
+
+// FitGateLaw fits R0 + K/(Vgs − Vth) through (v1, r1) and (v2, r2), v1 ≠ v2.
+// A fit that would make R0 negative (a curve steeper than the law) is
+// replaced by a pure channel law through the higher-voltage point, and ok is
+// false.
+func FitGateLaw(v1 q.Voltage, r1 q.Resistance, v2 q.Voltage, r2 q.Resistance, vth q.Voltage) (g GateLaw, ok bool) {
+	x1 := 1 / float64(v1-vth)
+	x2 := 1 / float64(v2-vth)
+	k := float64(r1-r2) / (x1 - x2)
+	r0 := float64(r1) - k*x1
+	if r0 < 0 || k < 0 {
+		if v1 > v2 {
+			v2, r2 = v1, r1
+		}
+		return GateLaw{R0: 0, K: float64(r2) * float64(v2-vth), Vth: vth}, false
+	}
+	return GateLaw{R0: q.Resistance(r0), K: k, Vth: vth}, true
+}
+
+// SinglePointGateLaw is the fallback when the datasheet gives one
+// gate-voltage point: half of r1 is taken as channel resistance (common
+// practice for low-voltage trench parts, from memory: 30-60 % at the rated
+// drive).
+func SinglePointGateLaw(v1 q.Voltage, r1 q.Resistance, vth q.Voltage) GateLaw {
+	return GateLaw{R0: r1 / 2, K: float64(r1) / 2 * float64(v1-vth), Vth: vth}
+}
+
+// Conduction is the conduction loss I_rms²·R.
+//
+// Source: Erickson & Maksimović, Fundamentals of Power Electronics, 2nd ed.,
+// 2001, ch. 4 (a MOSFET conducts as a resistance).
+func Conduction(irms q.Current, r q.Resistance) q.Power {
+	return q.Power(float64(irms) * float64(irms) * float64(r))
+}
+
+// DynamicRdsFactor is the dynamic on-resistance multiplier at off-state
+// voltage v for a part measured at k·R(on) after blocking vTest: linear in
+// the blocked voltage from 1 at 0 V to k at vTest, continued linearly above
+// vTest. vTest ≤ 0 means the test voltage is unknown: k is used as given.
+//
+// Source: common practice for GaN HEMTs (trapping grows with the blocked
+// voltage; datasheets that state a dynamic factor give it at one voltage;
+// from memory, cf. Lidow et al.). The linear law is our assumption; it is
+// conservative above vTest only if the trapping keeps growing.
+func DynamicRdsFactor(k q.Ratio, vTest, v q.Voltage) float64 {
+	if k <= 1 {
+		return 1
+	}
+	if vTest <= 0 {
+		return float64(k)
+	}
+	return 1 + (float64(k)-1)*max(float64(v), 0)/float64(vTest)
+}

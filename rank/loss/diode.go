@@ -1,0 +1,63 @@
+package loss
+
+import q "swrank/devices/quantity"
+
+// DeadTimeEnergy is the body-diode (reverse) conduction energy per cycle in
+// the dead times: Vsd·(I1·t1 + I2·t2).
+//
+// Source: Erickson & Maksimović 2001, ch. 4; Graovac et al. 2006.
+func DeadTimeEnergy(vsd1 q.Voltage, i1 q.Current, t1 q.Time, vsd2 q.Voltage, i2 q.Current, t2 q.Time) q.Energy {
+	return q.Energy(float64(vsd1)*float64(i1)*float64(t1) + float64(vsd2)*float64(i2)*float64(t2))
+}
+
+// RecoveryEnergy is the reverse-recovery energy per cycle that lands in the
+// hard-switching transistor: Qrr·V.
+//
+// Source: Graovac et al. 2006; Erickson & Maksimović 2001, ch. 4 (the
+// recovered charge flows through the turning-on switch at full voltage).
+func RecoveryEnergy(qrr q.Charge, v q.Voltage) q.Energy {
+	return q.Energy(float64(qrr) * float64(v))
+}
+
+// DiodeDropAt moves a 25 °C diode forward drop to junction temperature t
+// with a linear coefficient tc in V/K, never below zero.
+//
+// Source: common practice (about −2 mV/K for a silicon p-n junction at
+// constant current; Sze & Ng 2007, ch. 2, give the origin in the
+// temperature dependence of the intrinsic density).
+func DiodeDropAt(vsd q.Voltage, tc float64, t q.Temperature) q.Voltage {
+	return max(vsd+q.Voltage(tc*float64(t-25)), 0)
+}
+
+// QrrLaw is the recovered charge of a body diode against junction
+// temperature, linear through the datasheet point: Q(T) = Q0 + Slope·(T − T0),
+// never below zero.
+type QrrLaw struct {
+	Q0    q.Charge      // recovered charge at T0, C; ≥ 0
+	T0    q.Temperature // temperature of Q0, °C
+	Slope float64       // C/K
+}
+
+// At returns Q(T).
+func (l QrrLaw) At(t q.Temperature) q.Charge {
+	return max(l.Q0+q.Charge(l.Slope*float64(t-l.T0)), 0)
+}
+
+// QrrRisePerK is the default relative rise of the recovered charge with
+// temperature: twice the 25 °C value at 125 °C, i.e. +1 % of Q(25 °C) per
+// kelvin (common practice for silicon body diodes, from memory).
+const QrrRisePerK = 0.01
+
+// FitQrrLaw returns the law through (q0 at t0) and, when hot is true,
+// (q1 at t1, t1 ≠ t0); otherwise the default rise QrrRisePerK relative to the
+// 25 °C value implied by q0 at t0.
+//
+// Source: two datasheet points when given; else common practice (about 2×
+// from 25 to 125 °C).
+func FitQrrLaw(q0 q.Charge, t0 q.Temperature, q1 q.Charge, t1 q.Temperature, hot bool) QrrLaw {
+	if hot && t1 != t0 {
+		return QrrLaw{Q0: q0, T0: t0, Slope: float64(q1-q0) / float64(t1-t0)}
+	}
+	q25 := float64(q0) / (1 + QrrRisePerK*float64(t0-25))
+	return QrrLaw{Q0: q0, T0: t0, Slope: q25 * QrrRisePerK}
+}
