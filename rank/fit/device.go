@@ -145,10 +145,22 @@ func Prepare(p *devices.Part) (Device, error) {
 	if !p.IdPulse.OK {
 		d.Flags |= FlagIdPulseMissing
 	}
+	for _, step := range [...]func(*Device) error{
+		(*Device).fitGateLaw, (*Device).fitTempLaw, (*Device).fitOss, (*Device).fitGateCharge, (*Device).prepareSecondOrder, (*Device).fitMiller,
+	} {
+		if err := step(&d); err != nil {
+			return Device{}, err
+		}
+	}
+	return d, nil
+}
 
-	// On-resistance against gate voltage at the reference temperature.
+// fitGateLaw fits the on-resistance against gate voltage at the reference
+// temperature: through two points when given, else one (FlagRdsOnePoint).
+func (d *Device) fitGateLaw() error {
+	p := d.Part
 	if p.RdsOn <= 0 || p.RdsOnVgs <= p.VgsTh {
-		return Device{}, fmt.Errorf("part %s: rds_on_vgs must exceed vgs_th", p.Name)
+		return fmt.Errorf("part %s: rds_on_vgs must exceed vgs_th", p.Name)
 	}
 	d.VgsLow = p.RdsOnVgs
 	if p.RdsOn2.OK && p.RdsOn2Vgs.OK && p.RdsOn2Vgs.V != p.RdsOnVgs && p.RdsOn2Vgs.V > p.VgsTh {
@@ -162,14 +174,19 @@ func Prepare(p *devices.Part) (Device, error) {
 		d.Gate = loss.SinglePointGateLaw(p.RdsOnVgs, p.RdsOn, p.VgsTh)
 		d.Flags |= FlagRdsOnePoint
 	}
+	return nil
+}
 
-	// On-resistance against temperature.
+// fitTempLaw fits the on-resistance against temperature: the part's curve,
+// its hot point, or the technology's default exponent (FlagTempDefault).
+func (d *Device) fitTempLaw() error {
+	p := d.Part
 	d.Temp.T0 = p.RdsOnTj.Or(25)
 	switch {
 	case strings.TrimSpace(p.RdsCurve) != "":
 		pts, err := p.Curve()
 		if err != nil {
-			return Device{}, fmt.Errorf("part %s: rds_on_curve: %w", p.Name, err)
+			return fmt.Errorf("part %s: rds_on_curve: %w", p.Name, err)
 		}
 		for i, c := range pts {
 			if i == len(d.Temp.Pts) {
@@ -194,8 +211,13 @@ func Prepare(p *devices.Part) (Device, error) {
 			d.Temp.Alpha = alphaSiLV
 		}
 	}
+	return nil
+}
 
-	// Output capacitance.
+// fitOss fits the output-capacitance law: from charge and energy, from
+// charge, or from one capacitance point with the √ law (FlagOssSqrtLaw).
+func (d *Device) fitOss() error {
+	p := d.Part
 	switch {
 	case p.Qoss.OK && p.Eoss.OK && p.OssVds.OK:
 		d.Oss, d.OssV = loss.OssFromChargeEnergy(p.Qoss.V, p.Eoss.V, p.OssVds.V), p.OssVds.V
@@ -206,10 +228,16 @@ func Prepare(p *devices.Part) (Device, error) {
 		d.Oss, d.OssV = loss.OssFromCapacitance(p.Coss.V, p.CapVds.V), p.CapVds.V
 		d.Flags |= FlagOssSqrtLaw
 	default:
-		return Device{}, fmt.Errorf("part %s: needs coss with cap_vds, or qoss with oss_vds", p.Name)
+		return fmt.Errorf("part %s: needs coss with cap_vds, or qoss with oss_vds", p.Name)
 	}
+	return nil
+}
 
-	// Gate charge.
+// fitGateCharge takes the gate-charge curve and chooses the method of the
+// hard edges: gate-charge intervals when qgs, qgd and v_plateau are given,
+// else the datasheet tr/tf with their test conditions.
+func (d *Device) fitGateCharge() error {
+	p := d.Part
 	d.QgVds = p.QgVds.Or(p.VdsMax / 2)
 	if !p.QgVds.OK {
 		d.Flags |= FlagQgVdsAssumed
@@ -247,11 +275,15 @@ func Prepare(p *devices.Part) (Device, error) {
 			d.Flags |= FlagTswNoConditions
 		}
 	} else {
-		return Device{}, fmt.Errorf("part %s: needs qgs, qgd and v_plateau, or tr and tf", p.Name)
+		return fmt.Errorf("part %s: needs qgs, qgd and v_plateau, or tr and tf", p.Name)
 	}
-	if err := d.prepareSecondOrder(); err != nil {
-		return Device{}, err
-	}
+	return nil
+}
+
+// fitMiller fits the knee law of Cgd(v) (loss.MillerLaw) and prepares the
+// turn-off integral, when the gate-charge method has crss; else the Miller
+// charge stays one lump (FlagMillerLumped).
+func (d *Device) fitMiller() error {
 	if d.Method == MethodGateCharge && d.Crss > 0 && d.QgVds > 0 && d.Qgd > 0 {
 		d.Miller, d.HasMiller = loss.FitMillerLaw(d.Qgd, d.QgVds, d.Crss, d.VplSpec), true
 		d.Rise = loss.RiseBase(d.Miller, d.Oss)
@@ -261,7 +293,7 @@ func Prepare(p *devices.Part) (Device, error) {
 	} else if d.Method == MethodGateCharge {
 		d.Flags |= FlagMillerLumped
 	}
-	return d, nil
+	return nil
 }
 
 // prepareSecondOrder fills the laws of docs/second-order.md: temperature
