@@ -141,9 +141,17 @@ func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 		pt.Stage, pt.Mode = s, ModeResonant
 		return pt, nil
 	case Buck, Boost:
-	default:
-		return Point{}, fmt.Errorf("unknown topology %s", s.Topology)
+		s.resolveConverter(&pt)
+		return pt, nil
 	}
+	return Point{}, fmt.Errorf("unknown topology %s", s.Topology)
+}
+
+// resolveConverter computes the stresses of a buck or boost cell in
+// continuous conduction, or hands over to dcm (diode rectifier) and
+// forcedContinuous (synchronous) where the ripple takes the inductor
+// current below zero.
+func (s *Stage) resolveConverter(pt *Point) {
 	var v q.Voltage // cell voltage
 	var d float64   // control-switch duty
 	var il q.Current
@@ -164,8 +172,8 @@ func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 	ipk := il + ripple/2
 	ival := il - ripple/2
 	if ival < 0 && s.Rectifier == DiodeRect {
-		s.dcm(&pt)
-		return pt, nil
+		s.dcm(pt)
+		return
 	}
 	ms := float64(il*il) + float64(ripple*ripple)/12
 	pt.Ctrl = SwitchStress{
@@ -175,23 +183,28 @@ func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 	if s.Rectifier == DiodeRect {
 		pt.HasDiode = true
 		pt.DiodeLoss = q.Power(float64(s.Diode.Vf) * float64(il) * (1 - d))
-		return pt, nil
+		return
 	}
 	pt.HasSync = true
 	pt.Sync = SwitchStress{
 		V: v, IOn: ival, IOff: ival, IRms: q.Current(math.Sqrt((1 - d) * ms)), IPeak: ipk,
 		Duty: q.Ratio(1 - d), IDead1: ipk, IDead2: ival,
 	}
-	if ival >= 0 {
-		return pt, nil
+	if ival < 0 {
+		forcedContinuous(pt, ipk, ival)
 	}
-	// Forced-continuous conduction: the current reverses before the
-	// synchronous switch turns off. That switch now turns off hard with
-	// |valley| in its channel; the reversed current swings the node towards
-	// the other rail in the dead time, so the control switch's body diode
-	// (not the synchronous one's) conducts, and the control switch turns on
-	// softly: without overlap, recovery or (once the swing is complete)
-	// output-capacitance loss.
+}
+
+// forcedContinuous turns the continuous-conduction stresses of a
+// synchronous cell into forced-continuous ones, for a valley current ival
+// below zero and a peak ipk. The current reverses before the
+// synchronous switch turns off. That switch now turns off hard with
+// |valley| in its channel; the reversed current swings the node towards
+// the other rail in the dead time, so the control switch's body diode
+// (not the synchronous one's) conducts, and the control switch turns on
+// softly: without overlap, recovery or (once the swing is complete)
+// output-capacitance loss.
+func forcedContinuous(pt *Point, ipk, ival q.Current) {
 	neg := -ival
 	pt.Mode = ModeFCCM
 	pt.Ctrl.IOn, pt.Ctrl.HardOn, pt.Ctrl.ISoftOn = 0, false, neg
@@ -201,7 +214,6 @@ func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 	pt.Notes = append(pt.Notes, fmt.Sprintf(
 		"forced-continuous conduction: the inductor current reverses to %s at the valley; the synchronous switch turns off hard at %s and the control switch turns on softly once the reversed current has swung the switch node",
 		ival, neg))
-	return pt, nil
 }
 
 // dcm fills the stresses of a diode-rectified buck or boost in
@@ -264,6 +276,24 @@ func (s *Stage) dcm(pt *Point) {
 func (s *Stage) fill(pt *Point) error {
 	var errs []error
 	bad := func(format string, a ...any) { errs = append(errs, fmt.Errorf(format, a...)) }
+	s.fillCommon(bad)
+	switch s.Topology {
+	case Custom:
+		s.fillCustom(bad)
+	case Buck, Boost:
+		s.fillConverter(pt, bad)
+	}
+	return errors.Join(errs...)
+}
+
+// complaint collects one input problem of a stage (a format and its
+// arguments, as fmt.Errorf takes them).
+type complaint func(format string, a ...any)
+
+// fillCommon checks the inputs every stage has (finite numbers, frequency,
+// gate driver, ambient, loop inductance, thermal path, derating) and fills
+// their defaults.
+func (s *Stage) fillCommon(bad complaint) {
 	finite := func(name string, v float64) {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			bad("%s: not a finite number", name)
@@ -319,62 +349,67 @@ func (s *Stage) fill(pt *Point) error {
 	if s.Derate <= 0 || s.Derate > 1 {
 		bad("derate: must be in (0, 1] (got %g)", float64(s.Derate))
 	}
-	switch s.Topology {
-	case Custom:
-		if s.Vblock <= 0 {
-			bad("vblock: blocking voltage must be > 0 V")
-		}
-		if s.Ion < 0 || s.Ioff < 0 || s.Irms < 0 {
-			bad("ion, ioff, irms: currents must be ≥ 0 A")
-		}
-		if s.Pout < 0 {
-			bad("pout: must be ≥ 0 W")
-		}
+}
+
+// fillCustom checks the switch stresses of a custom stage.
+func (s *Stage) fillCustom(bad complaint) {
+	if s.Vblock <= 0 {
+		bad("vblock: blocking voltage must be > 0 V")
+	}
+	if s.Ion < 0 || s.Ioff < 0 || s.Irms < 0 {
+		bad("ion, ioff, irms: currents must be ≥ 0 A")
+	}
+	if s.Pout < 0 {
+		bad("pout: must be ≥ 0 W")
+	}
+	s.Position = Control
+}
+
+// fillConverter checks a buck or boost stage and fills its defaults: the
+// ripple, the rectifier diode's drop or the dead time, and the output
+// power; what it assumed goes to pt.Notes.
+func (s *Stage) fillConverter(pt *Point, bad complaint) {
+	if s.Vin <= 0 || s.Vout <= 0 {
+		bad("vin, vout: voltages must be > 0 V")
+	} else if s.Topology == Buck && s.Vout >= s.Vin {
+		bad("vout: a buck needs vout (%s) below vin (%s)", s.Vout, s.Vin)
+	} else if s.Topology == Boost && s.Vout <= s.Vin {
+		bad("vout: a boost needs vout (%s) above vin (%s)", s.Vout, s.Vin)
+	}
+	if s.Iout <= 0 {
+		bad("iout: load current must be > 0 A")
+	}
+	if s.Inductance < 0 {
+		bad("inductance: must be ≥ 0 H")
+	}
+	if s.Inductance == 0 && !s.Ripple.OK {
+		s.Ripple = q.Some(DefaultRipple)
+		pt.Notes = append(pt.Notes, fmt.Sprintf("no inductance or ripple given: ripple taken as %.0f %% of the inductor current (common practice)", 100*float64(DefaultRipple)))
+	}
+	if s.Ripple.V < 0 || s.Ripple.V > 2 {
+		bad("ripple: fraction must be in [0, 2] (got %g)", float64(s.Ripple.V))
+	}
+	if s.Rectifier == DiodeRect {
 		s.Position = Control
-	case Buck, Boost:
-		if s.Vin <= 0 || s.Vout <= 0 {
-			bad("vin, vout: voltages must be > 0 V")
-		} else if s.Topology == Buck && s.Vout >= s.Vin {
-			bad("vout: a buck needs vout (%s) below vin (%s)", s.Vout, s.Vin)
-		} else if s.Topology == Boost && s.Vout <= s.Vin {
-			bad("vout: a boost needs vout (%s) above vin (%s)", s.Vout, s.Vin)
+		if s.Diode.Vf == 0 {
+			s.Diode.Vf = DefaultDiodeVf
+			pt.Notes = append(pt.Notes, fmt.Sprintf("no diode forward drop given: %s assumed", DefaultDiodeVf))
 		}
-		if s.Iout <= 0 {
-			bad("iout: load current must be > 0 A")
+		if s.Diode.Vf < 0 || s.Diode.Qrr < 0 || s.Diode.Cj < 0 {
+			bad("diode-vf, diode-qrr, diode-cj: must be ≥ 0")
 		}
-		if s.Inductance < 0 {
-			bad("inductance: must be ≥ 0 H")
+	} else {
+		if !s.DeadTime.OK {
+			s.DeadTime = q.Some(DefaultDeadTime)
 		}
-		if s.Inductance == 0 && !s.Ripple.OK {
-			s.Ripple = q.Some(DefaultRipple)
-			pt.Notes = append(pt.Notes, fmt.Sprintf("no inductance or ripple given: ripple taken as %.0f %% of the inductor current (common practice)", 100*float64(DefaultRipple)))
+		if s.DeadTime.V < 0 {
+			bad("dead-time: must be ≥ 0 s")
 		}
-		if s.Ripple.V < 0 || s.Ripple.V > 2 {
-			bad("ripple: fraction must be in [0, 2] (got %g)", float64(s.Ripple.V))
-		}
-		if s.Rectifier == DiodeRect {
-			s.Position = Control
-			if s.Diode.Vf == 0 {
-				s.Diode.Vf = DefaultDiodeVf
-				pt.Notes = append(pt.Notes, fmt.Sprintf("no diode forward drop given: %s assumed", DefaultDiodeVf))
-			}
-			if s.Diode.Vf < 0 || s.Diode.Qrr < 0 || s.Diode.Cj < 0 {
-				bad("diode-vf, diode-qrr, diode-cj: must be ≥ 0")
-			}
-		} else {
-			if !s.DeadTime.OK {
-				s.DeadTime = q.Some(DefaultDeadTime)
-			}
-			if s.DeadTime.V < 0 {
-				bad("dead-time: must be ≥ 0 s")
-			}
-			if float64(s.DeadTime.V)*2*float64(s.Fsw) >= 0.5 {
-				bad("dead-time: %s twice per period leaves too little of a %s period", s.DeadTime.V, s.Fsw)
-			}
-		}
-		if s.Pout == 0 {
-			s.Pout = q.Power(float64(s.Vout) * float64(s.Iout))
+		if float64(s.DeadTime.V)*2*float64(s.Fsw) >= 0.5 {
+			bad("dead-time: %s twice per period leaves too little of a %s period", s.DeadTime.V, s.Fsw)
 		}
 	}
-	return errors.Join(errs...)
+	if s.Pout == 0 {
+		s.Pout = q.Power(float64(s.Vout) * float64(s.Iout))
+	}
 }
