@@ -2,9 +2,9 @@ package loss
 
 import "math"
 
-// This file holds the loss models as pure functions of typed inputs. Each
-// doc comment names the published source; docs/models.md explains the
-// equations, their assumptions and where they fail.
+// This file holds the numeric speed helpers of the hot path: powers by
+// exp·log and by a binomial series near the last point. The models call
+// them; they hold no physics.
 
 // powPos is x^y for x > 0 as exp(y·ln x): the hot path's powers, without
 // math.Pow's handling of special cases it never meets (relative error a few
