@@ -13,7 +13,7 @@ import (
 
 // rfPart is an invented small fast part with a single on-resistance point
 // at the drive voltage and datasheet times without test conditions (so the
-// full fall time is tf/0.8, rank/models.go).
+// full fall time is tf/0.8, loss.ScaleSwitchingTime).
 func rfPart(name string, rds q.Resistance, qg q.Charge, tf q.Time, coss q.Capacitance) devices.Part {
 	return devices.Part{
 		Name: name, VdsMax: 100, IdMax: 20, VgsMax: 7, VgsTh: 1.4, RdsOn: rds, RdsOnVgs: 5,
