@@ -260,7 +260,7 @@ func TestSolveJunctionWholeLoss(t *testing.T) {
 		Law:   &loss.TempLaw{T0: 25, NPts: 2, Pts: [8][2]float64{{25, 1}, {125, 1.7}}},
 		Other: func(t q.Temperature) q.Power { return 0.2 + 0.004*q.Power(t-25) },
 	}
-	s := thermal.SolveJunction(&m, 50, 40, 175)
+	s := solveThermal(&m, 50, 40, 175)
 	if !s.Found || s.Status != thermal.Solved {
 		t.Fatalf("status %v", s.Status)
 	}
@@ -268,7 +268,7 @@ func TestSolveJunctionWholeLoss(t *testing.T) {
 	testkit.Near(t, "gain", s.Gain, 0.3392, 1e-4)
 	// Without Other it is the team notes' linear [D] check (111.01 °C).
 	m.Other = nil
-	testkit.Near(t, "Tj without switching", float64(thermal.SolveJunction(&m, 50, 40, 175).Tj), 111.01, 1e-4)
+	testkit.Near(t, "Tj without switching", float64(solveThermal(&m, 50, 40, 175).Tj), 111.01, 1e-4)
 }
 
 // A steep loss law has two roots of Tj = Ta + Rth·P(Tj): the stable steady
@@ -292,9 +292,16 @@ func TestSolveJunctionStableRoot(t *testing.T) {
 			lo = mid
 		}
 	}
-	s := thermal.SolveJunction(&m, 25, 35, 175)
+	s := solveThermal(&m, 25, 35, 175)
 	if !s.Found || s.Status != thermal.Solved || s.Gain >= 1 {
 		t.Fatalf("got %+v", s)
 	}
 	testkit.Near(t, "stable Tj", float64(s.Tj), lo, 1e-5)
+}
+
+// solveThermal is thermal.SolveJunction returning its solution.
+func solveThermal(m *thermal.Model, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) thermal.Solution {
+	var s thermal.Solution
+	thermal.SolveJunction(&s, m, ta, rth, tjMax)
+	return s
 }

@@ -128,7 +128,7 @@ func (m *devModel) overlapAt(a *tempState, igOn, igOff q.Current) {
 		a.eoff = loss.CurrentFallEnergy(v, st.IOff, a.tFall, m.lloop)
 		if d.HasMiller {
 			// The load current charges Coss while the voltage rises:
-			// the channel keeps only the rest (MillerRiseEnergy).
+			// the channel keeps only the rest (the Miller rise energy, loss.RiseIntegral).
 			evr, iTop := m.rise.EnergyNear(st.IOff, igOff, &m.risePow)
 			a.iTop = iTop
 			// The loop's stored ½·L·I² is counted in the switch

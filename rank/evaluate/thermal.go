@@ -32,7 +32,7 @@ func junction(sol *thermal.Solution, m *thermal.Model, s *stage.Stage, rth q.The
 	case rth == 0:
 		*sol = thermal.Solution{Tj: s.Ambient, Status: thermal.Solved, Found: true}
 	default:
-		thermal.SolveJunctionInto(sol, m, s.Ambient, rth, tjMax)
+		thermal.SolveJunction(sol, m, s.Ambient, rth, tjMax)
 	}
 	if !sol.Found {
 		return tjMax

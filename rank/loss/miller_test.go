@@ -29,12 +29,12 @@ func TestMillerEnergiesReduceToRamp(t *testing.T) {
 	v, i, ig := q.Voltage(40), q.Current(10), q.Current(0.8)
 	tv := float64(c) * 40 / 0.8
 	testkit.Near(t, "fall", float64(MillerFallEnergy(m, v, i, ig)), 0.5*40*10*tv, 1e-12)
-	e, top := MillerRiseEnergy(m, OssLaw{K: 0, N: 0.5}, v, i, ig)
+	e, top := millerRiseEnergy(m, OssLaw{K: 0, N: 0.5}, v, i, ig)
 	testkit.Near(t, "rise", float64(e), 0.5*40*10*tv, 1e-12)
 	testkit.Near(t, "iTop", float64(top), 10, 1e-12)
 }
 
-// MillerRiseEnergy's closed form against a direct numerical integration
+// millerRiseEnergy's closed form against a direct numerical integration
 // of ∫ v·max(0, (i/ig)·Cgd(v) − Coss(v)) dv (midpoint rule, 10⁶ steps), for
 // a √-law Coss (Erickson & Maksimović ch. 4) and the knee law; and at light
 // load the channel is off before the drain moves (Ren et al. 2006, from
@@ -54,10 +54,10 @@ func TestMillerRiseEnergyIntegral(t *testing.T) {
 			}
 			sum += x * math.Max(0, c.i/c.ig*cg-float64(oss.C(q.Voltage(x)))) * v / float64(n)
 		}
-		e, _ := MillerRiseEnergy(m, oss, q.Voltage(v), q.Current(c.i), q.Current(c.ig))
+		e, _ := millerRiseEnergy(m, oss, q.Voltage(v), q.Current(c.i), q.Current(c.ig))
 		testkit.Near(t, "closed form vs numeric", float64(e), sum, 1e-4)
 	}
-	e, top := MillerRiseEnergy(m, oss, 48, 0.05, 1.2)
+	e, top := millerRiseEnergy(m, oss, 48, 0.05, 1.2)
 	if e != 0 || top != 0 {
 		t.Errorf("light load: E %v, iTop %v, want 0, 0", e, top)
 	}

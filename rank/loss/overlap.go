@@ -138,7 +138,7 @@ func MillerFallEnergy(m MillerLaw, v q.Voltage, i, ig q.Current) q.Energy {
 	return q.Energy(float64(i) / float64(ig) * m.moment(v))
 }
 
-// MillerRiseEnergy is the turn-off voltage-rise energy when the load current
+// millerRiseEnergy is the turn-off voltage-rise energy when the load current
 // i also charges the output capacitance: while the gate current ig sets the
 // rate dv/dt = ig/Cgd(v), the capacitances take Coss(v)·dv/dt of the load
 // current and the channel carries the rest, i − ig·Coss(v)/Cgd(v) (not less
@@ -152,12 +152,12 @@ func MillerFallEnergy(m MillerLaw, v q.Voltage, i, ig q.Current) q.Energy {
 // the channel's current overlap); the closed form is derived here for
 // C_oss = K·v^(−N) and a two-constant Cgd, and checked against ngspice
 // (docs/spice-crosscheck.md).
-func MillerRiseEnergy(m MillerLaw, oss OssLaw, v q.Voltage, i, ig q.Current) (q.Energy, q.Current) {
-	r := NewRiseIntegral(m, oss, v)
+func millerRiseEnergy(m MillerLaw, oss OssLaw, v q.Voltage, i, ig q.Current) (q.Energy, q.Current) {
+	r := newRiseIntegral(m, oss, v)
 	return r.Energy(i, ig)
 }
 
-// RiseIntegral is MillerRiseEnergy with the parts that do not depend on the
+// RiseIntegral is millerRiseEnergy with the parts that do not depend on the
 // currents worked out once (the thermal loop changes only the gate
 // current).
 type RiseIntegral struct {
@@ -180,9 +180,9 @@ type RiseIntegral struct {
 	positive   bool    // v > 0
 }
 
-// NewRiseIntegral prepares MillerRiseEnergy for law m, output capacitance
+// newRiseIntegral prepares millerRiseEnergy for law m, output capacitance
 // oss and switched voltage v.
-func NewRiseIntegral(m MillerLaw, oss OssLaw, v q.Voltage) RiseIntegral {
+func newRiseIntegral(m MillerLaw, oss OssLaw, v q.Voltage) RiseIntegral {
 	b := RiseBase(m, oss)
 	return b.At(v)
 }
@@ -245,7 +245,7 @@ func (b *RiseIntegral) AtPower(v q.Voltage, pv float64) RiseIntegral {
 }
 
 // Energy returns the channel's voltage-rise energy and the current left
-// when the voltage reaches v (MillerRiseEnergy). With a = i/ig the
+// when the voltage reaches v (millerRiseEnergy). With a = i/ig the
 // integrand of a segment of Cgd = c is positive above xs = (K/(a·c))^(1/N)
 // = xc·a^(−1/N): one power evaluation serves both segments.
 func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {

@@ -85,7 +85,7 @@ func CurrentFallEnergy(v q.Voltage, i q.Current, t q.Time, l q.Inductance) q.Ene
 // Source: Faraday's law on the commutation loop and the energy balance of
 // the L-C ring (Erickson & Maksimović 2001, ch. 4; Ren et al., IEEE TPEL
 // 2006, from memory); the split between the two terms follows the
-// Coss-aware turn-off (MillerRiseEnergy) and was checked against ngspice
+// Coss-aware turn-off (millerRiseEnergy) and was checked against ngspice
 // (docs/spice-crosscheck.md).
 func LoopOvershoot(v q.Voltage, l q.Inductance, i, iTop q.Current, t q.Time, c q.Capacitance) q.Voltage {
 	return LoopOvershootLcs(v, l, 0, 0, 0, 0, i, iTop, t, c)

@@ -94,15 +94,10 @@ const (
 // condition of the electro-thermal loop is standard fixed-point theory
 // (a contraction when |g| < 1); the secant method and Aitken's Δ² as in
 // Burden & Faires, Numerical Analysis, ch. 2.
-func SolveJunction(m *Model, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) Solution {
-	var s Solution
-	SolveJunctionInto(&s, m, ta, rth, tjMax)
-	return s
-}
-
-// SolveJunctionInto is SolveJunction writing into s (the evaluation's own
-// result, without copying it out).
-func SolveJunctionInto(s *Solution, m *Model, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) {
+//
+// The solution is written into s, which the caller owns (an evaluation
+// keeps it in its result without copying).
+func SolveJunction(s *Solution, m *Model, ta q.Temperature, rth q.ThermalResistance, tjMax q.Temperature) {
 	if m.Other != nil && solveSurrogate(s, m, ta, rth, tjMax) {
 		return
 	}

@@ -79,7 +79,7 @@ func TestSolveJunctionAgainstFirstCrossing(t *testing.T) {
 					m := Model{Fixed: 0.1, Cond: q.Power(cond), Law: &law.law,
 						Other: func(t q.Temperature) q.Power { return q.Power(f(float64(t))) }}
 					want, found := firstCrossing(&m, 40, rth, 175)
-					s := SolveJunction(&m, 40, q.ThermalResistance(rth), 175)
+					s := solve(&m, 40, q.ThermalResistance(rth), 175)
 					n[s.Status]++
 					if s.Found != found {
 						t.Errorf("%s: found %v (%v, Tj %g), want %v (%g)", name, s.Found, s.Status, s.Tj, found, want)
@@ -150,7 +150,7 @@ func TestSolveJunctionConductionRunaway(t *testing.T) {
 	calls := 0
 	m := Model{Fixed: 0.5, Cond: 0.3, Law: &loss.TempLaw{T0: 25, Alpha: 8},
 		Other: func(q.Temperature) q.Power { calls++; return 0.1 }}
-	s := SolveJunction(&m, 25, 150, 175)
+	s := solve(&m, 25, 150, 175)
 	if s.Status != Runaway || s.Found {
 		t.Fatalf("got %+v, want runaway", s)
 	}
