@@ -135,8 +135,8 @@ func ParetoFront(items []PriceLoss) []int {
 
 // Component is one loss component, for comparisons.
 type Component struct {
-	Name string
-	Get  func(evaluate.Losses) q.Power
+	Name string                        // as the tables print it
+	Get  func(evaluate.Losses) q.Power // the component's power, W
 }
 
 // Components returns the loss components in table order, the total last.
@@ -158,9 +158,9 @@ func Components() []Component {
 
 // Delta is a change from the fitted part.
 type Delta struct {
-	Name     string
-	Fitted   float64
-	Cand     float64
+	Name     string  // the component, or "total"
+	Fitted   float64 // the fitted part's value (W, °C or a fraction)
+	Cand     float64 // the candidate's value, same unit
 	Abs      float64 // Cand − Fitted
 	Rel      float64 // Abs/Fitted (NaN when Fitted is 0)
 	Relative bool    // Rel is meaningful
@@ -177,10 +177,10 @@ func delta(name string, fitted, cand float64) Delta {
 // Comparison is a candidate judged against the part already fitted, both
 // evaluated at the same operating point.
 type Comparison struct {
-	Fitted, Cand *evaluate.Result
-	Deltas       []Delta // the loss components, the total last (W)
-	Tj           *Delta  // hottest junction, °C (nil when either has none)
-	Eff          *Delta  // stage efficiency, fraction (nil without output power)
+	Fitted, Cand *evaluate.Result // the fitted part and the candidate, at the same point
+	Deltas       []Delta          // the loss components, the total last (W)
+	Tj           *Delta           // hottest junction, °C (nil when either has none)
+	Eff          *Delta           // stage efficiency, fraction (nil without output power)
 	// Decides is the component whose change does most of the total's
 	// change (same sign, largest).
 	Decides string
@@ -189,7 +189,8 @@ type Comparison struct {
 	NewScreens evaluate.Screens
 	// PackageDiffers is true when both give a package and they differ.
 	PackageDiffers bool
-	Verdict        string
+	// Verdict is the comparison in one sentence.
+	Verdict string
 }
 
 // CompareParts judges candidate against fitted at pout (0: no efficiency).

@@ -223,17 +223,17 @@ func ScaleStage(rated stage.Stage, x q.Ratio) (stage.Stage, error) {
 
 // WeightedPoint is one operating point of a multi-point evaluation.
 type WeightedPoint struct {
-	Name   string  // e.g. "50 %" or the design file's name for it
-	Load   q.Ratio // fraction of the rated load (0: not a profile point)
-	Weight float64 // weight of its efficiency, > 0; the weights sum to 1
-	Point  stage.Point
+	Name   string      // e.g. "50 %" or the design file's name for it
+	Load   q.Ratio     // fraction of the rated load (0: not a profile point)
+	Weight float64     // weight of its efficiency, > 0; the weights sum to 1
+	Point  stage.Point // the resolved operating point
 }
 
 // Profile is a set of weighted operating points.
 type Profile struct {
-	Title  string // what the weights are
-	Source string
-	Points []WeightedPoint
+	Title  string          // what the weights are
+	Source string          // where the weights come from (a standard, or the user's file)
+	Points []WeightedPoint // the weighted operating points, weights summing to 1
 }
 
 // ResolveProfile makes the operating points of weighting w at the rated
@@ -292,8 +292,8 @@ func (pr *Profile) check() error {
 
 // WeightedResult is one part evaluated at every point of a profile.
 type WeightedResult struct {
-	Dev     *fit.Device
-	Partner *fit.Device
+	Dev     *fit.Device       // the part being ranked
+	Partner *fit.Device       // the other place's device when it is not Dev (nil otherwise)
 	Results []evaluate.Result // one per profile point, in profile order
 	Eff     []float64         // efficiency at each point, Pout/(Pout + loss of the parts)
 	// Weighted is Σ wᵢ·ηᵢ, the figure parts are ranked by.

@@ -84,10 +84,10 @@ func (v SweepVar) Apply(s *stage.Stage, x float64) error {
 
 // SweepSpec is the grid of a sweep.
 type SweepSpec struct {
-	Var    SweepVar
-	Lo, Hi float64 // ends of the range, Lo < Hi; > 0 for a log grid
-	Steps  int     // grid points, 2 to MaxSweepSteps
-	Log    bool    // logarithmic steps (equal ratios) instead of linear
+	Var    SweepVar // the stage variable swept
+	Lo, Hi float64  // ends of the range, Lo < Hi; > 0 for a log grid
+	Steps  int      // grid points, 2 to MaxSweepSteps
+	Log    bool     // logarithmic steps (equal ratios) instead of linear
 }
 
 // MaxSweepSteps bounds the grid of a sweep.
@@ -153,11 +153,11 @@ type Crossover struct {
 
 // SweepResult holds every part's total stage loss over the grid.
 type SweepResult struct {
-	Spec  SweepSpec
-	X     []float64
+	Spec  SweepSpec     // the grid swept
+	X     []float64     // the grid values, in the unit of Spec.Var
 	Pts   []stage.Point // the operating point at each grid value
-	Devs  []*fit.Device
-	Notes []string // what the sweep assumed
+	Devs  []*fit.Device // the parts swept, in the order given
+	Notes []string      // what the sweep assumed
 	total []float64
 	pass  []bool
 

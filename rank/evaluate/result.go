@@ -26,16 +26,16 @@ func (r Role) String() string {
 
 // DeviceResult is one switch's share of an evaluation.
 type DeviceResult struct {
-	Dev     *fit.Device
-	Role    Role
-	Losses  Losses
-	Thermal thermal.Solution
+	Dev     *fit.Device         // the device in this place
+	Role    Role                // the place it fills
+	Losses  Losses              // its losses and its driver's, W
+	Thermal thermal.Solution    // its junction temperature, °C, and how it was found
 	Rth     q.ThermalResistance // junction to ambient used, K/W (0: none)
 	Rds     q.Resistance        // on-resistance at the drive and the solved Tj (dynamic factor included)
-	Method  fit.Method
-	Flags   fit.Flags
-	Screens Screens
-	Stress  stage.SwitchStress
+	Method  fit.Method          // how its hard edges were computed
+	Flags   fit.Flags           // fallbacks used for this device at this point
+	Screens Screens             // reasons it is set aside (0: none)
+	Stress  stage.SwitchStress  // what its place asks of it
 
 	VplOn, VplOff q.Voltage        // plateau at the turn-on and turn-off currents, at Tj
 	Trans         loss.Transitions // hard-edge intervals at Tj (common-source inductance included)
@@ -111,16 +111,16 @@ type FalseTurnOn struct {
 
 // Result is the evaluation of one part at one operating point.
 type Result struct {
-	Dev      *fit.Device    // the part being ranked
-	Partner  *fit.Device    // the device in the other place when it is not Dev (nil otherwise)
-	Position stage.Position // where Dev sits
-	N        int            // number of devices evaluated (1 or 2)
-	Devices  [2]DeviceResult
-	Losses   Losses // sum over the devices and their drivers
-	Flags    fit.Flags
-	Screens  Screens
-	Derate   q.Ratio  // the stage's voltage derating, for the screen's message
-	RF       RFResult // class E and class D values (zero for other stages)
+	Dev      *fit.Device     // the part being ranked
+	Partner  *fit.Device     // the device in the other place when it is not Dev (nil otherwise)
+	Position stage.Position  // where Dev sits
+	N        int             // number of devices evaluated (1 or 2)
+	Devices  [2]DeviceResult // the first N: control switch first, then the synchronous switch
+	Losses   Losses          // sum over the devices and their drivers, W
+	Flags    fit.Flags       // union of the devices' fallbacks
+	Screens  Screens         // union of the devices' screens (0: the part passes)
+	Derate   q.Ratio         // the stage's voltage derating, for the screen's message
+	RF       RFResult        // class E and class D values (zero for other stages)
 }
 
 // Screened reports whether the part is set aside.

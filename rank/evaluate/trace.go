@@ -6,7 +6,7 @@ import q "swrank/devices/quantity"
 // its inputs and its result. Evaluate fills it only when given a non-nil
 // Trace, so ranking pays nothing for it.
 type Trace struct {
-	Steps []Step
+	Steps []Step // in the order the evaluation took them
 }
 
 // Step is one recorded formula.
@@ -19,9 +19,9 @@ type Step struct {
 
 // Term is a named value with its kind (for printing with its unit).
 type Term struct {
-	Name  string
-	Value float64
-	Kind  q.Kind
+	Name  string  // the symbol or words, e.g. "Qgd at V"
+	Value float64 // in SI units
+	Kind  q.Kind  // the quantity, which gives its unit
 }
 
 // T makes a Term from a typed quantity.

@@ -60,7 +60,7 @@ func (m Method) String() string {
 // fitted once from the datasheet values. Prepare builds it; it is read-only
 // afterwards and safe to share between goroutines.
 type Device struct {
-	Part *devices.Part
+	Part *devices.Part // the validated library row it was prepared from
 
 	Gate    loss.GateLaw  // on-resistance against gate voltage at T0
 	Temp    loss.TempLaw  // on-resistance against temperature
@@ -76,9 +76,9 @@ type Device struct {
 	Qgs2    q.Charge      // charge from threshold to plateau at QgId
 	Qgd     q.Charge      // Miller charge at QgVds
 	Slope   q.Capacitance // gate charge per volt above the plateau
-	RgInt   q.Resistance
-	TjMax   q.Temperature
-	VgsMin  q.Voltage
+	RgInt   q.Resistance  // internal gate resistance, Ω (0 when not given: FlagRgIntAssumed)
+	TjMax   q.Temperature // highest junction temperature, °C (default 150 °C: FlagTjMaxDefault)
+	VgsMin  q.Voltage     // lowest gate-source voltage, V (default −vgs_max; 0 V for GaN)
 
 	// Datasheet switching-time test, for MethodTimes.
 	TswR    q.Resistance // test gate loop: tsw_rg + tsw_rgen + rg_int
@@ -97,8 +97,8 @@ type Device struct {
 
 	// Dynamic on-resistance: factor DynK (≥ 1; 0 when not given) after
 	// blocking DynV (0: voltage unknown).
-	DynK q.Ratio
-	DynV q.Voltage
+	DynK q.Ratio   // factor after blocking DynV, ≥ 1 (0: not given)
+	DynV q.Voltage // voltage of DynK, V (0: unknown)
 
 	// Package parasitics, H (0 when not given).
 	Lcs   q.Inductance // common-source inductance
@@ -109,8 +109,8 @@ type Device struct {
 	Crss q.Capacitance // small-signal Crss at CrssV, F (0: not given)
 	// Miller is Cgd(v) with a knee (MillerLaw), when HasMiller: the
 	// gate-charge method with crss given.
-	Miller    loss.MillerLaw
-	HasMiller bool
+	Miller    loss.MillerLaw // Cgd(v) with a knee
+	HasMiller bool           // Miller is fitted
 	// Rise is the turn-off integral's part that belongs to the device
 	// (loss.RiseBase of Miller and Oss), when HasMiller.
 	Rise loss.RiseIntegral

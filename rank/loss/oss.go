@@ -31,9 +31,9 @@ func (l OssLaw) C(v q.Voltage) q.Capacitance { return l.At(v).C() }
 // follow from the one power v^(2−N) (the law's formulas rewritten:
 // K·v^−N = K·v^(2−N)/v², K·v^(1−N) = K·v^(2−N)/v).
 type OssPoint struct {
-	L  OssLaw
-	V  q.Voltage
-	pv float64 // V^(2−N) (0 for V ≤ 0)
+	L  OssLaw    // the law
+	V  q.Voltage // the voltage, V
+	pv float64   // V^(2−N) (0 for V ≤ 0)
 }
 
 // At evaluates the law at v.

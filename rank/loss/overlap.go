@@ -13,7 +13,7 @@ const RiseTol = 1e-12
 // commutation: current rise and voltage fall at turn-on, voltage rise and
 // current fall at turn-off.
 type Transitions struct {
-	Tir, Tvf, Tvr, Tif q.Time
+	Tir, Tvf, Tvr, Tif q.Time // current rise, voltage fall, voltage rise, current fall, s (+Inf: no gate current)
 }
 
 // GateLoop is the gate drive seen by one transistor.

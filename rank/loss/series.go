@@ -35,8 +35,11 @@ type PowSeries struct {
 	short     float64               // the largest |u| served by its first four terms
 }
 
+// powNearOrder is the highest order of PowNear's binomial series.
 const powNearOrder = 14
 
+// NewPowSeries prepares the binomial coefficients of x^p and the radius
+// within which PowNear's series stays within relative error tol.
 func NewPowSeries(p, tol float64) PowSeries {
 	m := PowSeries{p: p}
 	ck := 1.0

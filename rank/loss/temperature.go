@@ -51,7 +51,7 @@ type TempLaw struct {
 	// Pts are (temperature, R/R(T0)) points of a normalised curve, strictly
 	// increasing in temperature; the first NPts are used.
 	Pts  [8][2]float64
-	NPts int
+	NPts int     // points of Pts in use, 0 or 2 to 8
 	c0   float64 // the curve at T0 (set by prepare; 0: work it out)
 	// piece[i] is the curve between Pts[i-1] and Pts[i] over its value at
 	// T0: the value at Pts[i-1] and the slope, 1/K (set by prepare, with

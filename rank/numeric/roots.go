@@ -10,7 +10,7 @@ import (
 type RootError struct {
 	A, B   float64 // the interval searched
 	FA, FB float64 // the function at its ends
-	Msg    string
+	Msg    string  // what went wrong
 }
 
 func (e *RootError) Error() string {

@@ -34,9 +34,9 @@ type ClassDSpec struct {
 // ClassD is a class D operating point with the tank current and the
 // current at the switching edges, fundamental approximation.
 type ClassD struct {
-	Vin      q.Voltage
-	Fsw      q.Frequency
-	DeadTime q.Time
+	Vin      q.Voltage    // supply, V
+	Fsw      q.Frequency  // switching frequency, Hz
+	DeadTime q.Time       // dead time at each edge, s
 	R        q.Resistance // load resistance, Ω
 	Po       q.Power      // output power, W
 	// Phase is the load phase ψ at Fsw, rad; > 0 inductive (above
@@ -60,8 +60,8 @@ type ClassD struct {
 	// dead time (inductive operation with a dead time longer than ψ/ω).
 	CurrentReverses bool
 	// L and C are the tank values from F0 and QL (0 when Phase was given).
-	L q.Inductance
-	C q.Capacitance
+	L q.Inductance  // H
+	C q.Capacitance // F
 }
 
 // ClassDOperatingPoint works out the load and the edge currents of a class
@@ -365,10 +365,10 @@ type ClassDSwitch struct {
 // ClassDLoss are the time-averaged losses of one switch of a symmetric
 // class D half-bridge (both switches the same part), W.
 type ClassDLoss struct {
-	Conduction q.Power // (I_m/2)²·r_DS
-	TurnOn     q.Power // ETurnOn·f_sw (partial ZVS or hard)
-	TurnOff    q.Power // ZVSTurnOffEnergy·f_sw (inductive only)
-	Edge       ClassDEdge
+	Conduction q.Power    // (I_m/2)²·r_DS
+	TurnOn     q.Power    // ETurnOn·f_sw (partial ZVS or hard)
+	TurnOff    q.Power    // ZVSTurnOffEnergy·f_sw (inductive only)
+	Edge       ClassDEdge // the turn-on edge the losses were booked from
 }
 
 // Switch is the loss that heats the transistor (recovery and dead-time

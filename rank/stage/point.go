@@ -43,8 +43,8 @@ type SwitchStress struct {
 	// and leave a residual voltage, and once complete the switch's reverse
 	// conduction carries ISoftOn for the rest of the dead time.
 	// Both 0: a soft turn-on without loss.
-	VSoftOn q.Voltage
-	ISoftOn q.Current
+	VSoftOn q.Voltage // voltage left at a soft turn-on, V
+	ISoftOn q.Current // reversed current swinging the node, A
 }
 
 // Mode is the conduction mode a buck or boost stage runs in at a point.
@@ -82,10 +82,10 @@ type LightLoad struct {
 type Point struct {
 	Stage Stage // as understood, every default filled
 
-	IL     q.Current // average inductor current, A (custom: 0)
-	Ripple q.Current // peak-to-peak inductor ripple, A
-	Ctrl   SwitchStress
-	Sync   SwitchStress // valid when HasSync
+	IL     q.Current    // average inductor current, A (custom: 0)
+	Ripple q.Current    // peak-to-peak inductor ripple, A
+	Ctrl   SwitchStress // the control (hard-switching) switch's stresses
+	Sync   SwitchStress // the synchronous switch's, valid when HasSync
 	// HasSync is true when the second place holds a transistor.
 	HasSync bool
 	// HasDiode is true when the second place holds the external diode.

@@ -15,6 +15,8 @@ type RFPoint struct {
 	D resonant.ClassD // class D operating point (Topology ClassD)
 }
 
+// Resonant reports whether t is a resonant stage (class E or class D),
+// whose stresses come from its resonant design.
 func (t Topology) Resonant() bool { return t == ClassE || t == ClassD }
 
 // resolveRF designs the resonant stage of a class E or class D point.

@@ -179,6 +179,7 @@ type Stage struct {
 	// Overrides F0 and QL.
 	Phase q.Opt[q.Ratio]
 
+	// Driver is the gate driver of each switch; VOn is required.
 	Driver Driver
 
 	// Ambient is the ambient temperature, °C. Default 25 °C.

@@ -63,8 +63,8 @@ func (m *Model) At(t q.Temperature) float64 {
 
 // Solution is the outcome of SolveJunction.
 type Solution struct {
-	Tj         q.Temperature // junction temperature, °C (meaningful for Solved, Bracket, Fixed, AboveMax when Found)
-	Status     Status
+	Tj         q.Temperature    // junction temperature, °C (meaningful for Solved, Bracket, Fixed, AboveMax when Found)
+	Status     Status           // how Tj was found
 	Iterations int              // fixed-point or bisection steps taken
 	Gain       float64          // loop gain Rth·dP/dT at the solution; ≥ 1 means runaway
 	Found      bool             // a steady temperature exists (possibly above Tj,max)
