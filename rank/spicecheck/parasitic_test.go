@@ -155,7 +155,7 @@ func checkOvershoot(t *testing.T, cfg *Config, s *Suite) {
 // owner (docs/spice-crosscheck.md), V. It is not swrank's model; the test
 // uses it to show what a change would give. At the end of the turn-off
 // voltage rise the loop carries the whole current I while the channel
-// carries only iTop (MillerRiseEnergy); the rest flows in the output
+// carries only iTop (the Miller rise energy, loss.RiseIntegral); the rest flows in the output
 // capacitance, and the clamp interrupts it at once, so the loop rings with
 // the capacitance: (I − iTop)·√(L/C_oss(V)) with the small-signal C_oss at
 // the blocked voltage (the ring of an L-C pair started with current ΔI,
@@ -178,7 +178,8 @@ func proposedOvershoot(p *devices.Part, pt *Point, r *Row) (float64, error) {
 	v, i := q.Voltage(e.VBlock), q.Current(pt.Current)
 	rOff := q.Resistance(pt.RSink+pt.RgExt) + dev.RgInt
 	vpl := loss.PlateauAt(dev.Vth, dev.VplSpec, dev.QgId, i)
-	_, iTop := loss.MillerRiseEnergy(dev.Miller, dev.Oss, v, i, loss.GateCurrent(0, vpl, rOff, 0))
+	rise := dev.Rise.At(v)
+	_, iTop := rise.Energy(i, loss.GateCurrent(0, vpl, rOff, 0))
 	c := float64(dev.Oss.C(v))
 	tif := float64(r.Trans.Tif)
 	lRing := e.Par.Lcs
