@@ -12,6 +12,7 @@ import (
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
 	"swrank/rank/resonant"
+	"swrank/rank/spice"
 	"swrank/rank/stage"
 )
 
@@ -53,8 +54,8 @@ func TestClassEVDMOS(t *testing.T) {
 		tank  string // "design C2" or "shunt X"
 		pt    stage.Point
 		res   evaluate.Result
-		parts ClassEParts
-		sim   *ClassEMeasured
+		parts spice.ClassEParts
+		sim   *spice.ClassEMeasured
 	}
 	var runs []*run
 	for i := range cfg.ClassE {
@@ -62,7 +63,7 @@ func TestClassEVDMOS(t *testing.T) {
 		m := cfg.model(c.Device)
 		// The device's datasheet, characterised and read back from a
 		// parts CSV, as in the main suite.
-		ds, err := Characterise(ctx, r, m)
+		ds, err := spice.Characterise(ctx, r, m)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -97,7 +98,7 @@ func TestClassEVDMOS(t *testing.T) {
 		}
 		design := ClassEPartsFor(c, &pt, &res)
 		shunt := design
-		shunt.C2 = SeriesCapacitor(c.Fsw, design.L, float64(sh.X))
+		shunt.C2 = spice.SeriesCapacitor(c.Fsw, design.L, float64(sh.X))
 		t.Logf("%s (%s): R %.3f Ω, L %s, C2 %s (design, X %.3f Ω) or %s (shunt X %.3f Ω), C1 %s = device %s + external %s",
 			c.Name, c.Device, design.R, pt.RF.E.L, pt.RF.E.C2, float64(pt.RF.E.X), q.Format(q.Capacitance(shunt.C2), 3), float64(sh.X),
 			res.RF.CRequired, res.RF.CDevice, res.RF.CExternal)
@@ -106,7 +107,7 @@ func TestClassEVDMOS(t *testing.T) {
 	}
 	start := time.Now()
 	err = parallel(ctx, len(runs), 2, func(ctx context.Context, i int) error {
-		sim, err := SimulateClassE(ctx, r, cfg.model(runs[i].c.Device), &runs[i].parts)
+		sim, err := spice.SimulateClassE(ctx, r, cfg.model(runs[i].c.Device), &runs[i].parts)
 		runs[i].sim = sim
 		return err
 	})

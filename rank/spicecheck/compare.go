@@ -11,6 +11,7 @@ import (
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
 	"swrank/rank/loss"
+	"swrank/rank/spice"
 	"swrank/rank/stage"
 )
 
@@ -32,7 +33,7 @@ var Components = []string{CompConduction, CompTurnOn, CompTurnOff, CompCoss, Com
 // both edges, the rms current of a flat on-state current over the gate duty,
 // the same driver, an ideal partner, and the junction pinned to the
 // simulation's 25 °C.
-func Stage(p *Point, e *CellEnergies) stage.Stage {
+func Stage(p *spice.Point, e *spice.CellEnergies) stage.Stage {
 	return stage.Stage{
 		Topology: stage.Custom,
 		Vblock:   q.Voltage(e.VBlock),
@@ -50,7 +51,7 @@ func Stage(p *Point, e *CellEnergies) stage.Stage {
 }
 
 // Predict runs swrank's models for the part at the simulated cell.
-func Predict(part *devices.Part, p *Point, e *CellEnergies) (evaluate.Result, error) {
+func Predict(part *devices.Part, p *spice.Point, e *spice.CellEnergies) (evaluate.Result, error) {
 	st := Stage(p, e)
 	pt, err := st.Resolve()
 	if err != nil {
@@ -79,7 +80,7 @@ type Row struct {
 	// the energies are still those of the models and are compared.
 	VoltageOnly bool
 	Method      string // swrank's overlap method
-	SimE        *CellEnergies
+	SimE        *spice.CellEnergies
 	Trans       loss.Transitions // swrank's edge intervals
 	VplOn       float64          // swrank's plateau at the load current
 
@@ -107,7 +108,7 @@ func (r *Row) OvershootRatio() float64 {
 }
 
 // NewRow pairs a prediction with a simulation.
-func NewRow(dev string, p *Point, res *evaluate.Result, e *CellEnergies) Row {
+func NewRow(dev string, p *spice.Point, res *evaluate.Result, e *spice.CellEnergies) Row {
 	f := p.Fsw
 	l := res.Losses
 	d := &res.Devices[0]

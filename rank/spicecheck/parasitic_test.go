@@ -10,6 +10,7 @@ import (
 	q "swrank/devices/quantity"
 	"swrank/rank/fit"
 	"swrank/rank/loss"
+	"swrank/rank/spice"
 )
 
 // Acceptance limits of the peak drain voltage (docs/spice-crosscheck.md):
@@ -169,7 +170,7 @@ func checkOvershoot(t *testing.T, cfg *Config, s *Suite) {
 // the square law of the plateau scaling); the ring term uses
 // L_cs ∥ R_off·C_iss/g_m in place of L_cs (derived here from the gate-loop
 // equation of docs/second-order.md §1 linearised about the plateau).
-func proposedOvershoot(p *devices.Part, pt *Point, r *Row) (float64, error) {
+func proposedOvershoot(p *devices.Part, pt *spice.Point, r *Row) (float64, error) {
 	dev, err := fit.Prepare(p)
 	if err != nil {
 		return 0, err

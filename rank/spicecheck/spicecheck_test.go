@@ -8,16 +8,18 @@ import (
 	"path/filepath"
 	"testing"
 	"time"
+
+	"swrank/rank/spice"
 )
 
 const configPath = "../../testdata/spicecheck/cell.toml"
 
 // needNgspice returns a runner, skips when ngspice is missing, or fails
 // when SWRANK_REQUIRE_NGSPICE=1.
-func needNgspice(t *testing.T) *Runner {
+func needNgspice(t *testing.T) *spice.Runner {
 	t.Helper()
-	r, err := FindNgspice(60 * time.Second)
-	if errors.Is(err, ErrNoNgspice) {
+	r, err := spice.FindNgspice(60 * time.Second)
+	if errors.Is(err, spice.ErrNoNgspice) {
 		if os.Getenv("SWRANK_REQUIRE_NGSPICE") == "1" {
 			t.Fatalf("SWRANK_REQUIRE_NGSPICE=1 but %v", err)
 		}
@@ -134,8 +136,8 @@ func checkCoverage(t *testing.T, cfg *Config, s *Suite) {
 	if n := len(cfg.Points); n < 4 {
 		t.Errorf("%d points, want ≥ 4", n)
 	}
-	lo := Point{Vbus: math.Inf(1), Current: math.Inf(1), Fsw: math.Inf(1), VOn: math.Inf(1)}
-	var hi Point
+	lo := spice.Point{Vbus: math.Inf(1), Current: math.Inf(1), Fsw: math.Inf(1), VOn: math.Inf(1)}
+	var hi spice.Point
 	for _, p := range cfg.Points {
 		lo.Vbus, hi.Vbus = math.Min(lo.Vbus, p.Vbus), math.Max(hi.Vbus, p.Vbus)
 		lo.Current, hi.Current = math.Min(lo.Current, p.Current), math.Max(hi.Current, p.Current)

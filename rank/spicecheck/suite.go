@@ -13,6 +13,7 @@ import (
 
 	"swrank/devices"
 	q "swrank/devices/quantity"
+	"swrank/rank/spice"
 )
 
 // SuiteOptions tune RunSuite.
@@ -23,15 +24,15 @@ type SuiteOptions struct {
 	// report (report.txt). Required.
 	OutDir string
 	// Cell tunes the cell simulations.
-	Cell CellOptions
+	Cell spice.CellOptions
 }
 
 // Suite is the outcome of a full cross-check run.
 type Suite struct {
 	Config   *Config
-	Sheets   map[string]*Datasheet // by device name
-	Library  string                // path of the characterised parts CSV
-	Rows     []Row                 // every simulated device at every point, in config order
+	Sheets   map[string]*spice.Datasheet // by device name
+	Library  string                      // path of the characterised parts CSV
+	Rows     []Row                       // every simulated device at every point, in config order
 	Elapsed  time.Duration
 	Compared map[string][]Row // by point: the rows swrank did not screen out
 	// ParRows are the cells with parasitic inductance: every variant on
@@ -43,7 +44,7 @@ type Suite struct {
 // RunSuite characterises every device, writes the parts library, loads it
 // back (so that swrank sees only the CSV), simulates every device whose
 // rating suits each point and pairs the simulation with swrank's prediction.
-func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Suite, error) {
+func RunSuite(ctx context.Context, r *spice.Runner, cfg *Config, o SuiteOptions) (*Suite, error) {
 	start := time.Now()
 	if o.Workers <= 0 {
 		o.Workers = 2
@@ -54,12 +55,12 @@ func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Sui
 	if err := os.MkdirAll(o.OutDir, 0o755); err != nil {
 		return nil, err
 	}
-	s := &Suite{Config: cfg, Sheets: map[string]*Datasheet{}, Compared: map[string][]Row{}}
+	s := &Suite{Config: cfg, Sheets: map[string]*spice.Datasheet{}, Compared: map[string][]Row{}}
 
 	// 1. Characterisation.
-	sheets := make([]*Datasheet, len(cfg.Devices))
+	sheets := make([]*spice.Datasheet, len(cfg.Devices))
 	err := parallel(ctx, len(cfg.Devices), o.Workers, func(ctx context.Context, i int) error {
-		ds, err := Characterise(ctx, r, &cfg.Devices[i])
+		ds, err := spice.Characterise(ctx, r, &cfg.Devices[i])
 		sheets[i] = ds
 		return err
 	})
@@ -106,8 +107,8 @@ func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Sui
 	// 3. Cell simulations of every device rated for each point, then the
 	// cells with parasitic inductance.
 	type job struct {
-		p    *Point
-		m    *Model
+		p    *spice.Point
+		m    *spice.Model
 		v    *Variant // nil: the plain cell
 		part string   // the library row swrank evaluates
 	}
@@ -139,13 +140,13 @@ func RunSuite(ctx context.Context, r *Runner, cfg *Config, o SuiteOptions) (*Sui
 			}
 		}
 	}
-	sims := make([]*CellEnergies, len(jobs))
+	sims := make([]*spice.CellEnergies, len(jobs))
 	err = parallel(ctx, len(jobs), o.Workers, func(ctx context.Context, i int) error {
 		co := o.Cell
 		if v := jobs[i].v; v != nil {
 			co.Par = v.Par()
 		}
-		e, err := SimulateCell(ctx, r, jobs[i].m, jobs[i].p, co)
+		e, err := spice.SimulateCell(ctx, r, jobs[i].m, jobs[i].p, co)
 		sims[i] = e
 		return err
 	})
@@ -224,7 +225,7 @@ func (s *Suite) Plain(r *Row) *Row {
 	return nil
 }
 
-func (c *Config) model(name string) *Model {
+func (c *Config) model(name string) *spice.Model {
 	for i := range c.Devices {
 		if c.Devices[i].Name == name {
 			return &c.Devices[i]
@@ -233,7 +234,7 @@ func (c *Config) model(name string) *Model {
 	return nil
 }
 
-func (c *Config) point(name string) *Point {
+func (c *Config) point(name string) *spice.Point {
 	for i := range c.Points {
 		if c.Points[i].Name == name {
 			return &c.Points[i]

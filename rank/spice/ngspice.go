@@ -1,4 +1,4 @@
-package spicecheck
+package spice
 
 import (
 	"bufio"
@@ -89,7 +89,7 @@ func (r *Runner) Run(ctx context.Context, name, deck string, outputs ...string) 
 	if timeout <= 0 {
 		timeout = 60 * time.Second
 	}
-	dir, err := os.MkdirTemp("", "spicecheck-")
+	dir, err := os.MkdirTemp("", "swrank-spice-")
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", name, err)
 	}

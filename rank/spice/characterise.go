@@ -1,4 +1,4 @@
-package spicecheck
+package spice
 
 import (
 	"context"
