@@ -13,25 +13,32 @@ import (
 // Datasheet holds the numbers extracted from a model by simulated
 // characterisation, with the test conditions of each (SI units).
 type Datasheet struct {
-	RdsOn, RdsOnVgs   float64 // on-resistance at VgsHigh (10 V) and ITest
-	RdsOn2, RdsOn2Vgs float64 // on-resistance at the second gate voltage
-	Vth               float64 // gate threshold at 250 µA, Vds = Vgs
-	Vsd               float64 // body-diode drop at ITest
+	RdsOn, RdsOnVgs   float64 // on-resistance (Ω) at RdsOnVgs (V, 10 V) and the model's ITest
+	RdsOn2, RdsOn2Vgs float64 // on-resistance (Ω) at the second gate voltage (V, the model's Vgs2)
+	Vth               float64 // gate threshold at VthCurrent, Vds = Vgs, V
+	Vsd               float64 // body-diode drop at ITest, V; > 0
 
-	Ciss, Coss, Crss, CapVds float64 // small-signal at 1 MHz and CapVds
-	RgInt                    float64 // gate resistance at 1 MHz, drain shorted to source
-	Qoss, Eoss, OssVds       float64 // output charge and energy from 0 to OssVds
+	Ciss, Coss, Crss, CapVds float64 // small-signal capacitances at 1 MHz (F) and their drain bias CapVds (V, half the rating)
+	RgInt                    float64 // gate resistance at 1 MHz, drain shorted to source, Ω
+	Qoss, Eoss, OssVds       float64 // output charge (C) and energy (J) from 0 V to OssVds (V, half the rating)
 
-	Qg, QgVgs, QgVds, QgId float64 // total gate charge at QgVgs in the gate-charge test
-	Qgs, Qgd, QgTh, Vpl    float64 // gate-source, Miller and threshold charges; plateau voltage
-	GateCurve              [][2]float64
+	Qg, QgVgs, QgVds, QgId float64 // total gate charge (C) at QgVgs (V, 10 V) in the gate-charge test at QgVds (V, half the rating) and QgId (A, ITest)
+	Qgs, Qgd, QgTh, Vpl    float64 // gate-source, Miller and threshold charges (C); plateau voltage (V)
+	// GateCurve is the gate-charge curve resampled at 41 points from 0 to
+	// Qg: pairs of charge (C) and gate voltage (V), charge increasing.
+	GateCurve [][2]float64
 
-	Tr, Tf                     float64 // 10-90 % current rise and fall times, resistive load
-	TswVdd, TswId, TswVgs      float64
-	TswRg, TswRgen             float64
-	TswTdOn, TswTdOff          float64 // delay times (10 % gate to 10 % current), for the report
-	GateChargeIg               float64 // constant gate current of the gate-charge test, A
-	GateChargeTime, VthCurrent float64
+	Tr, Tf         float64 // 10-90 % current rise and fall times, resistive load, s
+	TswVdd         float64 // supply of the switching-time test, V (half the rating)
+	TswId          float64 // drain current of the switching-time test, A (ITest)
+	TswVgs         float64 // gate drive of the switching-time test, V (10 V)
+	TswRg          float64 // external gate resistor of the switching-time test, Ω (3 Ω)
+	TswRgen        float64 // generator resistance of the switching-time test, Ω (1 Ω)
+	TswTdOn        float64 // turn-on delay, from the generator's rising edge to 10 % of the drain current, s; for the report
+	TswTdOff       float64 // turn-off delay, from the generator's falling edge to 90 % of the drain current, s; for the report
+	GateChargeIg   float64 // constant gate current of the gate-charge test, A
+	GateChargeTime float64 // length of the gate-charge test, s
+	VthCurrent     float64 // drain current of the threshold test, A (250 µA)
 }
 
 // Test conditions of the characterisation (common datasheet practice).

@@ -38,8 +38,8 @@ func FindNgspice(timeout time.Duration) (*Runner, error) {
 // Table is one file written by ngspice's wrdata with wr_singlescale and
 // wr_vecnames set: named columns of equal length, the scale first.
 type Table struct {
-	Names []string
-	Cols  [][]float64
+	Names []string    // column names as ngspice writes them, e.g. "time", "v(d)", "@m1[id]"
+	Cols  [][]float64 // the columns in the order of Names, SI units, all of one length
 }
 
 // Col returns the column called name.
@@ -120,7 +120,7 @@ func (r *Runner) Run(ctx context.Context, name, deck string, outputs ...string) 
 		return nil, fmt.Errorf("%s: ngspice did not finish within %v", name, timeout)
 	}
 	if runErr != nil {
-		return nil, fmt.Errorf("%s: ngspice: %v\n%s", name, runErr, tail(out.String(), 2000))
+		return nil, fmt.Errorf("%s: ngspice: %w\n%s", name, runErr, tail(out.String(), 2000))
 	}
 	if msg := errorLines(out.String()); msg != "" {
 		return nil, fmt.Errorf("%s: ngspice reported: %s", name, msg)

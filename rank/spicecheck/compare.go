@@ -72,17 +72,17 @@ func Predict(part *devices.Part, p *spice.Point, e *spice.CellEnergies) (evaluat
 // Row is one device at one point: the predicted and simulated power of each
 // component, W.
 type Row struct {
-	Device, Point string
-	Pred, Sim     map[string]float64
-	Screened      bool   // swrank set the part aside at this point
-	ScreenNote    string // why
+	Device, Point string             // the device's and the point's names
+	Pred, Sim     map[string]float64 // power by component (Components), W: swrank's and the simulation's
+	Screened      bool               // swrank set the part aside at this point
+	ScreenNote    string             // why
 	// VoltageOnly is true when the only screen is the drain-voltage rating:
 	// the energies are still those of the models and are compared.
 	VoltageOnly bool
-	Method      string // swrank's overlap method
-	SimE        *spice.CellEnergies
-	Trans       loss.Transitions // swrank's edge intervals
-	VplOn       float64          // swrank's plateau at the load current
+	Method      string              // swrank's overlap method
+	SimE        *spice.CellEnergies // the simulated period
+	Trans       loss.Transitions    // swrank's edge intervals
+	VplOn       float64             // swrank's plateau at the load current
 
 	// Cells with parasitic inductance.
 	Variant string // the variant's name; "" for the plain cell
@@ -161,10 +161,10 @@ func (r *Row) SwitchingShare() float64 {
 
 // Stats are the median and the worst (largest magnitude) relative error.
 type Stats struct {
-	N             int
-	Median, Worst float64 // of |error|
-	WorstSigned   float64
-	WorstAt       string
+	N             int     // rows summarised
+	Median, Worst float64 // of |error|; ≥ 0 (0.1 = 10 %)
+	WorstSigned   float64 // the worst error with its sign
+	WorstAt       string  // where it is, "device @ point"
 }
 
 // ErrStats summarises the relative errors of a component over rows.

@@ -14,28 +14,28 @@ import (
 // whose order must reverse between a low-frequency and a high-frequency
 // point.
 type Swap struct {
-	Fast      string `toml:"fast"`
-	Slow      string `toml:"slow"`
-	LowPoint  string `toml:"low_point"`
-	HighPoint string `toml:"high_point"`
+	Fast      string `toml:"fast"`       // the fast part's device name
+	Slow      string `toml:"slow"`       // the slow part's device name
+	LowPoint  string `toml:"low_point"`  // the point where Slow must lose less
+	HighPoint string `toml:"high_point"` // the point where Fast must lose less
 }
 
 // Config is the device set and the operating points of the suite.
 type Config struct {
-	Devices    []spice.Model `toml:"device"`
-	Points     []spice.Point `toml:"point"`
-	Swap       Swap          `toml:"swap"`
-	Parasitics ParasiticSet  `toml:"parasitics"`
-	ClassE     []ClassECase  `toml:"class_e"`
+	Devices    []spice.Model `toml:"device"`     // the synthetic devices, names unique
+	Points     []spice.Point `toml:"point"`      // the cell's operating points, names unique
+	Swap       Swap          `toml:"swap"`       // the pair whose order must reverse; optional
+	Parasitics ParasiticSet  `toml:"parasitics"` // the cells with parasitic inductance; optional
+	ClassE     []ClassECase  `toml:"class_e"`    // the class E stages; optional
 }
 
 // ParasiticSet is the parasitic-inductance part of the suite: every
 // variant on every listed device at every listed point where the device is
 // a candidate.
 type ParasiticSet struct {
-	Devices  []string  `toml:"devices"`
-	Points   []string  `toml:"points"`
-	Variants []Variant `toml:"variant"`
+	Devices  []string  `toml:"devices"` // names of suite devices
+	Points   []string  `toml:"points"`  // names of suite points
+	Variants []Variant `toml:"variant"` // names unique
 }
 
 // Variant is one set of parasitic inductances added to the cell.
@@ -53,9 +53,9 @@ func (v *Variant) Par() spice.Parasitics {
 }
 
 // ClassECase is a class E stage with one of the suite's devices as the
-// switch (ClassEDeck).
+// switch (spice.SimulateClassE).
 type ClassECase struct {
-	Name    string  `toml:"name"`
+	Name    string  `toml:"name"`    // the case's name; required
 	Device  string  `toml:"device"`  // one of the suite's devices
 	Vdd     float64 `toml:"vdd"`     // supply, V; > 0
 	Pout    float64 `toml:"pout"`    // design output power, W; > 0

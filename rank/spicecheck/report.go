@@ -10,30 +10,30 @@ import (
 
 // PointSummary is the ordering agreement at one point.
 type PointSummary struct {
-	Point              string
-	N                  int
-	Conc, Disc         int
-	Tau                float64
-	PredOrder          []string
-	SimOrder           []string
-	MinSwitchingShare  float64 // lowest simulated switching share among the compared devices
-	MedSwitchingShare  float64 // median simulated switching share of the compared devices
-	Screened           []string
-	MedianTotalErr     float64
-	WorstTotalErr      float64
-	WorstTotalDevice   string
-	BestAgrees         bool
-	SwitchingDominates bool // the median compared device has a switching share ≥ 40 %
+	Point              string   // the point's name
+	N                  int      // devices compared
+	Conc, Disc         int      // concordant and discordant pairs of the two orders
+	Tau                float64  // Kendall's τ_a of the two orders; [−1, 1]
+	PredOrder          []string // device names by predicted total, lowest first
+	SimOrder           []string // device names by simulated total, lowest first
+	MinSwitchingShare  float64  // lowest simulated switching share among the compared devices; [0, 1]
+	MedSwitchingShare  float64  // median simulated switching share of the compared devices; [0, 1]
+	Screened           []string // devices swrank set aside (not compared)
+	MedianTotalErr     float64  // median |relative error| of the total
+	WorstTotalErr      float64  // largest relative error of the total, signed
+	WorstTotalDevice   string   // where it is, "device @ point"
+	BestAgrees         bool     // swrank and the simulation put the same device first
+	SwitchingDominates bool     // the median compared device has a switching share ≥ 40 %
 }
 
 // Summary is the whole run in figures.
 type Summary struct {
 	Comp      map[string]Stats // by component, over every compared row
-	Points    []PointSummary
-	TauPooled float64 // over the pairs within each point
-	Conc      int
-	Disc      int
-	Pairs     int
+	Points    []PointSummary   // in config order
+	TauPooled float64          // over the pairs within each point; [−1, 1]
+	Conc      int              // concordant pairs within the points
+	Disc      int              // discordant pairs within the points
+	Pairs     int              // all pairs within the points
 
 	// The cells with parasitic inductance.
 	ParComp   map[string]Stats // by component, over the parasitic rows compared (ParCompared)
@@ -44,12 +44,12 @@ type Summary struct {
 // over the rows of one variant: the ratio of the overshoots above the
 // blocked voltage, (Vpeak,pred − V)/(Vpeak,sim − V).
 type OvershootStats struct {
-	Variant          string
-	N                int
-	Min, Median, Max float64
-	MinAt, MaxAt     string
+	Variant          string  // the variant's name
+	N                int     // rows with a simulated overshoot
+	Min, Median, Max float64 // of the ratio; 1 = agreement
+	MinAt, MaxAt     string  // where they are, "device @ point"
 	SimMax           float64 // largest simulated overshoot, V
-	SimMaxAt         string
+	SimMaxAt         string  // where it is, "device @ point"
 }
 
 // Summarise computes the figures of a suite.

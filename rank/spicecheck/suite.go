@@ -29,12 +29,12 @@ type SuiteOptions struct {
 
 // Suite is the outcome of a full cross-check run.
 type Suite struct {
-	Config   *Config
+	Config   *Config                     // the configuration run
 	Sheets   map[string]*spice.Datasheet // by device name
 	Library  string                      // path of the characterised parts CSV
 	Rows     []Row                       // every simulated device at every point, in config order
-	Elapsed  time.Duration
-	Compared map[string][]Row // by point: the rows swrank did not screen out
+	Elapsed  time.Duration               // wall-clock time of RunSuite
+	Compared map[string][]Row            // by point: the rows swrank did not screen out
 	// ParRows are the cells with parasitic inductance: every variant on
 	// every listed device at every listed point where it is a candidate,
 	// in config order (variant, point, device).
@@ -175,7 +175,7 @@ func RunSuite(ctx context.Context, r *spice.Runner, cfg *Config, o SuiteOptions)
 	return s, nil
 }
 
-// Compared rows over all points, in config order.
+// AllCompared returns the compared rows over all points, in config order.
 func (s *Suite) AllCompared() []Row {
 	var out []Row
 	for _, p := range s.Config.Points {
