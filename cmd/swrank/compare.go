@@ -71,14 +71,14 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 			}
 		}
 	}
-	fr := evaluate.Evaluate(plan.pt, fd, plan.partner, nil)
+	fr := evaluate.Evaluate(plan.Point, fd, plan.Partner, nil)
 	res := make([]evaluate.Result, len(cands))
 	for i, d := range cands {
-		res[i] = evaluate.Evaluate(plan.pt, d, plan.partner, nil)
+		res[i] = evaluate.Evaluate(plan.Point, d, plan.Partner, nil)
 	}
 	slices.SortStableFunc(res, rank.Compare)
-	cr := compareReport{pt: plan.pt, source: lib.source, parts: len(devs), fitted: fr, top: in.top}
-	pout := plan.pt.Stage.Pout
+	cr := compareReport{pt: plan.Point, source: lib.source, parts: len(devs), fitted: fr, top: in.top}
+	pout := plan.Point.Stage.Pout
 	for i := range res {
 		if in.top > 0 && i == in.top {
 			break

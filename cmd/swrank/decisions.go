@@ -2,13 +2,11 @@ package main
 
 import (
 	"bytes"
-	"cmp"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
-	"runtime"
 	"slices"
 	"strconv"
 	"strings"
@@ -18,9 +16,7 @@ import (
 	"github.com/olekukonko/tablewriter/tw"
 
 	q "swrank/devices/quantity"
-	"swrank/rank"
 	"swrank/rank/decide"
-	"swrank/rank/evaluate"
 	"swrank/rank/fit"
 	"swrank/rank/stage"
 )
@@ -30,198 +26,20 @@ import (
 // leaders and the price-loss front. The plain ranking gets the last two as
 // decorations of its own output (decorate).
 
-// worstLeaders is how many leading parts get a worst-case evaluation.
-const worstLeaders = 10
-
-// eval is one part (at one count) at the stage: one point or a profile.
-type eval struct {
-	res  evaluate.Result       // single point
-	w    decide.WeightedResult // profile
-	prof bool
-}
-
-func (e *eval) screened() bool {
-	if e.prof {
-		return e.w.Screened()
-	}
-	return e.res.Screened()
-}
-
-// key orders evaluations, smaller first: the total loss, W, at one point;
-// the weighted loss fraction 1 − Σ wᵢ·ηᵢ over a profile.
-func (e *eval) key() float64 {
-	if e.prof {
-		return 1 - e.w.Weighted
-	}
-	return float64(e.res.Losses.Total())
-}
-
-func (e *eval) tj() (q.Temperature, bool) {
-	if e.prof {
-		return e.w.Tj()
-	}
-	return e.res.Tj()
-}
-
-func (e *eval) flags() fit.Flags {
-	if e.prof {
-		return e.w.Flags
-	}
-	return e.res.Flags
-}
-
-// candidate is one library part in the decision path.
-type candidate struct {
-	base   *fit.Device
-	n      int // the count shown
-	dev    *fit.Device
-	single eval // one device
-	chosen eval // n devices
-	tried  []float64
-	worst  *eval // worst-case values of the chosen count (leaders only)
-	noMax  bool  // the part gives no maximum values
-}
-
-func (c *candidate) name() string { return c.dev.Part.Name }
-
-// stagePlan is what the decision commands evaluate.
-type stagePlan struct {
-	pt      *stage.Point    // the (rated) point
-	prof    *decide.Profile // nil: one point
-	partner *fit.Device
-}
-
-func (p *stagePlan) evaluate(d *fit.Device) eval {
-	if p.prof != nil {
-		return eval{w: decide.EvaluateProfile(p.prof, d, p.partner), prof: true}
-	}
-	return eval{res: evaluate.Evaluate(p.pt, d, p.partner, nil)}
-}
-
-// better reports whether a beats b for the choice of a count: passing
-// first, then the key, ties to the smaller count (b, tried first).
-func better(a, b *eval) bool {
-	if a.screened() != b.screened() {
-		return !a.screened()
-	}
-	return a.key() < b.key()
-}
-
-// evaluateAll evaluates every device at every count and keeps the chosen
-// one; the order of the result is the rank order.
-func evaluateAll(plan *stagePlan, devs []fit.Device, counts []int, auto bool) ([]candidate, error) {
-	out := make([]candidate, len(devs))
-	errs := make([]error, len(devs))
-	work := func(i int) {
-		c := candidate{base: &devs[i], n: 1, dev: &devs[i]}
-		for _, n := range counts {
-			d := &devs[i]
-			if n > 1 {
-				dn, err := decide.Parallel(d, n)
-				if err != nil {
-					errs[i] = err
-					return
-				}
-				d = &dn
-			}
-			e := plan.evaluate(d)
-			c.tried = append(c.tried, e.key())
-			switch {
-			case n == 1:
-				c.single, c.chosen = e, e
-			case !auto || better(&e, &c.chosen):
-				c.n, c.dev, c.chosen = n, d, e
-			}
-		}
-		out[i] = c
-	}
-	rank.ForChunks(len(devs), runtime.GOMAXPROCS(0), 1, func(lo, hi int) {
-		for i := lo; i < hi; i++ {
-			work(i)
-		}
-	})
-	if err := errors.Join(errs...); err != nil {
-		return nil, err
-	}
-	slices.SortStableFunc(out, func(a, b candidate) int {
-		if sa, sb := a.chosen.screened(), b.chosen.screened(); sa != sb {
-			if sa {
-				return 1
-			}
-			return -1
-		}
-		if c := cmp.Compare(a.chosen.key(), b.chosen.key()); c != 0 {
-			return c
-		}
-		return cmp.Compare(a.name(), b.name())
-	})
-	return out, nil
-}
-
-// addWorst evaluates the worst-case values of the first passing leaders.
-func addWorst(plan *stagePlan, cs []candidate) error {
-	k := 0
-	for i := range cs {
-		if k == worstLeaders || cs[i].chosen.screened() {
-			break
-		}
-		k++
-		w, ok, err := decide.WorstCase(cs[i].dev)
-		if err != nil {
-			return fmt.Errorf("%s: %w", cs[i].name(), err)
-		}
-		if !ok {
-			cs[i].noMax = true
-			continue
-		}
-		e := plan.evaluate(&w)
-		cs[i].worst = &e
-	}
-	return nil
-}
-
 // spreadNote says whether the winner's lead outweighs its own spread
 // between typical and worst-case values ("" when it cannot be told).
-func spreadNote(cs []candidate, unit func(float64) string) (string, *decide.Spread) {
-	if len(cs) < 2 || cs[0].chosen.screened() || cs[1].chosen.screened() || cs[0].worst == nil {
+func spreadNote(cs []decide.Candidate, unit func(float64) string) (string, *decide.Spread) {
+	s := decide.LeaderSpread(cs)
+	if s == nil {
 		return "", nil
 	}
-	runnerWorst := cs[1].chosen.key()
-	if cs[1].worst != nil {
-		runnerWorst = cs[1].worst.key()
-	}
-	s := decide.SpreadOf(q.Power(cs[0].chosen.key()), q.Power(cs[0].worst.key()), q.Power(cs[1].chosen.key()), q.Power(runnerWorst))
-	a, b := cs[0].name(), cs[1].name()
+	a, b := cs[0].Name(), cs[1].Name()
 	if s.Clear {
 		return fmt.Sprintf("%s leads %s by %s, more than its own spread from typical to worst-case values (%s): a clear choice",
-			a, b, unit(float64(s.Lead)), unit(float64(s.Width))), &s
+			a, b, unit(float64(s.Lead)), unit(float64(s.Width))), s
 	}
 	return fmt.Sprintf("%s leads %s by %s, less than its own spread from typical to worst-case values (%s): a coin toss between them",
-		a, b, unit(float64(s.Lead)), unit(float64(s.Width))), &s
-}
-
-// frontOf returns the price-loss front of the passing candidates that
-// carry a price (N × price when paralleled), in increasing price.
-func frontOf(cs []candidate) []int {
-	var idx []int
-	var items []decide.PriceLoss
-	for i := range cs {
-		p := cs[i].dev.Part.Price
-		if !p.OK || cs[i].chosen.screened() {
-			continue
-		}
-		idx = append(idx, i)
-		items = append(items, decide.PriceLoss{Price: p.V, Loss: cs[i].chosen.key()})
-	}
-	if len(items) < 2 {
-		return nil
-	}
-	f := decide.ParetoFront(items)
-	out := make([]int, len(f))
-	for i, j := range f {
-		out[i] = idx[j]
-	}
-	return out
+		a, b, unit(float64(s.Lead)), unit(float64(s.Width))), s
 }
 
 func fmtPrice(v float64) string { return strconv.FormatFloat(v, 'f', 2, 64) }
@@ -237,11 +55,11 @@ func runRankDecisions(in *inputs, dec *decisionFlags, stdout, stderr io.Writer) 
 	if err != nil {
 		return err
 	}
-	cs, err := evaluateAll(plan, devs, counts, auto)
+	cs, err := decide.EvaluateAll(plan, devs, counts, auto)
 	if err != nil {
 		return err
 	}
-	if err := addWorst(plan, cs); err != nil {
+	if err := decide.AddWorst(plan, cs); err != nil {
 		return err
 	}
 	dr := decisionReport{plan: plan, cands: cs, source: lib.source, parts: len(devs), all: in.all, top: in.top,
@@ -262,7 +80,7 @@ type libInfo struct{ source string }
 
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
-func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*stagePlan, []fit.Device, libInfo, error) {
+func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*decide.Plan, []fit.Device, libInfo, error) {
 	if err := checkFormat(in.format); err != nil {
 		return nil, nil, libInfo{}, err
 	}
@@ -270,8 +88,8 @@ func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*stagePlan, 
 	if err != nil {
 		return nil, nil, libInfo{}, fmt.Errorf("operating point: %w", err)
 	}
-	plan := &stagePlan{pt: &pt}
-	if plan.prof, err = dec.profile(in.stage); err != nil {
+	plan := &decide.Plan{Point: &pt}
+	if plan.Profile, err = dec.profile(in.stage); err != nil {
 		return nil, nil, libInfo{}, err
 	}
 	lib, devs, err := loadLibrary(in, stderr)
@@ -282,7 +100,7 @@ func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*stagePlan, 
 		if !pt.HasSync {
 			return nil, nil, libInfo{}, errors.New("--partner needs a synchronous buck or boost stage")
 		}
-		if plan.partner, err = findDevice(devs, in.partner); err != nil {
+		if plan.Partner, err = findDevice(devs, in.partner); err != nil {
 			return nil, nil, libInfo{}, fmt.Errorf("--partner: %w", err)
 		}
 	}
@@ -291,8 +109,8 @@ func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*stagePlan, 
 
 // decisionReport is what the decision path of rank prints.
 type decisionReport struct {
-	plan     *stagePlan
-	cands    []candidate
+	plan     *decide.Plan
+	cands    []decide.Candidate
 	source   string
 	parts    int
 	all      bool
@@ -301,11 +119,11 @@ type decisionReport struct {
 	auto     bool
 }
 
-func (r *decisionReport) shown() []*candidate {
-	var out []*candidate
+func (r *decisionReport) shown() []*decide.Candidate {
+	var out []*decide.Candidate
 	for i := range r.cands {
 		c := &r.cands[i]
-		if c.chosen.screened() && !r.all {
+		if c.Chosen.Screened() && !r.all {
 			continue
 		}
 		out = append(out, c)
@@ -319,7 +137,7 @@ func (r *decisionReport) shown() []*candidate {
 // unit prints a key value: watts at one point, % of the output power over
 // a profile.
 func (r *decisionReport) unit(v float64) string {
-	if r.plan.prof != nil {
+	if r.plan.Profile != nil {
 		return strconv.FormatFloat(100*v, 'f', 3, 64) + " %"
 	}
 	return q.Format(q.Power(v), 3)
@@ -332,7 +150,7 @@ func (r *decisionReport) header() []string {
 	if r.parallel {
 		h = append(h, "N")
 	}
-	if pr := r.plan.prof; pr != nil {
+	if pr := r.plan.Profile; pr != nil {
 		for _, p := range pr.Points {
 			h = append(h, "η "+p.Name)
 		}
@@ -351,62 +169,62 @@ func (r *decisionReport) header() []string {
 	return h
 }
 
-func (r *decisionReport) row(i int, c *candidate) []string {
+func (r *decisionReport) row(i int, c *decide.Candidate) []string {
 	no := strconv.Itoa(i + 1)
-	if c.chosen.screened() {
+	if c.Chosen.Screened() {
 		no = "x"
 	}
-	name := c.name()
-	if c.single.res.Partner != nil {
-		name += " + " + c.single.res.Partner.Part.Name
+	name := c.Name()
+	if c.Single.Res.Partner != nil {
+		name += " + " + c.Single.Res.Partner.Part.Name
 	}
 	row := []string{no, name}
 	if r.parallel {
-		row = append(row, strconv.Itoa(c.n))
+		row = append(row, strconv.Itoa(c.N))
 	}
-	if r.plan.prof != nil {
-		for _, e := range c.chosen.w.Eff {
+	if r.plan.Profile != nil {
+		for _, e := range c.Chosen.W.Eff {
 			row = append(row, pct(e))
 		}
-		row = append(row, strconv.FormatFloat(100*c.chosen.w.Weighted, 'f', 3, 64), strconv.FormatFloat(100*c.chosen.w.LossFraction, 'f', 3, 64))
+		row = append(row, strconv.FormatFloat(100*c.Chosen.W.Weighted, 'f', 3, 64), strconv.FormatFloat(100*c.Chosen.W.LossFraction, 'f', 3, 64))
 		if r.parallel {
-			row = append(row, strconv.FormatFloat(100*c.single.w.Weighted, 'f', 3, 64))
+			row = append(row, strconv.FormatFloat(100*c.Single.W.Weighted, 'f', 3, 64))
 		}
 	} else {
-		l := c.chosen.res.Losses
+		l := c.Chosen.Res.Losses
 		row = append(row, fmtP(l.Conduction), fmtP(l.TurnOn+l.TurnOff), fmtP(l.Coss), fmtP(l.DeadTime+l.Recovery),
 			fmtP(l.GateRint+l.Driver()), fmtP(l.Total()))
 		if r.parallel {
-			row = append(row, fmtP(c.single.res.Losses.Total()))
+			row = append(row, fmtP(c.Single.Res.Losses.Total()))
 		}
 		p := "–"
-		if po := r.plan.pt.Stage.Pout; po > 0 {
+		if po := r.plan.Point.Stage.Pout; po > 0 {
 			p = strconv.FormatFloat(100*float64(l.Total())/float64(po), 'f', 2, 64)
 		}
 		row = append(row, p)
 	}
 	worst := "–"
 	switch {
-	case c.worst != nil && r.plan.prof != nil:
-		worst = strconv.FormatFloat(100*c.worst.w.Weighted, 'f', 3, 64) + " %"
-	case c.worst != nil:
-		worst = fmtP(c.worst.res.Losses.Total())
-	case c.noMax:
+	case c.Worst != nil && r.plan.Profile != nil:
+		worst = strconv.FormatFloat(100*c.Worst.W.Weighted, 'f', 3, 64) + " %"
+	case c.Worst != nil:
+		worst = fmtP(c.Worst.Res.Losses.Total())
+	case c.NoMax:
 		worst = "no max"
 	}
 	tj := "none"
-	if t, ok := c.chosen.tj(); ok {
+	if t, ok := c.Chosen.Tj(); ok {
 		tj = q.Format(t, 3)
 	}
 	price := "–"
-	if p := c.dev.Part.Price; p.OK {
+	if p := c.Dev.Part.Price; p.OK {
 		price = fmtPrice(p.V)
 	}
-	return append(row, worst, tj, price, strings.TrimSpace(flagCodes(c.chosen.flags())))
+	return append(row, worst, tj, price, strings.TrimSpace(flagCodes(c.Chosen.Flags())))
 }
 
 func (r *decisionReport) describe(w io.Writer) {
-	if pr := r.plan.prof; pr != nil {
+	if pr := r.plan.Profile; pr != nil {
 		fmt.Fprintf(w, "load profile: %s\n", pr.Title)
 		fmt.Fprintf(w, "source: %s\n", pr.Source)
 		fmt.Fprintln(w, "parts are ranked by the weighted efficiency Σ wᵢ·ηᵢ (the weights apply to efficiencies, not to watts); efficiencies in %, of the switches and drivers only")
@@ -425,9 +243,9 @@ func (r *decisionReport) describe(w io.Writer) {
 		}
 		fmt.Fprintf(w, "library %s: %d parts\n", r.source, r.parts)
 	} else {
-		describePoint(w, r.plan.pt, r.source, r.parts)
-		if r.plan.pt.Mode != stage.ModeGiven {
-			fmt.Fprintf(w, "conduction mode: %s\n", r.plan.pt.Mode)
+		describePoint(w, r.plan.Point, r.source, r.parts)
+		if r.plan.Point.Mode != stage.ModeGiven {
+			fmt.Fprintf(w, "conduction mode: %s\n", r.plan.Point.Mode)
 		}
 	}
 	if r.parallel {
@@ -462,9 +280,9 @@ func (r *decisionReport) rows() [][]string {
 // sections prints the set-aside parts, the spread of the leaders and the
 // price-loss front.
 func (r *decisionReport) sections(w io.Writer) {
-	var screened []*candidate
+	var screened []*decide.Candidate
 	for i := range r.cands {
-		if r.cands[i].chosen.screened() {
+		if r.cands[i].Chosen.Screened() {
 			screened = append(screened, &r.cands[i])
 		}
 	}
@@ -479,23 +297,23 @@ func (r *decisionReport) sections(w io.Writer) {
 	if note, _ := spreadNote(r.cands, r.unit); note != "" {
 		fmt.Fprintf(w, "\ntypical against worst case (rds_on_max, qg_max, vgs_th_max): %s\n", note)
 	}
-	if f := frontOf(r.cands); len(f) > 0 {
+	if f := decide.PriceFront(r.cands); len(f) > 0 {
 		fmt.Fprintln(w, "\nprice against loss, the parts no other part beats on both (N × price when paralleled):")
 		for _, i := range f {
 			c := &r.cands[i]
-			fmt.Fprintf(w, "- %s: price %s, loss %s\n", c.name(), fmtPrice(c.dev.Part.Price.V), r.unit(c.chosen.key()))
+			fmt.Fprintf(w, "- %s: price %s, loss %s\n", c.Name(), fmtPrice(c.Dev.Part.Price.V), r.unit(c.Chosen.Key()))
 		}
 	}
 }
 
-func (r *decisionReport) reasons(c *candidate) []string {
-	if !c.chosen.prof {
-		return c.chosen.res.Reasons()
+func (r *decisionReport) reasons(c *decide.Candidate) []string {
+	if !c.Chosen.Prof {
+		return c.Chosen.Res.Reasons()
 	}
 	var out []string
-	for i := range c.chosen.w.Results {
-		for _, s := range c.chosen.w.Results[i].Reasons() {
-			out = append(out, "at "+r.plan.prof.Points[i].Name+": "+s)
+	for i := range c.Chosen.W.Results {
+		for _, s := range c.Chosen.W.Results[i].Reasons() {
+			out = append(out, "at "+r.plan.Profile.Points[i].Name+": "+s)
 		}
 	}
 	return out
@@ -574,7 +392,7 @@ type jsonProfile struct {
 }
 
 func (r *decisionReport) keyUnit() string {
-	if r.plan.prof != nil {
+	if r.plan.Profile != nil {
 		return "fraction of pout (1 − weighted efficiency)"
 	}
 	return "W"
@@ -582,7 +400,7 @@ func (r *decisionReport) keyUnit() string {
 
 func (r *decisionReport) json(w io.Writer) error {
 	out := jsonDecisions{Library: r.source, LibraryParts: r.parts, Results: []jsonCandidate{}}
-	if pr := r.plan.prof; pr != nil {
+	if pr := r.plan.Profile; pr != nil {
 		jp := &jsonProfile{Title: pr.Title, Source: pr.Source}
 		for _, p := range pr.Points {
 			jp.Points = append(jp.Points, withMode(pointJSON(&p.Point), p.Point.Mode))
@@ -591,56 +409,56 @@ func (r *decisionReport) json(w io.Writer) error {
 		}
 		out.Profile = jp
 	} else {
-		p := withMode(pointJSON(r.plan.pt), r.plan.pt.Mode)
+		p := withMode(pointJSON(r.plan.Point), r.plan.Point.Mode)
 		out.OperatingPoint = &p
 	}
 	for i, c := range r.shown() {
-		j := jsonCandidate{Rank: i + 1, Part: c.name(), N: c.n, Flags: flagList(c.chosen.flags()), Screened: c.chosen.screened(),
+		j := jsonCandidate{Rank: i + 1, Part: c.Name(), N: c.N, Flags: flagList(c.Chosen.Flags()), Screened: c.Chosen.Screened(),
 			Reasons: r.reasons(c)}
 		if j.Reasons == nil {
 			j.Reasons = []string{}
 		}
-		if pr := r.plan.prof; pr != nil {
-			j.EffWeighted, j.LossFraction = ptr(c.chosen.w.Weighted), ptr(c.chosen.w.LossFraction)
+		if pr := r.plan.Profile; pr != nil {
+			j.EffWeighted, j.LossFraction = ptr(c.Chosen.W.Weighted), ptr(c.Chosen.W.LossFraction)
 			if r.parallel {
-				j.SingleEffW = ptr(c.single.w.Weighted)
+				j.SingleEffW = ptr(c.Single.W.Weighted)
 			}
 			for k, p := range pr.Points {
-				res := &c.chosen.w.Results[k]
+				res := &c.Chosen.W.Results[k]
 				j.Points = append(j.Points, jsonPointEff{Name: p.Name, Weight: p.Weight, Load: float64(p.Load), Mode: p.Point.Mode.String(),
-					PoutW: float64(p.Point.Stage.Pout), TotalW: float64(res.Losses.Total()), Eff: c.chosen.w.Eff[k], Screened: res.Screened()})
+					PoutW: float64(p.Point.Stage.Pout), TotalW: float64(res.Losses.Total()), Eff: c.Chosen.W.Eff[k], Screened: res.Screened()})
 			}
-			if c.worst != nil {
-				j.WorstEffW = ptr(c.worst.w.Weighted)
+			if c.Worst != nil {
+				j.WorstEffW = ptr(c.Worst.W.Weighted)
 			}
 		} else {
-			l := lossesJSON(c.chosen.res.Losses)
-			j.Losses, j.TotalW = &l, ptr(float64(c.chosen.res.Losses.Total()))
+			l := lossesJSON(c.Chosen.Res.Losses)
+			j.Losses, j.TotalW = &l, ptr(float64(c.Chosen.Res.Losses.Total()))
 			if r.parallel {
-				j.SingleTotalW = ptr(float64(c.single.res.Losses.Total()))
+				j.SingleTotalW = ptr(float64(c.Single.Res.Losses.Total()))
 			}
-			if c.worst != nil {
-				j.WorstTotalW = ptr(float64(c.worst.res.Losses.Total()))
+			if c.Worst != nil {
+				j.WorstTotalW = ptr(float64(c.Worst.Res.Losses.Total()))
 			}
 		}
 		if r.parallel {
-			j.TriedN, j.TriedMeasures = c.tried, r.keyUnit()+" for the counts tried"
+			j.TriedN, j.TriedMeasures = c.Tried, r.keyUnit()+" for the counts tried"
 		}
-		if t, ok := c.chosen.tj(); ok {
+		if t, ok := c.Chosen.Tj(); ok {
 			j.TjMaxDegC = ptr(float64(t))
 		}
-		if p := c.dev.Part.Price; p.OK {
+		if p := c.Dev.Part.Price; p.OK {
 			j.Price = ptr(p.V)
 		}
 		out.Results = append(out.Results, j)
 	}
 	if note, s := spreadNote(r.cands, r.unit); s != nil {
-		out.Spread = &jsonSpread{Leader: r.cands[0].name(), Runner: r.cands[1].name(), Lead: float64(s.Lead), Width: float64(s.Width),
+		out.Spread = &jsonSpread{Leader: r.cands[0].Name(), Runner: r.cands[1].Name(), Lead: float64(s.Lead), Width: float64(s.Width),
 			Unit: r.keyUnit(), Clear: s.Clear, Note: note}
 	}
-	for _, i := range frontOf(r.cands) {
+	for _, i := range decide.PriceFront(r.cands) {
 		c := &r.cands[i]
-		out.PriceFront = append(out.PriceFront, jsonFront{Part: c.name(), Price: c.dev.Part.Price.V, Loss: c.chosen.key(), Unit: r.keyUnit()})
+		out.PriceFront = append(out.PriceFront, jsonFront{Part: c.Name(), Price: c.Dev.Part.Price.V, Loss: c.Chosen.Key(), Unit: r.keyUnit()})
 	}
 	return writeJSON(w, out)
 }
@@ -676,27 +494,16 @@ func writeTable(w io.Writer, header []string, rows [][]string, markdown bool) er
 // or prices: after the table (text and Markdown), as extra columns (CSV)
 // or extra members (JSON).
 func decorate(w io.Writer, format string, rep report, partner *fit.Device) error {
-	shown := rep.shown()
-	plan := &stagePlan{pt: rep.pt, partner: partner}
-	cs := make([]candidate, len(shown))
-	hasExtra := false
-	for i := range shown {
-		d := shown[i].Dev
-		cs[i] = candidate{base: d, n: 1, dev: d, single: eval{res: shown[i]}, chosen: eval{res: shown[i]}}
-		p := d.Part
-		if p.Price.OK || p.RdsOnMax.OK || p.QgMax.OK || p.VgsThMax.OK {
-			hasExtra = true
-		}
-	}
-	if !hasExtra {
-		return render(w, format, rep)
-	}
-	if err := addWorst(plan, cs); err != nil {
+	cs, err := decide.Leaders(rep.pt, partner, rep.shown())
+	if err != nil {
 		return err
+	}
+	if cs == nil {
+		return render(w, format, rep)
 	}
 	unit := func(v float64) string { return q.Format(q.Power(v), 3) }
 	note, spread := spreadNote(cs, unit)
-	front := frontOf(cs)
+	front := decide.PriceFront(cs)
 	switch strings.ToLower(format) {
 	case "json":
 		var buf bytes.Buffer
@@ -714,10 +521,10 @@ func decorate(w io.Writer, format string, rep report, partner *fit.Device) error
 		}
 		var wr []worstRow
 		for _, c := range cs {
-			if c.worst != nil || c.noMax {
-				r := worstRow{Part: c.name(), TotalW: c.chosen.key()}
-				if c.worst != nil {
-					r.WorstTotalW = ptr(c.worst.key())
+			if c.Worst != nil || c.NoMax {
+				r := worstRow{Part: c.Name(), TotalW: c.Chosen.Key()}
+				if c.Worst != nil {
+					r.WorstTotalW = ptr(c.Worst.Key())
 				}
 				wr = append(wr, r)
 			}
@@ -735,7 +542,7 @@ func decorate(w io.Writer, format string, rep report, partner *fit.Device) error
 			}
 		}
 		if spread != nil {
-			if err := add("worst_case_spread", jsonSpread{Leader: cs[0].name(), Runner: cs[1].name(), Lead: float64(spread.Lead),
+			if err := add("worst_case_spread", jsonSpread{Leader: cs[0].Name(), Runner: cs[1].Name(), Lead: float64(spread.Lead),
 				Width: float64(spread.Width), Unit: "W", Clear: spread.Clear, Note: note}); err != nil {
 				return err
 			}
@@ -743,7 +550,7 @@ func decorate(w io.Writer, format string, rep report, partner *fit.Device) error
 		if len(front) > 0 {
 			var jf []jsonFront
 			for _, i := range front {
-				jf = append(jf, jsonFront{Part: cs[i].name(), Price: cs[i].dev.Part.Price.V, Loss: cs[i].chosen.key(), Unit: "W"})
+				jf = append(jf, jsonFront{Part: cs[i].Name(), Price: cs[i].Dev.Part.Price.V, Loss: cs[i].Chosen.Key(), Unit: "W"})
 			}
 			if err := add("price_front", jf); err != nil {
 				return err
@@ -762,24 +569,24 @@ func decorate(w io.Writer, format string, rep report, partner *fit.Device) error
 		col := slices.Index(rows[0], "part")
 		onFront := map[string]bool{}
 		for _, i := range front {
-			onFront[cs[i].name()] = true
+			onFront[cs[i].Name()] = true
 		}
-		byName := map[string]*candidate{}
+		byName := map[string]*decide.Candidate{}
 		for i := range cs {
-			byName[cs[i].name()] = &cs[i]
+			byName[cs[i].Name()] = &cs[i]
 		}
 		rows[0] = append(rows[0], "worst_total_w", "price", "price_front")
 		for i := 1; i < len(rows); i++ {
 			var worst, price, fr string
 			if col >= 0 && col < len(rows[i]) {
 				if c := byName[rows[i][col]]; c != nil {
-					if c.worst != nil {
-						worst = num(c.worst.key())
+					if c.Worst != nil {
+						worst = num(c.Worst.Key())
 					}
-					if p := c.dev.Part.Price; p.OK {
+					if p := c.Dev.Part.Price; p.OK {
 						price = num(p.V)
 					}
-					fr = strconv.FormatBool(onFront[c.name()])
+					fr = strconv.FormatBool(onFront[c.Name()])
 				}
 			}
 			rows[i] = append(rows[i], worst, price, fr)
@@ -795,8 +602,8 @@ func decorate(w io.Writer, format string, rep report, partner *fit.Device) error
 	}
 	var worstLines []string
 	for _, c := range cs {
-		if c.worst != nil {
-			worstLines = append(worstLines, fmt.Sprintf("- %s: typical %s, worst case %s", c.name(), unit(c.chosen.key()), unit(c.worst.key())))
+		if c.Worst != nil {
+			worstLines = append(worstLines, fmt.Sprintf("- %s: typical %s, worst case %s", c.Name(), unit(c.Chosen.Key()), unit(c.Worst.Key())))
 		}
 	}
 	if len(worstLines) > 0 {
@@ -811,7 +618,7 @@ func decorate(w io.Writer, format string, rep report, partner *fit.Device) error
 	if len(front) > 0 {
 		fmt.Fprintln(w, "\nprice against loss, the parts shown that no other beats on both:")
 		for _, i := range front {
-			fmt.Fprintf(w, "- %s: price %s, loss %s\n", cs[i].name(), fmtPrice(cs[i].dev.Part.Price.V), unit(cs[i].chosen.key()))
+			fmt.Fprintf(w, "- %s: price %s, loss %s\n", cs[i].Name(), fmtPrice(cs[i].Dev.Part.Price.V), unit(cs[i].Chosen.Key()))
 		}
 	}
 	return nil

@@ -51,7 +51,7 @@ func (d *decisionFlags) register(fs *flag.FlagSet) {
 	fs.StringVar(&d.design, "design", "", "design `FILE.toml` holding the stage, its points and the parts library (flags override it; see \"swrank new\")")
 	fs.StringVar(&d.weighting, "weighting", "", "rank by weighted efficiency over a load `PROFILE` of the rated point: euro, cec, quarters, 10-20-50-100, or LOAD:WEIGHT pairs such as \"10%:0.2,50%:0.5,100%:0.3\"")
 	fs.StringVar(&d.parallel, "parallel", "", "paralleled devices in each place the part fills: `N`, or auto (the N from 1 to --parallel-max with the least loss); reported beside the single device")
-	fs.IntVar(&d.parallelMax, "parallel-max", 4, "largest `N` tried by --parallel auto")
+	fs.IntVar(&d.parallelMax, "parallel-max", decide.DefaultParallelMax, "largest `N` tried by --parallel auto")
 	fs.BoolVar(&d.valley, "valley", false, "a diode-rectified stage in discontinuous conduction turns on at the first valley of the ringing (default: at the resting voltage)")
 }
 

@@ -34,12 +34,12 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	fs := newFlagSet("sweep", sweepSynopsis, stderr)
 	in.register(fs)
 	fs.StringVar(&in.format, "format", "table", "output `FORMAT`: table, csv, json or markdown")
-	fs.IntVar(&in.top, "top", 5, "sweep the best `N` parts over the range (fewest screened points, then least mean loss; 0: all) unless parts are named")
+	fs.IntVar(&in.top, "top", decide.DefaultSweepTop, "sweep the best `N` parts over the range (fewest screened points, then least mean loss; 0: all) unless parts are named")
 	dec.register(fs)
 	fs.StringVar(&sf.variable, "var", "fsw", "the `VARIABLE` swept: fsw (Hz), iout (A), vin (V; custom stage: the blocking voltage) or vdrive (V)")
 	fs.StringVar(&sf.from, "from", "", "start of the range, in the variable's unit with SI prefixes (`X`, e.g. 100k)")
 	fs.StringVar(&sf.to, "to", "", "end of the range (`Y`, e.g. 2M)")
-	fs.IntVar(&sf.steps, "steps", 40, "grid points, both ends included (`N`, 2 to 100000)")
+	fs.IntVar(&sf.steps, "steps", decide.DefaultSweepSteps, fmt.Sprintf("grid points, both ends included (`N`, 2 to %d)", decide.MaxSweepSteps))
 	fs.StringVar(&sf.scale, "scale", "", "grid steps, `KIND`: log (equal ratios; the default for fsw) or linear (the default otherwise)")
 	fs.BoolVar(&sf.components, "components", false, "show each loss component per part and point (one row per part and point)")
 	fs.StringVar(&sf.plot, "plot", "", "also draw loss against the swept variable to `FILE.svg` or FILE.png (replaced atomically)")
@@ -59,7 +59,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return fmt.Errorf("--var: %w", err)
 	}
-	spec := decide.SweepSpec{Var: v, Steps: sf.steps, Log: v == decide.SweepFsw}
+	spec := decide.SweepSpec{Var: v, Steps: sf.steps, Log: v.DefaultLog()}
 	switch strings.ToLower(sf.scale) {
 	case "":
 	case "log":

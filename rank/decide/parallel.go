@@ -14,6 +14,12 @@ import (
 // accepts.
 const MaxParallel = 64
 
+// DefaultParallelMax is the largest count the choice of the best count
+// tries when none is given: 1 to 4 devices in each place (common
+// practice: more than four paralleled devices on one driver is rare, and
+// their current sharing needs its own design).
+const DefaultParallelMax = 4
+
 // ParallelPart returns n copies of part p, on one gate driver and sharing
 // their current equally, as one part: resistances divided by n
 // (on-resistances, internal gate resistance, each device's own thermal

@@ -93,6 +93,20 @@ type SweepSpec struct {
 // MaxSweepSteps bounds the grid of a sweep.
 const MaxSweepSteps = 100000
 
+// DefaultSweepSteps is the number of grid points of a sweep when none is
+// given: enough to bracket the crossovers, which are then refined, without
+// a long table (common practice).
+const DefaultSweepSteps = 40
+
+// DefaultSweepTop is how many parts a sweep follows when no part is named:
+// the best over the range (Top), few enough for one table and one plot.
+const DefaultSweepTop = 5
+
+// DefaultLog reports whether a sweep of v steps logarithmically (equal
+// ratios) when no scale is given: the switching frequency, whose losses
+// matter over decades; the others step linearly.
+func (v SweepVar) DefaultLog() bool { return v == SweepFsw }
+
 // Grid returns the grid values, both ends included.
 func (s SweepSpec) Grid() ([]float64, error) {
 	switch {
