@@ -109,14 +109,14 @@ func BenchmarkEndToEnd(b *testing.B) {
 				if err != nil {
 					b.Fatal(err)
 				}
-				if err := render(io.Discard, "table", rep); err != nil {
+				if err := rep.Write(io.Discard, "table"); err != nil {
 					b.Fatal(err)
 				}
 				t2 := time.Now()
 				tCSV += t1.Sub(t0)
 				tE2E += t2.Sub(t1)
-				if rep.parts != n {
-					b.Fatalf("ranked %d of %d parts", rep.parts, n)
+				if rep.Parts != n {
+					b.Fatalf("ranked %d of %d parts", rep.Parts, n)
 				}
 			}
 			b.ReportMetric(float64(tE2E.Nanoseconds())/float64(b.N), "e2e-ns/op")

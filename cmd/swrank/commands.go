@@ -11,8 +11,10 @@ import (
 
 	"swrank/devices"
 	"swrank/rank"
+	"swrank/rank/decide"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
+	"swrank/rank/report"
 	"swrank/rank/stage"
 )
 
@@ -62,7 +64,7 @@ func findDevice(devs []fit.Device, name string) (*fit.Device, error) {
 
 // prepare parses the shared inputs and resolves the operating point.
 func prepare(in *inputs, stderr io.Writer) (*stage.Point, []fit.Device, *fit.Device, *devices.Library, error) {
-	if err := checkFormat(in.format); err != nil {
+	if err := report.CheckFormat(in.format); err != nil {
 		return nil, nil, nil, nil, err
 	}
 	pt, err := in.stage.Resolve()
@@ -110,43 +112,55 @@ func runRank(args []string, stdout, stderr io.Writer) error {
 			return err
 		}
 		res := rank.Rank(pt, devs, partner, rank.Options{})
-		return decorate(stdout, in.format, report{pt: pt, source: lib.Source, parts: len(lib.Parts), results: res, all: in.all, top: in.top}, partner)
+		rep := report.Ranking{Point: pt, Source: lib.Source, Parts: len(lib.Parts), Results: res, All: in.all, Top: in.top}
+		return writeRanking(stdout, in.format, &rep, partner)
 	}
 	rep, err := rankStream(&in, stderr)
 	if err != nil {
 		return err
 	}
-	return decorate(stdout, in.format, rep, nil)
+	return writeRanking(stdout, in.format, &rep, nil)
+}
+
+// writeRanking writes a plain ranking with the worst case of its leaders
+// and the price-loss front, when the library gives maximum values or
+// prices.
+func writeRanking(w io.Writer, format string, rep *report.Ranking, partner *fit.Device) error {
+	cs, err := decide.Leaders(rep.Point, partner, rep.Shown())
+	if err != nil {
+		return err
+	}
+	return rep.WriteWithLeaders(w, format, cs)
 }
 
 // rankStream ranks a library without holding it: each part is read,
 // prepared, evaluated and offered to a rank.Best that keeps the leaders.
-func rankStream(in *inputs, stderr io.Writer) (report, error) {
-	if err := checkFormat(in.format); err != nil {
-		return report{}, err
+func rankStream(in *inputs, stderr io.Writer) (report.Ranking, error) {
+	if err := report.CheckFormat(in.format); err != nil {
+		return report.Ranking{}, err
 	}
 	pt, err := in.stage.Resolve()
 	if err != nil {
-		return report{}, fmt.Errorf("operating point: %w", err)
+		return report.Ranking{}, fmt.Errorf("operating point: %w", err)
 	}
 	switch {
 	case in.demo && in.parts != "":
-		return report{}, errors.New("give --parts or --demo, not both")
+		return report.Ranking{}, errors.New("give --parts or --demo, not both")
 	case in.demo:
 		return rankReader(in, &pt, bytes.NewReader(devices.DemoCSV()), "demo", stderr)
 	case in.parts != "":
 		f, err := os.Open(in.parts)
 		if err != nil {
-			return report{}, err
+			return report.Ranking{}, err
 		}
 		defer f.Close()
 		return rankReader(in, &pt, bufio.NewReaderSize(f, 1<<16), in.parts, stderr)
 	}
-	return report{}, errors.New("no parts library: give --parts FILE.csv or --demo")
+	return report.Ranking{}, errors.New("no parts library: give --parts FILE.csv or --demo")
 }
 
 // rankReader ranks the library read from r at pt.
-func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io.Writer) (report, error) {
+func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io.Writer) (report.Ranking, error) {
 	best := rank.Best{N: in.top}
 	hdr, probs := devices.Scan(r, name, func(p *devices.Part) error {
 		d, err := fit.Prepare(p)
@@ -158,20 +172,20 @@ func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io
 		return nil
 	})
 	if probs.Fatal() {
-		return report{}, probs.Fatals()
+		return report.Ranking{}, probs.Fatals()
 	}
 	for _, w := range probs.Warnings() {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
-	return report{pt: pt, source: hdr.Source, parts: best.Passed + best.Screened, results: best.Results(),
-		screened: best.Screened, all: in.all, top: in.top}, nil
+	return report.Ranking{Point: pt, Source: hdr.Source, Parts: best.Passed + best.Screened, Results: best.Results(),
+		Screened: best.Screened, All: in.all, Top: in.top}, nil
 }
 
 func runExplain(args []string, stdout, stderr io.Writer) error {
 	var in inputs
 	fs := newFlagSet("explain", "explain [same flags as rank] PART", stderr)
 	in.register(fs)
-	fs.StringVar(&in.format, "format", "table", "output `FORMAT`: table (text) or json")
+	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table (text) or json")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -192,7 +206,7 @@ func runExplain(args []string, stdout, stderr io.Writer) error {
 	}
 	var tr evaluate.Trace
 	r := evaluate.Evaluate(pt, dev, partner, &tr)
-	return renderExplain(stdout, in.format, pt, &r, &tr)
+	return report.WriteExplain(stdout, in.format, pt, &r, &tr)
 }
 
 func runCheck(args []string, stdout, stderr io.Writer) error {
@@ -212,30 +226,13 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		}
 		lib, probs := devices.Check(f, path)
 		f.Close()
-		for _, p := range probs {
-			fmt.Fprintln(stdout, p.Error())
-			if p.Fatal {
-				fatal++
-			}
+		if err := report.WriteCheck(stdout, path, lib, probs); err != nil {
+			return err
 		}
-		n := 0
-		if lib != nil {
-			n = len(lib.Parts)
-		}
-		fmt.Fprintf(stdout, "%s: %d parts, %d problems (%d fatal)\n", path, n, len(probs), countFatal(probs))
+		fatal += len(probs.Fatals())
 	}
 	if fatal > 0 {
 		return &exitError{code: 1, err: fmt.Errorf("%d fatal problems", fatal)}
 	}
 	return nil
-}
-
-func countFatal(ps devices.ProblemList) int {
-	n := 0
-	for _, p := range ps {
-		if p.Fatal {
-			n++
-		}
-	}
-	return n
 }

@@ -3,9 +3,9 @@ package main
 import (
 	"flag"
 	"fmt"
-	"strings"
 
 	q "swrank/devices/quantity"
+	"swrank/rank/report"
 	"swrank/rank/stage"
 )
 
@@ -127,15 +127,7 @@ func (in *inputs) register(fs *flag.FlagSet) {
 
 // outputFlags registers the output flags on fs.
 func (in *inputs) registerOutput(fs *flag.FlagSet) {
-	fs.StringVar(&in.format, "format", "table", "output `FORMAT`: table, csv, json or markdown")
+	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
 	fs.BoolVar(&in.all, "all", false, "show screened parts in the table too")
 	fs.IntVar(&in.top, "top", 0, "show only the best `N` parts (0: all)")
-}
-
-func checkFormat(f string) error {
-	switch strings.ToLower(f) {
-	case "table", "csv", "json", "markdown":
-		return nil
-	}
-	return fmt.Errorf("--format %q: want table, csv, json or markdown", f)
 }

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"swrank/devices"
+	"swrank/rank/report"
 )
 
 // runCLI runs the command line in-process and returns its exit status and
@@ -63,7 +64,7 @@ func TestRankCustomHandCaseJSON(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("code %d: %s", code, errOut)
 	}
-	var rep jsonReport
+	var rep report.JSONReport
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatalf("json: %v\n%s", err, out)
 	}
@@ -135,16 +136,11 @@ func TestCSVFormulaNeutralised(t *testing.T) {
 	if !strings.Contains(out, `'=SUM(A1)`) || strings.Contains(out, `,=SUM`) {
 		t.Errorf("formula not neutralised:\n%s", out)
 	}
-	// The sweep's CSV too (every command writes CSV through newSafeCSV).
+	// The sweep's CSV too (every command writes CSV through the same formula guard).
 	code, out, e = runCLI(t, args([]string{"sweep", "--format", "csv", "--parts", "../../testdata/cli/formula_name.csv",
 		"--var", "fsw", "--from", "100k", "--to", "1M", "--steps", "3"}, buck)...)
 	if code != 0 || !strings.Contains(out, `'=SUM(A1)`) || strings.Contains(out, `,=SUM`) || strings.HasPrefix(out, "=") {
 		t.Errorf("sweep csv: code %d, %q %s", code, out, e)
-	}
-	for _, c := range []struct{ in, want string }{{"-1.5", "-1.5"}, {"=1+1", "'=1+1"}, {"+x", "'+x"}, {"@a", "'@a"}, {"a", "a"}} {
-		if got := safeCell(c.in); got != c.want {
-			t.Errorf("safeCell(%q) = %q, want %q", c.in, got, c.want)
-		}
 	}
 }
 
@@ -191,7 +187,7 @@ func TestCheckGood(t *testing.T) {
 func TestExplainMatchesRank(t *testing.T) {
 	lib := []string{"--parts", "../../testdata/cli/lib.csv"}
 	_, out, _ := runCLI(t, args([]string{"rank", "--format", "json"}, lib, buck)...)
-	var rep jsonReport
+	var rep report.JSONReport
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}
@@ -200,7 +196,7 @@ func TestExplainMatchesRank(t *testing.T) {
 		if code != 0 {
 			t.Fatalf("%s: %d %s", r.Part, code, e)
 		}
-		var ex jsonExplain
+		var ex report.JSONExplain
 		if err := json.Unmarshal([]byte(out), &ex); err != nil {
 			t.Fatal(err)
 		}
@@ -252,7 +248,7 @@ func TestDemoTwoPointsDifferentWinners(t *testing.T) {
 		if code != 0 {
 			t.Fatalf("%s: %d %s", p.name, code, e)
 		}
-		var rep jsonReport
+		var rep report.JSONReport
 		if err := json.Unmarshal([]byte(out), &rep); err != nil {
 			t.Fatal(err)
 		}
@@ -277,7 +273,7 @@ func TestDemoTwoPointsDifferentWinners(t *testing.T) {
 func TestDemoExplainEqualsRank(t *testing.T) {
 	base := args([]string{"--demo"}, buck)
 	_, out, _ := runCLI(t, args([]string{"rank", "--format", "json", "--all"}, base)...)
-	var rep jsonReport
+	var rep report.JSONReport
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}
@@ -286,7 +282,7 @@ func TestDemoExplainEqualsRank(t *testing.T) {
 	}
 	for _, r := range rep.Results {
 		_, out, e := runCLI(t, args([]string{"explain", "--format", "json"}, base, []string{r.Part})...)
-		var ex jsonExplain
+		var ex report.JSONExplain
 		if err := json.Unmarshal([]byte(out), &ex); err != nil {
 			t.Fatalf("%s: %v %s", r.Part, err, e)
 		}
@@ -306,7 +302,7 @@ func TestResonantCLI(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("%d %s", code, e)
 	}
-	var rep jsonReport
+	var rep report.JSONReport
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}

@@ -1,12 +1,9 @@
-package main
+package report
 
 import (
-	"bytes"
 	"fmt"
 	"image/color"
-	"os"
-	"path/filepath"
-	"strings"
+	"io"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -18,6 +15,8 @@ import (
 	"swrank/rank/decide"
 )
 
+// The plot of a sweep, as SVG (or PNG), drawn with gonum/plot.
+
 // siTicks relabels another ticker's major ticks with SI prefixes and the
 // unit ("100 kHz", "1.50 W").
 type siTicks struct {
@@ -25,6 +24,7 @@ type siTicks struct {
 	kind q.Kind
 }
 
+// Ticks implements plot.Ticker: the base ticks, relabelled.
 func (t siTicks) Ticks(lo, hi float64) []plot.Tick {
 	ts := t.base.Ticks(lo, hi)
 	for i := range ts {
@@ -131,14 +131,10 @@ func sweepPlot(sw *decide.SweepResult, set []int, cs []decide.Crossover) (*plot.
 	return p, nil
 }
 
-// writePlot draws the sweep to path (.svg or .png), atomically: the image
-// goes to a temporary file in the same directory, renamed into place.
-func writePlot(path string, sw *decide.SweepResult, set []int, cs []decide.Crossover) error {
-	format := strings.TrimPrefix(strings.ToLower(filepath.Ext(path)), ".")
-	if format != "svg" && format != "png" {
-		return fmt.Errorf("--plot %q: the file must end in .svg or .png", path)
-	}
-	p, err := sweepPlot(sw, set, cs)
+// Plot draws the sweep's total loss of each part against the swept
+// variable (sweepPlot), 8 × 5 inches, to w in format: svg or png.
+func (r *Sweep) Plot(w io.Writer, format string) error {
+	p, err := sweepPlot(r.Result, r.Set, r.Crossovers)
 	if err != nil {
 		return err
 	}
@@ -146,61 +142,8 @@ func writePlot(path string, sw *decide.SweepResult, set []int, cs []decide.Cross
 	if err != nil {
 		return fmt.Errorf("plot: %w", err)
 	}
-	var buf bytes.Buffer
-	if _, err := wt.WriteTo(&buf); err != nil {
+	if _, err := wt.WriteTo(w); err != nil {
 		return fmt.Errorf("plot: %w", err)
-	}
-	return writeAtomic(path, buf.Bytes(), false)
-}
-
-// writeAtomic writes data to path through a temporary file in the same
-// directory, synced and then moved into place. With noClobber an existing
-// file is never replaced: the move is a hard link, which fails when path
-// exists (O_EXCL semantics), falling back to a checked rename where the
-// file system has no hard links.
-func writeAtomic(path string, data []byte, noClobber bool) (err error) {
-	dir := filepath.Dir(path)
-	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			os.Remove(tmp)
-		}
-	}()
-	if err = f.Chmod(0o644); err == nil {
-		if _, err = f.Write(data); err == nil {
-			err = f.Sync()
-		}
-	}
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if !noClobber {
-		if err = os.Rename(tmp, path); err != nil {
-			return fmt.Errorf("writing %s: %w", path, err)
-		}
-		return nil
-	}
-	if err = os.Link(tmp, path); err == nil {
-		os.Remove(tmp)
-		return nil
-	}
-	if os.IsExist(err) {
-		return fmt.Errorf("%s already exists: it is left as it is", path)
-	}
-	// No hard links here: check, then rename (a narrow race remains).
-	if _, serr := os.Lstat(path); serr == nil {
-		err = fmt.Errorf("%s already exists: it is left as it is", path)
-		return err
-	}
-	if err = os.Rename(tmp, path); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
 	}
 	return nil
 }

@@ -1,6 +1,7 @@
-package main
+package report
 
 import (
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -8,15 +9,19 @@ import (
 	"strings"
 
 	q "swrank/devices/quantity"
+	"swrank/rank/decide"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
 	"swrank/rank/stage"
 )
 
-// Field names carry their unit: _w, _v, _a, _hz, _ohm, _farad, _coulomb,
-// _s, _degc, _k_per_w; efficiencies eff_* are fractions.
+// The json format of rank and explain. Field names carry their unit: _w,
+// _v, _a, _hz, _ohm, _farad, _coulomb, _s, _degc, _k_per_w; efficiencies
+// eff_* are fractions.
 
-type jsonStress struct {
+// JSONStress is what one place of the stage asks of its switch
+// (stage.SwitchStress).
+type JSONStress struct {
 	VBlockV float64 `json:"v_block_v"`
 	IOnA    float64 `json:"i_on_a"`
 	IOffA   float64 `json:"i_off_a"`
@@ -27,7 +32,9 @@ type jsonStress struct {
 	HardOff bool    `json:"hard_turn_off"`
 }
 
-type jsonPoint struct {
+// JSONPoint is the operating point as understood: the stage with its
+// defaults filled, the driver, the thermal path and the switch stresses.
+type JSONPoint struct {
 	Topology           string      `json:"topology"`
 	Mode               string      `json:"mode"`
 	Rectifier          string      `json:"rectifier,omitempty"`
@@ -62,14 +69,16 @@ type jsonPoint struct {
 	F0Hz               float64     `json:"f0_hz,omitempty"`
 	PhaseRad           *float64    `json:"phase_rad,omitempty"`
 	ShuntRequiredFarad *float64    `json:"shunt_required_farad,omitempty"`
-	Control            jsonStress  `json:"control"`
-	Sync               *jsonStress `json:"sync,omitempty"`
+	Control            JSONStress  `json:"control"`
+	Sync               *JSONStress `json:"sync,omitempty"`
 	Notes              []string    `json:"notes"`
 	Library            string      `json:"library,omitempty"`
 	LibraryParts       int         `json:"library_parts,omitempty"`
 }
 
-type jsonLosses struct {
+// JSONLosses are the loss components, W (evaluate.Losses); total_w is
+// switch_w + driver_w.
+type JSONLosses struct {
 	TotalW           float64 `json:"total_w"`
 	SwitchW          float64 `json:"switch_w"`
 	DriverW          float64 `json:"driver_w"`
@@ -85,10 +94,12 @@ type jsonLosses struct {
 	DriverQuiescentW float64 `json:"driver_quiescent_w"`
 }
 
-type jsonDevice struct {
+// JSONDevice is one device of a result: its place (role), losses,
+// junction temperature and the values it was evaluated with.
+type JSONDevice struct {
 	Part string `json:"part"`
 	Role string `json:"role"`
-	jsonLosses
+	JSONLosses
 	TjDegC   *float64 `json:"tj_degc"`
 	Thermal  string   `json:"thermal"`
 	RdsOhm   float64  `json:"rds_on_ohm"`
@@ -97,12 +108,14 @@ type jsonDevice struct {
 	Flags    []string `json:"flags"`
 }
 
-type jsonResult struct {
+// JSONResult is one part (with its partner) at the operating point, in
+// rank order.
+type JSONResult struct {
 	Rank     int    `json:"rank"`
 	Part     string `json:"part"`
 	Partner  string `json:"partner,omitempty"`
 	Position string `json:"position"`
-	jsonLosses
+	JSONLosses
 	TjDegC   *float64     `json:"tj_degc"`
 	EffStage *float64     `json:"eff_stage,omitempty"`
 	LossPct  *float64     `json:"loss_pct,omitempty"`
@@ -110,7 +123,7 @@ type jsonResult struct {
 	Flags    []string     `json:"flags"`
 	Screened bool         `json:"screened"`
 	Reasons  []string     `json:"reasons"`
-	Devices  []jsonDevice `json:"devices"`
+	Devices  []JSONDevice `json:"devices"`
 	// Class E and class D stages.
 	PeakV              *float64 `json:"peak_v,omitempty"`
 	PeakA              *float64 `json:"peak_a,omitempty"`
@@ -125,21 +138,22 @@ type jsonResult struct {
 	EffWithDriver      *float64 `json:"eff_with_driver,omitempty"`
 }
 
-type jsonReport struct {
-	OperatingPoint jsonPoint    `json:"operating_point"`
-	Results        []jsonResult `json:"results"`
+// JSONReport is the JSON document of a plain ranking.
+type JSONReport struct {
+	OperatingPoint JSONPoint    `json:"operating_point"`
+	Results        []JSONResult `json:"results"`
 }
 
 func ptr(v float64) *float64 { return &v }
 
-func stressJSON(s *stage.SwitchStress) jsonStress {
-	return jsonStress{float64(s.V), float64(s.IOn), float64(s.IOff), float64(s.IRms), float64(s.IPeak), float64(s.Duty), s.HardOn, s.HardOff}
+func stressJSON(s *stage.SwitchStress) JSONStress {
+	return JSONStress{float64(s.V), float64(s.IOn), float64(s.IOff), float64(s.IRms), float64(s.IPeak), float64(s.Duty), s.HardOn, s.HardOff}
 }
 
-func pointJSON(pt *stage.Point) jsonPoint {
+func pointJSON(pt *stage.Point) JSONPoint {
 	s := &pt.Stage
 	d := &s.Driver
-	j := jsonPoint{
+	j := JSONPoint{
 		Topology: s.Topology.String(), Mode: pt.Mode.String(), Position: s.Position.String(),
 		PoutW: float64(s.Pout), FswHz: float64(s.Fsw), RippleA: float64(pt.Ripple),
 		VdriveV: float64(d.VOn), VdriveOffV: float64(d.VOff), RsrcOhm: float64(d.RSource), RsnkOhm: float64(d.RSink),
@@ -182,8 +196,8 @@ func pointJSON(pt *stage.Point) jsonPoint {
 	return j
 }
 
-func lossesJSON(l evaluate.Losses) jsonLosses {
-	return jsonLosses{
+func lossesJSON(l evaluate.Losses) JSONLosses {
+	return JSONLosses{
 		TotalW: float64(l.Total()), SwitchW: float64(l.Switch()), DriverW: float64(l.Driver()),
 		ConductionW: float64(l.Conduction), TurnOnW: float64(l.TurnOn), TurnOffW: float64(l.TurnOff),
 		CossW: float64(l.Coss), DeadtimeW: float64(l.DeadTime), RecoveryW: float64(l.Recovery),
@@ -200,9 +214,9 @@ func flagList(f fit.Flags) []string {
 	return strings.Split(f.Codes(), ",")
 }
 
-func resultJSON(i int, x *evaluate.Result, pout q.Power) jsonResult {
-	j := jsonResult{
-		Rank: i + 1, Part: x.Dev.Part.Name, Position: x.Position.String(), jsonLosses: lossesJSON(x.Losses),
+func resultJSON(i int, x *evaluate.Result, pout q.Power) JSONResult {
+	j := JSONResult{
+		Rank: i + 1, Part: x.Dev.Part.Name, Position: x.Position.String(), JSONLosses: lossesJSON(x.Losses),
 		Method: methods(x), Flags: flagList(x.Flags), Screened: x.Screened(), Reasons: x.Reasons(),
 	}
 	if j.Reasons == nil {
@@ -232,7 +246,7 @@ func resultJSON(i int, x *evaluate.Result, pout q.Power) jsonResult {
 	}
 	for k := 0; k < x.N; k++ {
 		d := &x.Devices[k]
-		jd := jsonDevice{Part: d.Dev.Part.Name, Role: d.Role.String(), jsonLosses: lossesJSON(d.Losses),
+		jd := JSONDevice{Part: d.Dev.Part.Name, Role: d.Role.String(), JSONLosses: lossesJSON(d.Losses),
 			Thermal: d.Thermal.Status.String(), RdsOhm: float64(d.Rds), RthKperW: float64(d.Rth),
 			Method: d.Method.String(), Flags: flagList(d.Flags)}
 		if d.Thermal.Found {
@@ -243,11 +257,11 @@ func resultJSON(i int, x *evaluate.Result, pout q.Power) jsonResult {
 	return j
 }
 
-func renderJSON(w io.Writer, r report) error {
-	out := jsonReport{OperatingPoint: pointJSON(r.pt), Results: []jsonResult{}}
-	out.OperatingPoint.Library, out.OperatingPoint.LibraryParts = r.source, r.parts
-	for i, x := range r.shown() {
-		out.Results = append(out.Results, resultJSON(i, &x, r.pt.Stage.Pout))
+func (r *Ranking) json(w io.Writer) error {
+	out := JSONReport{OperatingPoint: pointJSON(r.Point), Results: []JSONResult{}}
+	out.OperatingPoint.Library, out.OperatingPoint.LibraryParts = r.Source, r.Parts
+	for i, x := range r.Shown() {
+		out.Results = append(out.Results, resultJSON(i, &x, r.Point.Stage.Pout))
 	}
 	return writeJSON(w, out)
 }
@@ -258,99 +272,117 @@ func writeJSON(w io.Writer, v any) error {
 	return enc.Encode(v)
 }
 
-// jsonStep is one step of an explanation.
-type jsonStep struct {
+// JSONStep is one step of an explanation.
+type JSONStep struct {
 	Device  string           `json:"device,omitempty"`
 	Topic   string           `json:"topic"`
 	Formula string           `json:"formula"`
 	Terms   []map[string]any `json:"terms"`
 }
 
-type jsonExplain struct {
-	OperatingPoint jsonPoint  `json:"operating_point"`
-	Result         jsonResult `json:"result"`
-	Steps          []jsonStep `json:"steps"`
+// JSONExplain is the JSON document of explain: the operating point, the
+// result, every step of its calculation and the notes of its flags.
+type JSONExplain struct {
+	OperatingPoint JSONPoint  `json:"operating_point"`
+	Result         JSONResult `json:"result"`
+	Steps          []JSONStep `json:"steps"`
 	Flags          []string   `json:"flag_notes"`
 }
 
-func renderExplain(w io.Writer, format string, pt *stage.Point, r *evaluate.Result, tr *evaluate.Trace) error {
-	if format == "json" {
-		out := jsonExplain{OperatingPoint: pointJSON(pt), Result: resultJSON(0, r, pt.Stage.Pout), Flags: r.Flags.Sentences()}
-		for _, s := range tr.Steps {
-			js := jsonStep{Device: s.Device, Topic: s.Topic, Formula: s.Formula}
-			for _, t := range s.Terms {
-				v := any(t.Value)
-				if math.IsNaN(t.Value) || math.IsInf(t.Value, 0) {
-					v = nil
-				}
-				js.Terms = append(js.Terms, map[string]any{"name": t.Name, "value": v, "unit": t.Kind.Symbol})
-			}
-			out.Steps = append(out.Steps, js)
-		}
-		return writeJSON(w, out)
-	}
-	describePoint(w, pt, "", 0)
-	name := r.Dev.Part.Name
-	if r.Partner != nil {
-		name += " with " + r.Partner.Part.Name
-	}
-	fmt.Fprintf(w, "\n%s — %s\n", name, placeWord(pt))
-	for k := 0; k < r.N; k++ {
-		d := &r.Devices[k]
-		fmt.Fprintf(w, "  %s switch %s: method %s\n", d.Role, d.Dev.Part.Name, methodWhy(d))
-	}
-	last := ""
+// explainJSON writes the calculation as a JSONExplain document.
+func explainJSON(w io.Writer, pt *stage.Point, r *evaluate.Result, tr *evaluate.Trace) error {
+	out := JSONExplain{OperatingPoint: pointJSON(pt), Result: resultJSON(0, r, pt.Stage.Pout), Flags: r.Flags.Sentences()}
 	for _, s := range tr.Steps {
-		head := s.Device
-		if head == "" {
-			head = "stage"
-		}
-		if head != last {
-			fmt.Fprintf(w, "\n[%s]\n", head)
-			last = head
-		}
-		fmt.Fprintf(w, "  %s: %s\n", s.Topic, s.Formula)
+		js := JSONStep{Device: s.Device, Topic: s.Topic, Formula: s.Formula}
 		for _, t := range s.Terms {
-			fmt.Fprintf(w, "      %-22s %s\n", t.Name, q.FormatFloat(t.Value, 4, t.Kind))
+			v := any(t.Value)
+			if math.IsNaN(t.Value) || math.IsInf(t.Value, 0) {
+				v = nil
+			}
+			js.Terms = append(js.Terms, map[string]any{"name": t.Name, "value": v, "unit": t.Kind.Symbol})
 		}
+		out.Steps = append(out.Steps, js)
 	}
-	fmt.Fprintln(w)
-	for k := 0; k < r.N; k++ {
-		d := &r.Devices[k]
-		l := d.Losses
-		tj := "none (" + d.Thermal.Status.String() + ")"
-		if d.Thermal.Found {
-			tj = q.Format(d.Thermal.Tj, 4) + " (" + d.Thermal.Status.String() + ")"
-		}
-		fmt.Fprintf(w, "%s %s: switch %s, driver %s, total %s, Tj %s\n", d.Role, d.Dev.Part.Name,
-			q.Format(l.Switch(), 4), q.Format(l.Driver(), 4), q.Format(l.Total(), 4), tj)
-	}
-	fmt.Fprintf(w, "stage total: %s", q.Format(r.Losses.Total(), 4))
-	if pt.Stage.Pout > 0 {
-		fmt.Fprintf(w, " (%.2f %% of %s)", 100*float64(r.Losses.Total())/float64(pt.Stage.Pout), pt.Stage.Pout)
-	}
-	fmt.Fprintln(w)
-	if fl := r.Flags.Sentences(); len(fl) > 0 {
-		fmt.Fprintln(w, "\nassumptions:")
-		for _, s := range fl {
-			fmt.Fprintf(w, "  - %s\n", s)
-		}
-	}
-	if rs := r.Reasons(); len(rs) > 0 {
-		fmt.Fprintln(w, "\nset aside:")
-		for _, s := range rs {
-			fmt.Fprintf(w, "  - %s\n", s)
-		}
-	}
-	return nil
+	return writeJSON(w, out)
 }
 
-func methodWhy(d *evaluate.DeviceResult) string {
-	if !(d.Stress.HardOn || d.Stress.HardOff) {
-		return "none needed (soft-switched: no overlap loss)"
+// jsonWithLeaders writes the ranking's JSON document with three more
+// members: worst_case, worst_case_spread and price_front.
+func (r *Ranking) jsonWithLeaders(w io.Writer, cs []decide.Candidate, note string, spread *decide.Spread, front []int) error {
+	var buf bytes.Buffer
+	if err := r.json(&buf); err != nil {
+		return err
 	}
-	if d.Method == fit.MethodGateCharge {
-		return "gate-charge (qgs, qgd and v_plateau are given)"
+	var doc map[string]json.RawMessage
+	if err := json.Unmarshal(buf.Bytes(), &doc); err != nil {
+		return fmt.Errorf("decorating the JSON output: %w", err)
 	}
-	return "tr/tf (the library lacks qgs, qgd or v_plateau)"
+	type worstRow struct {
+		Part        string   `json:"part"`
+		TotalW      float64  `json:"total_w"`
+		WorstTotalW *float64 `json:"worst_total_w"`
+	}
+	var wr []worstRow
+	for _, c := range cs {
+		if c.Worst != nil || c.NoMax {
+			row := worstRow{Part: c.Name(), TotalW: c.Chosen.Key()}
+			if c.Worst != nil {
+				row.WorstTotalW = ptr(c.Worst.Key())
+			}
+			wr = append(wr, row)
+		}
+	}
+	add := func(k string, v any) error {
+		b, err := json.Marshal(v)
+		if err == nil {
+			doc[k] = b
+		}
+		return err
+	}
+	if len(wr) > 0 {
+		if err := add("worst_case", wr); err != nil {
+			return err
+		}
+	}
+	if spread != nil {
+		if err := add("worst_case_spread", jsonSpread{Leader: cs[0].Name(), Runner: cs[1].Name(), Lead: float64(spread.Lead),
+			Width: float64(spread.Width), Unit: "W", Clear: spread.Clear, Note: note}); err != nil {
+			return err
+		}
+	}
+	if len(front) > 0 {
+		var jf []jsonFront
+		for _, i := range front {
+			jf = append(jf, jsonFront{Part: cs[i].Name(), Price: cs[i].Dev.Part.Price.V, Loss: cs[i].Chosen.Key(), Unit: "W"})
+		}
+		if err := add("price_front", jf); err != nil {
+			return err
+		}
+	}
+	return writeJSON(w, doc)
+}
+
+// jsonPointMode is an operating point with its conduction mode.
+type jsonPointMode struct {
+	JSONPoint
+	Mode string `json:"mode"`
+}
+
+func withMode(p JSONPoint, m stage.Mode) jsonPointMode { return jsonPointMode{p, m.String()} }
+
+type jsonSpread struct {
+	Leader string  `json:"leader"`
+	Runner string  `json:"runner_up"`
+	Lead   float64 `json:"lead"`
+	Width  float64 `json:"leader_spread"`
+	Unit   string  `json:"unit"`
+	Clear  bool    `json:"clear"`
+	Note   string  `json:"note"`
+}
+
+type jsonFront struct {
+	Part  string  `json:"part"`
+	Price float64 `json:"price"`
+	Loss  float64 `json:"loss"`
+	Unit  string  `json:"unit"`
 }
