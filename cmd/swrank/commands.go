@@ -12,6 +12,7 @@ import (
 	"swrank/devices"
 	"swrank/rank"
 	"swrank/rank/decide"
+	"swrank/rank/design"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
 	"swrank/rank/report"
@@ -89,21 +90,21 @@ func prepare(in *inputs, stderr io.Writer) (*stage.Point, []fit.Device, *fit.Dev
 
 func runRank(args []string, stdout, stderr io.Writer) error {
 	var in inputs
-	var dec decisionFlags // design file, profiles, paralleling (design.go)
+	var dec design.Decisions // design file, profiles, paralleling
 	fs := newFlagSet("rank", rankSynopsis, stderr)
 	in.register(fs)
 	in.registerOutput(fs)
-	dec.register(fs)
+	registerDecisions(fs, &dec)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
 	if fs.NArg() > 0 {
 		return fmt.Errorf("unexpected arguments %q (flags come as --name value)", fs.Args())
 	}
-	if err := dec.apply(fs, &in); err != nil {
+	if err := applyDesign(fs, &in, &dec); err != nil {
 		return err
 	}
-	if dec.ownPath() {
+	if dec.OwnPath() {
 		return runRankDecisions(&in, &dec, stdout, stderr)
 	}
 	if in.partner != "" {

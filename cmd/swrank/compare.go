@@ -5,10 +5,10 @@ import (
 	"fmt"
 	"io"
 	"slices"
-	"strings"
 
 	"swrank/rank"
 	"swrank/rank/decide"
+	"swrank/rank/design"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
 	"swrank/rank/report"
@@ -19,27 +19,27 @@ const compareSynopsis = `compare --fitted PART [CANDIDATE ...] [--parts FILE.csv
 // runCompare judges candidates against the part already fitted.
 func runCompare(args []string, stdout, stderr io.Writer) error {
 	var in inputs
-	var dec decisionFlags
+	var dec design.Decisions
 	var fitted string
 	fs := newFlagSet("compare", compareSynopsis, stderr)
 	in.register(fs)
 	in.registerOutput(fs)
-	dec.register(fs)
+	registerDecisions(fs, &dec)
 	fs.StringVar(&fitted, "fitted", "", "the `PART` already fitted, which every candidate is judged against (required)")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
-	if err := dec.apply(fs, &in); err != nil {
+	if err := applyDesign(fs, &in, &dec); err != nil {
 		return err
 	}
 	if fitted == "" {
 		fs.Usage()
 		return fmt.Errorf("%w: compare needs --fitted PART", errUsage)
 	}
-	if dec.multi() {
+	if dec.Multi() {
 		return errors.New("compare works at one operating point: drop --weighting or the design's [[point]] tables (rank ranks over a profile)")
 	}
-	if p := strings.TrimSpace(dec.parallel); p != "" && p != "1" {
+	if dec.Paralleled() {
 		return errors.New("compare judges single devices: drop --parallel (rank --parallel shows paralleled parts)")
 	}
 	plan, devs, lib, err := preparePlan(&in, &dec, stderr)

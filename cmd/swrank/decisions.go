@@ -6,18 +6,19 @@ import (
 	"io"
 
 	"swrank/rank/decide"
+	"swrank/rank/design"
 	"swrank/rank/fit"
 	"swrank/rank/report"
 )
 
 // runRankDecisions is rank with several points, paralleling or valley
 // switching.
-func runRankDecisions(in *inputs, dec *decisionFlags, stdout, stderr io.Writer) error {
+func runRankDecisions(in *inputs, dec *design.Decisions, stdout, stderr io.Writer) error {
 	plan, devs, lib, err := preparePlan(in, dec, stderr)
 	if err != nil {
 		return err
 	}
-	counts, auto, err := dec.parallelCounts()
+	counts, auto, err := dec.ParallelCounts()
 	if err != nil {
 		return err
 	}
@@ -38,16 +39,16 @@ type libInfo struct{ source string }
 
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
-func preparePlan(in *inputs, dec *decisionFlags, stderr io.Writer) (*decide.Plan, []fit.Device, libInfo, error) {
+func preparePlan(in *inputs, dec *design.Decisions, stderr io.Writer) (*decide.Plan, []fit.Device, libInfo, error) {
 	if err := report.CheckFormat(in.format); err != nil {
 		return nil, nil, libInfo{}, err
 	}
-	pt, err := in.stage.ResolveLight(dec.lightLoad())
+	pt, err := in.stage.ResolveLight(dec.LightLoad())
 	if err != nil {
 		return nil, nil, libInfo{}, fmt.Errorf("operating point: %w", err)
 	}
 	plan := &decide.Plan{Point: &pt}
-	if plan.Profile, err = dec.profile(in.stage); err != nil {
+	if plan.Profile, err = dec.Profile(in.stage); err != nil {
 		return nil, nil, libInfo{}, err
 	}
 	lib, devs, err := loadLibrary(in, stderr)

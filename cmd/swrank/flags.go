@@ -3,8 +3,11 @@ package main
 import (
 	"flag"
 	"fmt"
+	"io"
 
 	q "swrank/devices/quantity"
+	"swrank/rank/decide"
+	"swrank/rank/design"
 	"swrank/rank/report"
 	"swrank/rank/stage"
 )
@@ -82,15 +85,20 @@ type inputs struct {
 	top     int
 }
 
-// stageFlags registers the operating-point flags on fs.
+// register registers the library and operating-point flags on fs.
 func (in *inputs) register(fs *flag.FlagSet) {
-	s := &in.stage
 	fs.StringVar(&in.parts, "parts", "", "parts library `FILE.csv` (one row per part)")
 	fs.BoolVar(&in.demo, "demo", false, "use the built-in demo library instead of --parts")
+	fs.StringVar(&in.partner, "partner", "", "`PART` filling the other place (default: the ranked part itself)")
+	registerStage(fs, &in.stage)
+}
+
+// registerStage registers the stage, driver and thermal flags on fs,
+// bound to s.
+func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 	fs.Var(enum[stage.Topology]{&s.Topology, stage.ParseTopology, str[stage.Topology]}, "topology", "`STAGE`: buck, boost, custom, class-e or class-d")
 	fs.Var(enum[stage.Rectifier]{&s.Rectifier, stage.ParseRectifier, str[stage.Rectifier]}, "rectifier", "second place of a buck or boost, `KIND`: sync (a transistor) or diode")
 	fs.Var(enum[stage.Position]{&s.Position, stage.ParsePosition, str[stage.Position]}, "position", "`PLACE` ranked in a synchronous stage: control, sync or pair (whole-stage loss in every case)")
-	fs.StringVar(&in.partner, "partner", "", "`PART` filling the other place (default: the ranked part itself)")
 	fs.Var(qty[q.Voltage]{&s.Vin}, "vin", "input voltage, `V`")
 	fs.Var(qty[q.Voltage]{&s.Vout}, "vout", "output voltage, `V`")
 	fs.Var(qty[q.Current]{&s.Iout}, "iout", "load current, `A`")
@@ -130,4 +138,42 @@ func (in *inputs) registerOutput(fs *flag.FlagSet) {
 	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
 	fs.BoolVar(&in.all, "all", false, "show screened parts in the table too")
 	fs.IntVar(&in.top, "top", 0, "show only the best `N` parts (0: all)")
+}
+
+// registerDecisions registers the flags of the decision features (design
+// file, load profile, paralleling, light load) on fs, bound to d.
+func registerDecisions(fs *flag.FlagSet, d *design.Decisions) {
+	fs.StringVar(&d.Design, "design", "", "design `FILE.toml` holding the stage, its points and the parts library (flags override it; see \"swrank new\")")
+	fs.StringVar(&d.Weighting, "weighting", "", "rank by weighted efficiency over a load `PROFILE` of the rated point: euro, cec, quarters, 10-20-50-100, or LOAD:WEIGHT pairs such as \"10%:0.2,50%:0.5,100%:0.3\"")
+	fs.StringVar(&d.Parallel, "parallel", "", "paralleled devices in each place the part fills: `N`, or auto (the N from 1 to --parallel-max with the least loss); reported beside the single device")
+	fs.IntVar(&d.ParallelMax, "parallel-max", decide.DefaultParallelMax, "largest `N` tried by --parallel auto")
+	fs.BoolVar(&d.Valley, "valley", false, "a diode-rectified stage in discontinuous conduction turns on at the first valley of the ringing (default: at the resting voltage)")
+}
+
+// applyDesign fills the flags of fs that the command line left alone from
+// the design file, when one is given (rank/design).
+func applyDesign(fs *flag.FlagSet, in *inputs, d *design.Decisions) error {
+	return d.Apply(design.Command{Flags: fs, Stage: &in.stage, Parts: &in.parts, Demo: &in.demo,
+		AllFlags: allFlags, StageFlags: stageFlags})
+}
+
+// allFlags is a flag set of every rank flag, bound to values of its own.
+func allFlags() *flag.FlagSet {
+	var in inputs
+	var d design.Decisions
+	fs := flag.NewFlagSet("", flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	in.register(fs)
+	in.registerOutput(fs)
+	registerDecisions(fs, &d)
+	return fs
+}
+
+// stageFlags is a flag set of the stage, driver and thermal flags, bound
+// to s.
+func stageFlags(s *stage.Stage) *flag.FlagSet {
+	fs := flag.NewFlagSet("", flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	registerStage(fs, s)
+	return fs
 }

@@ -12,6 +12,7 @@ import (
 	q "swrank/devices/quantity"
 	"swrank/rank"
 	"swrank/rank/decide"
+	"swrank/rank/design"
 	"swrank/rank/fit"
 	"swrank/rank/report"
 )
@@ -30,13 +31,13 @@ type sweepFlags struct {
 
 func runSweep(args []string, stdout, stderr io.Writer) error {
 	var in inputs
-	var dec decisionFlags
+	var dec design.Decisions
 	var sf sweepFlags
 	fs := newFlagSet("sweep", sweepSynopsis, stderr)
 	in.register(fs)
 	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
 	fs.IntVar(&in.top, "top", decide.DefaultSweepTop, "sweep the best `N` parts over the range (fewest screened points, then least mean loss; 0: all) unless parts are named")
-	dec.register(fs)
+	registerDecisions(fs, &dec)
 	fs.StringVar(&sf.variable, "var", "fsw", "the `VARIABLE` swept: fsw (Hz), iout (A), vin (V; custom stage: the blocking voltage) or vdrive (V)")
 	fs.StringVar(&sf.from, "from", "", "start of the range, in the variable's unit with SI prefixes (`X`, e.g. 100k)")
 	fs.StringVar(&sf.to, "to", "", "end of the range (`Y`, e.g. 2M)")
@@ -47,10 +48,10 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if err := parse(fs, args); err != nil {
 		return err
 	}
-	if err := dec.apply(fs, &in); err != nil {
+	if err := applyDesign(fs, &in, &dec); err != nil {
 		return err
 	}
-	if dec.multi() {
+	if dec.Multi() {
 		return errors.New("sweep works at one operating point: drop --weighting or the design's [[point]] tables")
 	}
 	if err := report.CheckFormat(in.format); err != nil {
@@ -84,11 +85,11 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if sf.plot != "" {
-		if err := checkPlotPath(sf.plot, in.parts, dec.design); err != nil {
+		if err := checkPlotPath(sf.plot, in.parts, dec.Design); err != nil {
 			return err
 		}
 	}
-	counts, auto, err := dec.parallelCounts()
+	counts, auto, err := dec.ParallelCounts()
 	if err != nil {
 		return err
 	}
@@ -131,7 +132,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 			ptrs[i] = &dn
 		}
 	}
-	sw, err := decide.Sweep(in.stage, dec.lightLoad(), spec, ptrs, partner, rank.Options{})
+	sw, err := decide.Sweep(in.stage, dec.LightLoad(), spec, ptrs, partner, rank.Options{})
 	if err != nil {
 		return err
 	}
@@ -201,5 +202,5 @@ func writePlot(path string, rep *report.Sweep) error {
 	if err := rep.Plot(&buf, format); err != nil {
 		return err
 	}
-	return writeAtomic(path, buf.Bytes(), false)
+	return design.WriteAtomic(path, buf.Bytes(), false)
 }
