@@ -4,11 +4,15 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
+	"strconv"
+	"strings"
 
 	q "swrank/devices/quantity"
 	"swrank/rank/decide"
 	"swrank/rank/design"
 	"swrank/rank/report"
+	"swrank/rank/resonant"
 	"swrank/rank/stage"
 )
 
@@ -74,6 +78,19 @@ func (f enum[T]) Set(s string) error {
 
 func str[T fmt.Stringer](t T) string { return t.String() }
 
+// short prints a default value for a flag's help as the flag takes it:
+// plain from 0.01 to 1000 ("0.8", "25"), with an SI prefix outside ("20n").
+func short[T ~float64](v T) string {
+	x := float64(v)
+	if a := math.Abs(x); a == 0 || a >= 0.01 && a < 1000 {
+		return strconv.FormatFloat(x, 'g', -1, 64)
+	}
+	const prefixes = "afpnµm kMGTPE"
+	e := min(max(int(math.Floor(math.Log10(math.Abs(x))/3)), -6), 6)
+	p := string([]rune(prefixes)[e+6])
+	return strconv.FormatFloat(x/math.Pow(1000, float64(e)), 'g', 12, 64) + strings.TrimSpace(p)
+}
+
 // inputs are the flags shared by rank and explain.
 type inputs struct {
 	parts   string
@@ -104,10 +121,10 @@ func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 	fs.Var(qty[q.Current]{&s.Iout}, "iout", "load current, `A`")
 	fs.Var(qty[q.Power]{&s.Pout}, "pout", "output power for percentages, `W` (default vout × iout)")
 	fs.Var(qty[q.Frequency]{&s.Fsw}, "fsw", "switching frequency, `Hz`")
-	fs.Var(opt[q.Ratio]{&s.Ripple}, "ripple", "inductor ripple, peak-to-peak `FRACTION` of the inductor current (default 0.3 unless --inductance)")
+	fs.Var(opt[q.Ratio]{&s.Ripple}, "ripple", "inductor ripple, peak-to-peak `FRACTION` of the inductor current (default "+short(stage.DefaultRipple)+" unless --inductance)")
 	fs.Var(qty[q.Inductance]{&s.Inductance}, "inductance", "inductor, `H` (sets the ripple)")
-	fs.Var(opt[q.Time]{&s.DeadTime}, "dead-time", "dead time at each edge of a synchronous stage, `S` (default 20n)")
-	fs.Var(qty[q.Voltage]{&s.Diode.Vf}, "diode-vf", "rectifier diode forward drop, `V` (default 0.5)")
+	fs.Var(opt[q.Time]{&s.DeadTime}, "dead-time", "dead time at each edge of a synchronous stage, `S` (default "+short(stage.DefaultDeadTime)+")")
+	fs.Var(qty[q.Voltage]{&s.Diode.Vf}, "diode-vf", "rectifier diode forward drop, `V` (default "+short(stage.DefaultDiodeVf)+")")
 	fs.Var(qty[q.Charge]{&s.Diode.Qrr}, "diode-qrr", "rectifier diode recovered charge, `C` (default 0)")
 	fs.Var(qty[q.Capacitance]{&s.Diode.Cj}, "diode-cj", "rectifier diode junction capacitance, `F` (default 0)")
 	fs.Var(qty[q.Voltage]{&s.Vblock}, "vblock", "custom: blocking voltage at the hard edges, `V`")
@@ -115,22 +132,22 @@ func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 	fs.Var(qty[q.Current]{&s.Ioff}, "ioff", "custom: drain current at turn-off, `A`")
 	fs.Var(qty[q.Current]{&s.Irms}, "irms", "custom: rms drain current, `A`")
 	fs.Var(qty[q.Resistance]{&s.RLoad}, "rload", "class E and D: load resistance, `OHM` (give it or --pout)")
-	fs.Var(qty[q.Ratio]{&s.QL}, "ql", "class E and D: loaded `Q` of the series tank (class E default: the ideal Q → ∞; at least 1.7879)")
+	fs.Var(qty[q.Ratio]{&s.QL}, "ql", "class E and D: loaded `Q` of the series tank (class E default: the ideal Q → ∞; at least "+short(resonant.MinLoadedQ)+")")
 	fs.Var(qty[q.Frequency]{&s.F0}, "f0", "class D: resonant frequency of the tank, `Hz` (with --ql)")
 	fs.Var(opt[q.Ratio]{&s.Phase}, "phase", "class D: load phase at fsw, `RAD` (> 0 above resonance; instead of --f0 and --ql)")
 	fs.Var(qty[q.Inductance]{&s.LoopInductance}, "l-loop", "layout power-loop inductance added to the parts' own l_loop, `H` (default 0)")
 	fs.Var(qty[q.Voltage]{&s.Driver.VOn}, "vdrive", "gate drive on level, `V` (required)")
 	fs.Var(qty[q.Voltage]{&s.Driver.VOff}, "vdrive-off", "gate drive off level, `V`; negative for bipolar drive (default 0)")
-	fs.Var(qty[q.Resistance]{&s.Driver.RSource}, "rsrc", "driver source (pull-up) resistance, `OHM` (default 2)")
-	fs.Var(qty[q.Resistance]{&s.Driver.RSink}, "rsnk", "driver sink (pull-down) resistance, `OHM` (default 1)")
+	fs.Var(qty[q.Resistance]{&s.Driver.RSource}, "rsrc", "driver source (pull-up) resistance, `OHM` (default "+short(stage.DefaultRSource)+")")
+	fs.Var(qty[q.Resistance]{&s.Driver.RSink}, "rsnk", "driver sink (pull-down) resistance, `OHM` (default "+short(stage.DefaultRSink)+")")
 	fs.Var(qty[q.Current]{&s.Driver.IPeakSource}, "ipk-src", "driver peak source current limit, `A` (default none)")
 	fs.Var(qty[q.Current]{&s.Driver.IPeakSink}, "ipk-snk", "driver peak sink current limit, `A` (default none)")
 	fs.Var(qty[q.Resistance]{&s.Driver.RgExt}, "rg-ext", "external gate resistor, `OHM` (default 0)")
 	fs.Var(qty[q.Current]{&s.Driver.IQ}, "iq", "driver quiescent current, `A` (default 0)")
-	fs.Var(qty[q.Temperature]{&s.Ambient}, "ta", "ambient temperature, `DEGC` (default 25)")
+	fs.Var(qty[q.Temperature]{&s.Ambient}, "ta", "ambient temperature, `DEGC` (default "+short(stage.DefaultAmbient)+")")
 	fs.Var(opt[q.ThermalResistance]{&s.RthCA}, "rth-ca", "case-to-ambient thermal resistance added to a part's rth_jc, `K/W`")
 	fs.Var(opt[q.Temperature]{&s.TjFixed}, "tj", "pin every junction at this temperature instead of solving it, `DEGC`")
-	fs.Var(qty[q.Ratio]{&s.Derate}, "derate", "fraction of vds_max the drain voltage may reach, `FRACTION` (default 0.8)")
+	fs.Var(qty[q.Ratio]{&s.Derate}, "derate", "fraction of vds_max the drain voltage may reach, `FRACTION` (default "+short(stage.DefaultDerate)+")")
 }
 
 // outputFlags registers the output flags on fs.
