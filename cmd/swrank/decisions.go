@@ -34,7 +34,7 @@ func runRankDecisions(in *inputs, dec *design.Decisions, stdout, stderr io.Write
 	return dr.Write(stdout, in.format)
 }
 
-// library is what preparePlan loaded.
+// libInfo is what preparePlan loaded.
 type libInfo struct{ source string }
 
 // preparePlan resolves the stage (one point or a profile) and loads the

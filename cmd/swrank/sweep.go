@@ -38,7 +38,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
 	fs.IntVar(&in.top, "top", decide.DefaultSweepTop, "sweep the best `N` parts over the range (fewest screened points, then least mean loss; 0: all) unless parts are named")
 	registerDecisions(fs, &dec)
-	fs.StringVar(&sf.variable, "var", "fsw", "the `VARIABLE` swept: fsw (Hz), iout (A), vin (V; custom stage: the blocking voltage) or vdrive (V)")
+	fs.StringVar(&sf.variable, "var", decide.SweepFsw.String(), "the `VARIABLE` swept: fsw (Hz), iout (A), vin (V; custom stage: the blocking voltage) or vdrive (V)")
 	fs.StringVar(&sf.from, "from", "", "start of the range, in the variable's unit with SI prefixes (`X`, e.g. 100k)")
 	fs.StringVar(&sf.to, "to", "", "end of the range (`Y`, e.g. 2M)")
 	fs.IntVar(&sf.steps, "steps", decide.DefaultSweepSteps, fmt.Sprintf("grid points, both ends included (`N`, 2 to %d)", decide.MaxSweepSteps))
