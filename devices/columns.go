@@ -36,6 +36,7 @@ type column struct {
 type schema struct {
 	cols   []column
 	byName map[string]int // column name → index in cols
+	ranged []rangeCol     // the columns with a plausible range, in cols order
 }
 
 // partSchema is built once from Part's tags and never changed afterwards.
@@ -82,6 +83,7 @@ func buildSchema() *schema {
 		s.byName[name] = len(s.cols)
 		s.cols = append(s.cols, c)
 	}
+	s.ranged = buildRangeCols(s)
 	return s
 }
 

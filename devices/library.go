@@ -436,7 +436,7 @@ func (l *loader) checkRow(p *Part, rec []string, line int, errs []cellErr) (Prob
 	p.RdsCurve = strings.TrimSpace(p.RdsCurve)
 	var probs ProblemList
 	fatal := l.missing != nil // without a required column no part is complete
-	v := validator{p: p, bad: l.missing, parsed: true}
+	v := validator{p: p, bad: l.missing, parsed: true, rec: rec, fileCol: l.fileCol}
 	if len(errs) > 0 {
 		v.bad = make(map[string]bool, len(errs)+len(l.missing))
 		for k := range l.missing {

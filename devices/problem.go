@@ -17,6 +17,7 @@ var (
 	ErrFieldCount      = errors.New("wrong number of fields")
 	ErrDuplicatePart   = errors.New("duplicate part name")
 	ErrNonPhysical     = errors.New("not physical")
+	ErrImplausible     = errors.New("outside the plausible range")
 	ErrInconsistent    = errors.New("inconsistent with another column")
 	ErrMissingValue    = errors.New("missing value")
 	ErrCurve           = errors.New("bad rds_on_curve")

@@ -9,18 +9,9 @@ import (
 	q "swrank/devices/quantity"
 )
 
-// Limits used by the checks.
-const (
-	// tjMaxLow and tjMaxHigh bound a plausible maximum junction temperature,
-	// °C: above room temperature and at most 250 °C (common practice: Si
-	// 150-175 °C, SiC and GaN up to 200 °C and a little beyond).
-	tjMaxLow, tjMaxHigh = 25, 250
-	// tjLow and tjHigh bound the temperature of a test condition, °C.
-	tjLow, tjHigh = -60, 250
-	// eossSlack is the relative tolerance of E_oss ≤ ½·Q_oss·V, for
-	// datasheet figures rounded to two or three digits.
-	eossSlack = 0.02
-)
+// eossSlack is the relative tolerance of E_oss ≤ ½·Q_oss·V, for datasheet
+// figures rounded to two or three digits.
+const eossSlack = 0.02
 
 // Validate checks one part, whether loaded or built in code, and returns
 // its problems (nil when it has none). Every problem it returns is fatal:
@@ -40,6 +31,11 @@ type validator struct {
 	bad    map[string]bool
 	parsed bool // the values came from the parser, which refuses NaN and Inf
 	probs  []Problem
+	// For a part read from a file: its row and the file column of each
+	// schema column (1-based, 0 when absent), so that messages can quote
+	// the cell as written.
+	rec     []string
+	fileCol []int
 }
 
 func (v *validator) ok(fields ...string) bool {
@@ -89,13 +85,6 @@ func optNonNegative[Q q.Quantity](v *validator, field string, x q.Opt[Q]) {
 func (v *validator) needs(field string, given bool, cond string, condGiven bool) {
 	if given && !condGiven && v.ok(field, cond) {
 		v.add(cond, ErrMissingValue, "needed by %s (its test condition)", field)
-	}
-}
-
-// tempRange checks an optional test temperature.
-func tempRange(v *validator, field string, t q.Opt[q.Temperature]) {
-	if t.OK && v.ok(field) && (t.V < tjLow || t.V > tjHigh) {
-		v.add(field, ErrNonPhysical, "%s: outside %d to %d °C", fmtq(t.V), tjLow, tjHigh)
 	}
 }
 
@@ -163,23 +152,17 @@ func (v *validator) run() {
 	optPositive(v, "vsd_hot", p.VsdHot)
 	optNonNegative(v, "l_cs", p.Lcs)
 	optNonNegative(v, "l_loop", p.Lloop)
-	if p.TjMax.OK && v.ok("tj_max") && (p.TjMax.V <= tjMaxLow || p.TjMax.V > tjMaxHigh) {
-		v.add("tj_max", ErrNonPhysical, "%s: must be above %d °C and at most %d °C", fmtq(p.TjMax.V), tjMaxLow, tjMaxHigh)
-	}
-	tempRange(v, "rds_on_tj", p.RdsOnTj)
-	tempRange(v, "rds_on_hot_tj", p.RdsHotTj)
-	tempRange(v, "qrr_tj", p.QrrTj)
-	tempRange(v, "qrr_hot_tj", p.QrrHotTj)
-	tempRange(v, "vgs_th_hot_tj", p.VgsThHotTj)
-	tempRange(v, "vsd_hot_tj", p.VsdHotTj)
 	if p.VgsMin.OK && v.ok("vgs_min") && p.VgsMin.V > 0 {
 		v.add("vgs_min", ErrNonPhysical, "%s: the lowest gate voltage must be 0 V or negative", fmtq(p.VgsMin.V))
 	}
 	if p.RdsDyn.OK && v.ok("rds_dyn") && p.RdsDyn.V < 1 {
 		v.add("rds_dyn", ErrNonPhysical, "%s: the dynamic on-resistance factor must be at least 1", fmtq(p.RdsDyn.V))
 	}
+	// Magnitudes: each value within its column's plausible range (the
+	// table in ranges.go), temperatures included.
+	v.ranges()
 	if len(v.probs) > 0 {
-		return // relations between values assume the signs are right
+		return // relations between values assume the signs and magnitudes are right
 	}
 
 	// Gate voltages.
