@@ -149,6 +149,45 @@ func TestRangeRules(t *testing.T) {
 	}}}, ErrNonPhysical)
 }
 
+// TestRelationRules checks values that cannot hold together, located at
+// the column named first in each message.
+func TestRelationRules(t *testing.T) {
+	runRules(t, []ruleCase{
+		{"qgs + qgd above qg", map[string]string{"qgs": "10n"}, []string{
+			`r.csv:2:21: qgs: 10.00 nC: qgs + qgd (12.50 nC) exceeds qg (12.00 nC)`}},
+		{"qgd above qg", map[string]string{"qgd": "13n"}, []string{
+			`r.csv:2:22: qgd: 13.00 nC: exceeds qg (12.00 nC)`}},
+		{"qgs alone above qg", map[string]string{"qgs": "13n", "qgd": ""}, []string{
+			`r.csv:2:21: qgs: 13.00 nC: exceeds qg (12.00 nC)`}},
+		{"qg_th above qgs", map[string]string{"qg_th": "4n"}, []string{
+			`r.csv:2:23: qg_th: 4.000 nC: exceeds qgs (3.500 nC)`}},
+		{"qg_th above qg without qgs", map[string]string{"qgs": "", "qg_th": "13n"}, []string{
+			`r.csv:2:23: qg_th: 13.00 nC: exceeds qg (12.00 nC)`}},
+		{"crss above coss", map[string]string{"crss": "500p"}, []string{
+			`r.csv:2:28: crss: 500.0 pF: exceeds coss (450.0 pF)`}},
+		{"crss above ciss", map[string]string{"ciss": "30p"}, []string{
+			`r.csv:2:28: crss: 40.00 pF: exceeds ciss (30.00 pF)`}},
+		{"hot below cold", map[string]string{"rds_on_hot": "4m"}, []string{
+			`r.csv:2:16: rds_on_hot: 4.000 mΩ at 125.0 °C is below rds_on 4.500 mΩ at 25.00 °C: the on-resistance must rise with temperature`}},
+		{"threshold at the rds_on drive", map[string]string{"rds_on_vgs": "1.5", "rds_on2": "", "rds_on2_vgs": ""}, []string{
+			`r.csv:2:13: rds_on_vgs: 1.500 V: must be above vgs_th (1.800 V)`}},
+		{"threshold above vgs_max", map[string]string{"vgs_max": "5", "vgs_th": "6", "vgs_th_max": "7",
+			"rds_on_vgs": "4.5", "qg_vgs": "4.5", "rds_on2": "", "rds_on2_vgs": ""}, []string{
+			`r.csv:2:10: vgs_th: 6.000 V: must be below vgs_max (5.000 V)`,
+			`r.csv:2:13: rds_on_vgs: 4.500 V: must be above vgs_th (6.000 V)`,
+			`r.csv:2:19: qg_vgs: 4.500 V: must be above vgs_th (6.000 V)`,
+			`r.csv:2:24: v_plateau: 3.000 V: must lie between vgs_th (6.000 V) and qg_vgs (4.500 V)`}},
+		{"eoss above Q·V/2", map[string]string{"eoss": "80n"}, []string{
+			`r.csv:2:31: eoss: 80.00 nJ: exceeds ½·qoss·oss_vds (67.50 nJ); a falling Coss(V) gives E_oss ≤ ½·Q_oss·V`}},
+		{"rds_on_max below rds_on", map[string]string{"rds_on_max": "4m"}, []string{
+			`r.csv:2:15: rds_on_max: 4.000 mΩ: below the typical rds_on (4.500 mΩ)`}},
+		{"vgs_th_max below vgs_th", map[string]string{"vgs_th_max": "1.5"}, []string{
+			`r.csv:2:11: vgs_th_max: 1.500 V: below the typical vgs_th (1.800 V)`}},
+		{"id_pulse below id_max", map[string]string{"id_pulse": "30"}, []string{
+			`r.csv:2:4: id_pulse: 30.00 A: below the continuous id_max (40.00 A)`}},
+	}, ErrInconsistent)
+}
+
 // TestPlausibleTable checks the table against Part's columns: one row for
 // every quantity column, bounds in order, and suggestion prefixes the
 // parser reads.

@@ -165,6 +165,12 @@ func (v *validator) run() {
 		return // relations between values assume the signs and magnitudes are right
 	}
 
+	// Ratings: a pulse may carry more current than the continuous rating,
+	// never less.
+	if p.IdPulse.OK && v.ok("id_pulse", "id_max") && p.IdPulse.V < p.IdMax {
+		v.add("id_pulse", ErrInconsistent, "%s: below the continuous id_max (%s)", fmtq(p.IdPulse.V), fmtq(p.IdMax))
+	}
+
 	// Gate voltages.
 	if v.ok("vgs_th", "vgs_max") && p.VgsTh >= p.VgsMax {
 		v.add("vgs_th", ErrInconsistent, "%s: must be below vgs_max (%s)", fmtq(p.VgsTh), fmtq(p.VgsMax))
@@ -221,13 +227,19 @@ func (v *validator) run() {
 	if p.QgMax.OK && v.ok("qg_max", "qg") && p.QgMax.V < p.Qg {
 		v.add("qg_max", ErrInconsistent, "%s: below the typical qg (%s)", fmtq(p.QgMax.V), fmtq(p.Qg))
 	}
+	// The charges to threshold, to the plateau and across it are parts of
+	// the total at the same qg_vgs: none exceeds it, nor does qgs + qgd.
 	if p.Qgd.OK && v.ok("qgd", "qg") && p.Qgd.V > p.Qg {
 		v.add("qgd", ErrInconsistent, "%s: exceeds qg (%s)", fmtq(p.Qgd.V), fmtq(p.Qg))
+	} else if p.Qgs.OK && v.ok("qgs", "qg") && p.Qgs.V > p.Qg {
+		v.add("qgs", ErrInconsistent, "%s: exceeds qg (%s)", fmtq(p.Qgs.V), fmtq(p.Qg))
 	} else if p.Qgs.OK && p.Qgd.OK && v.ok("qgs", "qgd", "qg") && p.Qgs.V+p.Qgd.V > p.Qg {
 		v.add("qgs", ErrInconsistent, "%s: qgs + qgd (%s) exceeds qg (%s)", fmtq(p.Qgs.V), fmtq(p.Qgs.V+p.Qgd.V), fmtq(p.Qg))
 	}
 	if p.QgTh.OK && p.Qgs.OK && v.ok("qg_th", "qgs") && p.QgTh.V > p.Qgs.V {
 		v.add("qg_th", ErrInconsistent, "%s: exceeds qgs (%s)", fmtq(p.QgTh.V), fmtq(p.Qgs.V))
+	} else if p.QgTh.OK && !p.Qgs.OK && v.ok("qg_th", "qgs", "qg") && p.QgTh.V > p.Qg {
+		v.add("qg_th", ErrInconsistent, "%s: exceeds qg (%s)", fmtq(p.QgTh.V), fmtq(p.Qg))
 	}
 	if p.VPlateau.OK && v.ok("v_plateau", "vgs_th", "qg_vgs") && (p.VPlateau.V <= p.VgsTh || p.VPlateau.V >= p.QgVgs) {
 		v.add("v_plateau", ErrInconsistent, "%s: must lie between vgs_th (%s) and qg_vgs (%s)",
