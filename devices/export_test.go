@@ -6,16 +6,18 @@ import "io"
 // internal because it imports devices/synth.
 
 // CheckGocsv is Check with the gocsv decoder.
-func CheckGocsv(r io.Reader, name string) (*Library, ProblemList) { return check(r, name, decodeGocsv) }
+func CheckGocsv(r io.Reader, name string) (*Library, ProblemList) {
+	return check(r, name, decodeGocsv, ReadOptions{})
+}
 
 // CheckSequential is Check with the tag-driven decoder on one goroutine.
 func CheckSequential(r io.Reader, name string) (*Library, ProblemList) {
-	return check(r, name, decodeFast)
+	return check(r, name, decodeFast, ReadOptions{})
 }
 
 // ScanSequential is Scan on one goroutine.
 func ScanSequential(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) {
-	l := newLoader(name, fn)
+	l := newLoader(name, fn, ReadOptions{})
 	l.sizeHint = sizeOf(r)
 	return l.scan(r, decodeFast)
 }

@@ -14,7 +14,8 @@ import (
 
 // FuzzRead feeds arbitrary bytes to every decoder: no panic, the same
 // problems from all, every problem located in the file, and no invalid
-// part accepted.
+// part accepted. Accepting unknown columns as notes changes no part and
+// no problem but the unknown columns' severity.
 func FuzzRead(f *testing.F) {
 	files, _ := filepath.Glob("testdata/parts/*.csv")
 	for _, name := range files {
@@ -25,9 +26,9 @@ func FuzzRead(f *testing.F) {
 		f.Add(b)
 	}
 	f.Fuzz(func(t *testing.T, b []byte) {
-		a, pa := check(bytes.NewReader(b), "f.csv", decodeFast)
+		a, pa := check(bytes.NewReader(b), "f.csv", decodeFast, ReadOptions{})
 		for _, d := range []decoderKind{decodeParallel, decodeGocsv} {
-			g, pg := check(bytes.NewReader(b), "f.csv", d)
+			g, pg := check(bytes.NewReader(b), "f.csv", d, ReadOptions{})
 			if pa.Error() != pg.Error() {
 				t.Fatalf("decoder %d disagrees:\n%v\n--\n%v", d, pa, pg)
 			}
@@ -38,6 +39,15 @@ func FuzzRead(f *testing.F) {
 		for _, p := range pa {
 			if p.File != "f.csv" || p.Err == nil {
 				t.Fatalf("problem without file or cause: %+v", p)
+			}
+		}
+		n, pn := check(bytes.NewReader(b), "f.csv", decodeFast, ReadOptions{UnknownAsNotes: true})
+		if len(n.Parts) != len(a.Parts) || len(pn) != len(pa) {
+			t.Fatalf("as notes: %d parts, %d problems; by default %d, %d", len(n.Parts), len(pn), len(a.Parts), len(pa))
+		}
+		for i, p := range pn {
+			if q := pa[i]; p.Line != q.Line || p.Column != q.Column || p.Fatal != q.Fatal && !errors.Is(p, ErrUnknownColumn) {
+				t.Fatalf("as notes: %v; by default %v", p, q)
 			}
 		}
 		for i := range a.Parts {

@@ -22,7 +22,7 @@ type Library struct {
 	Columns  []string  // the header's column names, trimmed and lower-cased, in file order
 	Parts    []Part    // the parts that passed validation, in file order
 	Unknown  []string  // columns the loader does not know, each reported once
-	Warnings []Problem // non-fatal problems (unknown columns)
+	Warnings []Problem // non-fatal problems (unknown columns accepted as notes)
 }
 
 // Header describes the header row of a library read by Scan.
@@ -38,34 +38,27 @@ type Header struct {
 // It returns every problem at once: the error, when not nil, is a
 // ProblemList of the fatal problems. The library is returned in either case
 // and holds the parts that passed; its Warnings hold the non-fatal problems.
+// It reads with the default ReadOptions, under which a column the loader
+// does not know is an error.
 func Read(r io.Reader, name string) (*Library, error) {
-	lib, probs := Check(r, name)
-	if f := probs.Fatals(); len(f) > 0 {
-		return lib, f
-	}
-	return lib, nil
+	return ReadOptions{}.Read(r, name)
 }
 
 // Load reads the parts library in the file at path; see Read.
 func Load(path string) (*Library, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, fmt.Errorf("parts library: %w", err)
-	}
-	defer f.Close()
-	return Read(f, path)
+	return ReadOptions{}.Load(path)
 }
 
 // Check reads a parts library like Read and returns every problem found,
 // warnings included, in file order: what a user needs to fix. The library
 // is unusable when any problem is fatal (probs.Fatal()).
 func Check(r io.Reader, name string) (*Library, ProblemList) {
-	return check(r, name, defaultDecoder())
+	return ReadOptions{}.Check(r, name)
 }
 
-func check(r io.Reader, name string, d decoderKind) (*Library, ProblemList) {
+func check(r io.Reader, name string, d decoderKind, o ReadOptions) (*Library, ProblemList) {
 	lib := &Library{Source: name}
-	l := newLoader(name, nil)
+	l := newLoader(name, nil, o)
 	l.parts = &lib.Parts
 	l.sizeHint = sizeOf(r)
 	hdr, probs := l.scan(r, d)
@@ -101,9 +94,7 @@ func sizeOf(r io.Reader) int64 {
 // Scan stops and the list ends with a fatal problem wrapping that error.
 // Duplicate names are still detected, from the names seen so far.
 func Scan(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) {
-	l := newLoader(name, fn)
-	l.sizeHint = sizeOf(r)
-	return l.scan(r, defaultDecoder())
+	return ReadOptions{}.Scan(r, name, fn)
 }
 
 // decoderKind chooses how cells become Part fields. Both give the same
@@ -143,6 +134,7 @@ type loader struct {
 	fn      func(*Part) error // called with each valid part (Scan)
 	parts   *[]Part           // or: valid parts are decoded in place here (Check)
 	stopped bool
+	opts    ReadOptions
 	decoder decoderKind
 	rows    int // data rows seen
 	// sizeHint is the input size in bytes when known; with the length of
@@ -150,8 +142,8 @@ type loader struct {
 	sizeHint int64
 }
 
-func newLoader(name string, fn func(*Part) error) *loader {
-	return &loader{file: name, fn: fn}
+func newLoader(name string, fn func(*Part) error, o ReadOptions) *loader {
+	return &loader{file: name, fn: fn, opts: o}
 }
 
 var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
@@ -280,7 +272,8 @@ func (l *loader) readHeader(src source) bool {
 		case !known:
 			if !slices.Contains(l.hdr.Unknown, n) { // report each name once
 				l.hdr.Unknown = append(l.hdr.Unknown, n)
-				l.problem(&Problem{Line: line, Column: j + 1, Field: n, Text: strings.Clone(h), Err: ErrUnknownColumn})
+				l.problem(&Problem{Line: line, Column: j + 1, Field: n, Text: strings.Clone(h),
+					Err: unknownColumn(n, l.opts.UnknownAsNotes), Fatal: !l.opts.UnknownAsNotes})
 			}
 		case l.fileCol[ci] != 0:
 			l.problem(&Problem{Line: line, Column: j + 1, Field: n, Text: strings.Clone(h), Fatal: true,

@@ -29,7 +29,7 @@ func checkFile(t *testing.T, file string, d decoderKind) (*Library, ProblemList)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return check(bytes.NewReader(b), file, d)
+	return check(bytes.NewReader(b), file, d, ReadOptions{})
 }
 
 // TestCheckFiles reads each fixture of testdata/parts and compares every
@@ -65,8 +65,13 @@ func TestCheckFiles(t *testing.T) {
 			`duplicate_column.csv:1:16: qg: column given twice (first as column 9)`,
 		}},
 		{"unknown_column.csv", 2, []string{
-			`unknown_column.csv:1:16: colour: unknown column, ignored (warning)`,
-			`unknown_column.csv:1:17: vendor_ref: unknown column, ignored (warning)`,
+			`unknown_column.csv:1:16: colour: unknown column`,
+			`unknown_column.csv:1:17: vendor_ref: unknown column`,
+		}},
+		{"misspelt_column.csv", 2, []string{
+			`misspelt_column.csv:1:16: rth_ja_: unknown column; did you mean rth_ja?`,
+			`misspelt_column.csv:1:17: qg_vsg: unknown column; did you mean qg_vgs?`,
+			`misspelt_column.csv:1:18: colour: unknown column`,
 		}},
 		{"display_units.csv", 1, []string{
 			`display_units.csv:5:7: rds_on: 5 reads as 5 Ω; at id_max 40 A it would drop 200 V, more than a quarter of vds_max 30 V; for 5 mΩ write 5m`,
@@ -234,11 +239,11 @@ func TestReadErrors(t *testing.T) {
 	}
 
 	lib, err = Load("testdata/parts/unknown_column.csv")
-	if err != nil {
-		t.Fatalf("warnings only, got %v", err)
+	if !errors.Is(err, ErrUnknownColumn) || !errors.As(err, &list) || len(list) != 2 {
+		t.Fatalf("unknown columns: %v", err)
 	}
-	if !slices.Equal(lib.Unknown, []string{"colour", "vendor_ref"}) || len(lib.Warnings) != 2 || lib.Warnings[0].Fatal {
-		t.Errorf("unknown %q, warnings %v", lib.Unknown, lib.Warnings)
+	if !slices.Equal(lib.Unknown, []string{"colour", "vendor_ref"}) || len(lib.Warnings) != 0 || len(lib.Parts) != 2 {
+		t.Errorf("unknown %q, warnings %v, %d parts", lib.Unknown, lib.Warnings, len(lib.Parts))
 	}
 	if lib.Source != "testdata/parts/unknown_column.csv" {
 		t.Errorf("source %q", lib.Source)
@@ -415,7 +420,7 @@ func TestMalformed(t *testing.T) {
 	}
 	for _, d := range decoders {
 		for _, in := range inputs {
-			lib, probs := check(strings.NewReader(in), "m.csv", d.kind)
+			lib, probs := check(strings.NewReader(in), "m.csv", d.kind, ReadOptions{})
 			if lib == nil || !probs.Fatal() {
 				t.Errorf("%s: %.40q: no fatal problem (%v)", d.name, in, probs)
 			}
@@ -464,19 +469,19 @@ func bigLibrary(t *testing.T, n int) []byte {
 // then falling back) and an unknown size (copying).
 func TestParallelMatchesSequential(t *testing.T) {
 	data := bigLibrary(t, 5000)
-	want, wp := check(bytes.NewReader(data), "big.csv", decodeFast)
+	want, wp := check(bytes.NewReader(data), "big.csv", decodeFast, ReadOptions{})
 	if len(want.Parts) < 4800 || len(wp) < 30 {
 		t.Fatalf("fixture: %d parts, %d problems", len(want.Parts), len(wp))
 	}
 	// The gocsv decoder, which shares none of the batch code, agrees.
-	if g, gp := check(bytes.NewReader(data), "big.csv", decodeGocsv); !reflect.DeepEqual(want, g) || gp.Error() != wp.Error() {
+	if g, gp := check(bytes.NewReader(data), "big.csv", decodeGocsv, ReadOptions{}); !reflect.DeepEqual(want, g) || gp.Error() != wp.Error() {
 		t.Errorf("gocsv decoder differs on the large library")
 	}
 	for _, r := range []func() io.Reader{
 		func() io.Reader { return bytes.NewReader(data) },
 		func() io.Reader { return io.MultiReader(bytes.NewReader(data)) }, // size unknown
 	} {
-		got, gp := check(r(), "big.csv", decodeParallel)
+		got, gp := check(r(), "big.csv", decodeParallel, ReadOptions{})
 		if !reflect.DeepEqual(want, got) {
 			t.Errorf("libraries differ: %d vs %d parts", len(want.Parts), len(got.Parts))
 		}
@@ -493,7 +498,7 @@ func TestParallelMatchesSequential(t *testing.T) {
 				return errors.New("enough")
 			}
 			return nil
-		})
+		}, ReadOptions{})
 		_, probs := l.scan(bytes.NewReader(data), d)
 		if len(names) != 1000 || names[999] != want.Parts[999].Name || probs[len(probs)-1].Err.Error() != "enough" {
 			t.Errorf("decoder %d: stop after %d names, last problem %v", d, len(names), probs[len(probs)-1])
@@ -506,7 +511,7 @@ func TestParallelMatchesSequential(t *testing.T) {
 				return errors.New("enough")
 			}
 			return nil
-		}).scan(bytes.NewReader(data), decodeFast)
+		}, ReadOptions{}).scan(bytes.NewReader(data), decodeFast)
 		if seq.Error() != probs.Error() {
 			t.Errorf("stop: problems differ between decoders")
 		}

@@ -13,7 +13,7 @@ var (
 	ErrNoHeader        = errors.New("no header row")
 	ErrMissingColumn   = errors.New("missing required column")
 	ErrDuplicateColumn = errors.New("column given twice")
-	ErrUnknownColumn   = errors.New("unknown column, ignored")
+	ErrUnknownColumn   = errors.New("unknown column")
 	ErrFieldCount      = errors.New("wrong number of fields")
 	ErrDuplicatePart   = errors.New("duplicate part name")
 	ErrNonPhysical     = errors.New("not physical")

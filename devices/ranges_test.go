@@ -54,7 +54,7 @@ func runRules(t *testing.T, cases []ruleCase, cause error) {
 	for _, d := range decoders {
 		for _, tt := range cases {
 			t.Run(d.name+"/"+tt.name, func(t *testing.T) {
-				lib, probs := check(strings.NewReader(rowFile(tt.edits)), "r.csv", d.kind)
+				lib, probs := check(strings.NewReader(rowFile(tt.edits)), "r.csv", d.kind, ReadOptions{})
 				var got []string
 				for _, p := range probs {
 					got = append(got, p.Error())
