@@ -148,6 +148,7 @@ func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 	fs.Var(opt[q.ThermalResistance]{&s.RthCA}, "rth-ca", "case-to-ambient thermal resistance added to a part's rth_jc, `K/W`")
 	fs.Var(opt[q.Temperature]{&s.TjFixed}, "tj", "pin every junction at this temperature instead of solving it, `DEGC`")
 	fs.Var(qty[q.Ratio]{&s.Derate}, "derate", "fraction of vds_max the drain voltage may reach, `FRACTION` (default "+short(stage.DefaultDerate)+")")
+	fs.BoolVar(&s.Strict, "strict", false, "set aside every part whose result rests on an estimated value (a blank library cell)")
 }
 
 // outputFlags registers the output flags on fs.

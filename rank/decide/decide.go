@@ -234,6 +234,10 @@ func (c *Comparison) verdict() string {
 	var b strings.Builder
 	tol := 1e-9 * math.Max(math.Abs(total.Fitted), math.Abs(total.Cand))
 	switch {
+	case c.Cand.Screened() || c.Fitted.Screened():
+		// A result set aside is not a valid operating point: its loss is
+		// not compared.
+		b.WriteString("not compared: set aside")
 	case math.Abs(total.Abs) <= tol:
 		b.WriteString("the same total loss")
 	default:

@@ -102,7 +102,7 @@ func TestCompareParts(t *testing.T) {
 	cp := devices.Part{Name: "cand", Package: "PKG-B"}
 	fd, cd := fit.Device{Part: &fp}, fit.Device{Part: &cp}
 	fitted := evaluate.Result{Dev: &fd, Losses: evaluate.Losses{Conduction: 1, TurnOff: 0.5}}
-	cand := evaluate.Result{Dev: &cd, Losses: evaluate.Losses{Conduction: 0.8, TurnOff: 0.9}, Screens: evaluate.ScreenVoltage | evaluate.ScreenTjMax}
+	cand := evaluate.Result{Dev: &cd, Losses: evaluate.Losses{Conduction: 0.8, TurnOff: 0.9}}
 	c := CompareParts(&fitted, &cand, 100)
 	total := c.Deltas[len(c.Deltas)-1]
 	testkit.Within(t, "total change", total.Abs, 0.2, 1e-12)
@@ -111,7 +111,7 @@ func TestCompareParts(t *testing.T) {
 		t.Errorf("decided by %q, want turn-off", c.Decides)
 	}
 	testkit.Within(t, "efficiency change", c.Eff.Abs, 100/101.7-100/101.5, 1e-12)
-	for _, s := range []string{"worse by 200 mW (13.3 %)", "decided by turn-off (+400 mW)", "voltage margin", "junction temperature", "package PKG-B instead of PKG-A"} {
+	for _, s := range []string{"worse by 200 mW (13.3 %)", "decided by turn-off (+400 mW)", "package PKG-B instead of PKG-A"} {
 		if !strings.Contains(c.Verdict, s) {
 			t.Errorf("verdict %q lacks %q", c.Verdict, s)
 		}
@@ -121,7 +121,16 @@ func TestCompareParts(t *testing.T) {
 	if !strings.HasPrefix(r.Verdict, "better by 200 mW") || r.Decides != "turn-off" || r.Eff != nil {
 		t.Errorf("reverse verdict %q, decides %q", r.Verdict, r.Decides)
 	}
-	if !strings.Contains(r.Verdict, "passes the screens the fitted part fails") {
+	// A candidate set aside is not compared as if its loss were valid:
+	// the verdict says so and names the screens it fails.
+	cand.Screens = evaluate.ScreenVoltage | evaluate.ScreenTjMax
+	c = CompareParts(&fitted, &cand, 100)
+	for _, s := range []string{"not compared: set aside", "voltage margin", "junction temperature"} {
+		if !strings.Contains(c.Verdict, s) {
+			t.Errorf("verdict %q lacks %q", c.Verdict, s)
+		}
+	}
+	if r := CompareParts(&cand, &fitted, 0); !strings.Contains(r.Verdict, "passes the screens the fitted part fails") {
 		t.Errorf("reverse verdict %q", r.Verdict)
 	}
 	same := CompareParts(&fitted, &fitted, 0)

@@ -26,7 +26,7 @@ func evalDevice(out *DeviceResult, pt *stage.Point, d *fit.Device, role Role, st
 	m.prepare()
 	hardTurnOnCharges(out, &m, k, tr)
 	r0, rdyn := conductionLaw(out, &m)
-	rthv, fl := rth(d.Part, m.s)
+	rthv, fl := rth(d, m.s)
 	out.Rth, out.Flags = rthv, out.Flags|fl
 	esoft := softTurnOn(out, pt, d, st, k, tr) // light-load turn-on (softon.go)
 	fixed := out.Losses.Coss + out.Losses.Recovery + q.Power(float64(esoft)*m.f)
@@ -105,10 +105,17 @@ func (m *devModel) parasitics(out *DeviceResult, k *partnerCharge) {
 		m.lcs = d.Lcs
 		out.Lcs = d.Lcs
 		out.Flags |= fit.FlagLcs
+		if !d.Part.Lcs.OK {
+			out.Flags |= fit.FlagLcsEstimated
+		}
 	}
 	m.lloop = m.s.LoopInductance + d.Lloop
+	if !d.Part.Lloop.OK {
+		out.Flags |= fit.FlagLloopEstimated
+	}
 	if k != nil {
 		m.lloop += k.lloop
+		out.Flags |= k.flags & fit.FlagLloopEstimated
 	}
 	if m.lloop > 0 {
 		out.Lloop = m.lloop
@@ -250,13 +257,7 @@ func hotScreens(out *DeviceResult, m *devModel, a *tempState, tj q.Temperature) 
 	if out.FalseOn.Margin <= 0 {
 		out.Screens |= ScreenFalseTurnOn
 	}
-	tc := tj
-	if p.RthJC.OK {
-		tc = tj - q.Temperature(float64(p.RthJC.V)*float64(out.Losses.Switch()))
-		if out.Flags&fit.FlagRthJCOnly != 0 {
-			tc = s.Ambient
-		}
-	}
+	tc := caseTemperature(d, tj, out.Losses.Switch())
 	out.IdLimit = loss.CurrentRatingAt(p.IdMax, d.TjMax, tc)
 	if m.st.IRms > out.IdLimit {
 		out.Screens |= ScreenRmsCurrent

@@ -31,10 +31,73 @@ func Evaluate(pt *stage.Point, dev, partner *fit.Device, tr *Trace) Result {
 // EvaluateInto is Evaluate writing into r, which it overwrites whole: the
 // hot loops use it to keep the result where it is wanted instead of
 // copying it out.
+//
+// A part that leaves blank a value whose estimate has no unfavourable end
+// has a twin with the other end of that estimate (fit.Device.Alt): both are
+// evaluated and the worse result is kept, set aside before passing, then
+// the higher loss (FlagEstimateLow says the twin's was kept).
 func EvaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trace) {
+	if dev.Alt == nil && (partner == nil || partner.Alt == nil) {
+		evaluateInto(r, pt, dev, partner, tr)
+		return
+	}
+	var alt Result
+	evaluateInto(&alt, pt, twin(dev), twin(partner), nil)
+	if tr == nil {
+		evaluateInto(r, pt, dev, partner, nil)
+		if !worse(&alt, r) {
+			return
+		}
+		*r = alt
+	} else {
+		var main Result
+		evaluateInto(&main, pt, dev, partner, nil)
+		if !worse(&alt, &main) {
+			evaluateInto(r, pt, dev, partner, tr)
+			return
+		}
+		evaluateInto(r, pt, twin(dev), twin(partner), tr)
+		tr.add("", "estimates", "a blank value with no unfavourable end was taken at both ends of its range; the other end gives the worse result, shown here",
+			T("total, first end", main.Losses.Total()), T("total, this end", r.Losses.Total()))
+	}
+	// The result names the part's own devices, not the twins.
+	r.Dev, r.Flags = dev, r.Flags|fit.FlagEstimateLow
+	if r.Partner != nil {
+		r.Partner = partner
+	}
+	for i := 0; i < r.N; i++ {
+		d := &r.Devices[i]
+		switch d.Dev {
+		case dev.Alt:
+			d.Dev = dev
+		case twin(partner):
+			d.Dev = partner
+		}
+	}
+}
+
+// twin is the low-end twin of d when it has one, else d (nil for nil).
+func twin(d *fit.Device) *fit.Device {
+	if d != nil && d.Alt != nil {
+		return d.Alt
+	}
+	return d
+}
+
+// worse reports whether a ranks below b: set aside where b passes, or the
+// same standing with a higher total loss.
+func worse(a, b *Result) bool {
+	if sa, sb := a.Screened(), b.Screened(); sa != sb {
+		return sa
+	}
+	return a.Losses.Total() > b.Losses.Total()
+}
+
+// evaluateInto is EvaluateInto for the devices as given.
+func evaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trace) {
 	var oss ossMemo
 	// Each device evaluated below is reset by evalDevice; the rest here.
-	r.Dev, r.Partner, r.Position, r.Derate = dev, nil, pt.Stage.Position, pt.Stage.Derate
+	r.Dev, r.Partner, r.Position, r.Derate, r.Pout = dev, nil, pt.Stage.Position, pt.Stage.Derate, pt.Stage.Pout
 	r.N, r.Losses, r.Flags, r.Screens, r.RF = 0, Losses{}, 0, 0, RFResult{}
 	if pt.Stage.Topology.Resonant() {
 		r.Devices = [2]DeviceResult{}
@@ -70,6 +133,7 @@ func EvaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trac
 		r.Flags |= d.Flags
 		r.Screens |= d.Screens
 	}
+	stageScreens(r, pt)
 	if tr != nil {
 		tr.add("", "total", "stage total = Σ switch + Σ driver",
 			T("switch", r.Losses.Switch()), T("driver", r.Losses.Driver()), T("total", r.Losses.Total()))
@@ -104,14 +168,16 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult) partnerCha
 	if !kr.Thermal.Found {
 		p.tj = k.TjMax
 	}
+	if !k.Part.Lloop.OK {
+		p.flags |= fit.FlagLloopEstimated
+	}
 	if k.Part.Technology == devices.GaN || kr.Stress.IDead2 <= 0 && kr.Stress.IDead1 <= 0 {
 		return p
 	}
-	if !k.Part.Qrr.OK {
-		p.flags |= fit.FlagQrrMissing
-		return p
-	}
 	p.qrr = k.Qrr.At(p.tj)
+	if !k.Part.Qrr.OK {
+		p.flags |= fit.FlagQrrEstimated
+	}
 	p.flags |= fit.FlagQrrInModel
 	if !k.QrrHot && p.tj != k.Qrr.T0 {
 		p.flags |= fit.FlagQrrTempDefault

@@ -59,8 +59,8 @@ func (m *devModel) prepare() {
 			m.cossSmall = q.Capacitance(m.rise.CossTop())
 		}
 	} else {
-		m.qgdV = loss.MillerChargeAt(d.Qgd, d.QgVds, st.V)
-		m.qgdGate = loss.MillerChargeAt(d.Qgd, d.QgVds, m.vdsGate)
+		m.qgdV = d.MillerChargeAt(st.V)
+		m.qgdGate = d.MillerChargeAt(m.vdsGate)
 	}
 	if m.cossSmall == 0 && st.V > 0 && m.lloop > 0 {
 		m.cossSmall = m.oss.C()

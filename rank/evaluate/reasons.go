@@ -2,6 +2,7 @@ package evaluate
 
 import (
 	"fmt"
+	"swrank/rank/fit"
 	"swrank/rank/loss"
 )
 
@@ -26,8 +27,12 @@ func (r *Result) Reasons() []string {
 				add("peak switch voltage %s (with this part's own output capacitance in the resonant stage) exceeds %.0f %% of vds_max %s",
 					r.RF.VPeak, 100*float64(r.Derate), p.VdsMax)
 			} else if v > d.Stress.V {
-				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %.0f %% of vds_max %s",
-					v, d.Stress.V, 100*float64(r.Derate), p.VdsMax)
+				est := ""
+				if d.Flags&(fit.FlagLloopEstimated|fit.FlagLcsEstimated) != 0 {
+					est = "; the package inductance is estimated: give l_loop and l_cs to judge it"
+				}
+				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %.0f %% of vds_max %s%s",
+					v, d.Stress.V, 100*float64(r.Derate), p.VdsMax, est)
 			} else {
 				add("drain voltage %s exceeds %.0f %% of vds_max %s", v, 100*float64(r.Derate), p.VdsMax)
 			}
@@ -36,7 +41,11 @@ func (r *Result) Reasons() []string {
 			add("peak current %s exceeds id_pulse %s", d.Stress.IPeak, p.IdPulse.V)
 		}
 		if s&ScreenRmsCurrent != 0 {
-			add("rms current %s exceeds the continuous rating derated to the case temperature, %s", d.Stress.IRms, d.IdLimit)
+			if d.Flags&fit.FlagNoRth != 0 {
+				add("rms current %s exceeds the continuous rating derated to the case temperature, %s: with no thermal path (rth_ja, rth_jc or a known package) the junction is taken at tj_max, which leaves no rating", d.Stress.IRms, d.IdLimit)
+			} else {
+				add("rms current %s exceeds the continuous rating derated to the case temperature, %s", d.Stress.IRms, d.IdLimit)
+			}
 		}
 		if s&ScreenGateMax != 0 {
 			add("gate drive exceeds vgs_max %s", p.VgsMax)
@@ -79,6 +88,16 @@ func (r *Result) Reasons() []string {
 		if s&ScreenRunaway != 0 {
 			add("thermal runaway: the loss rises faster with temperature than the heat path removes it (no steady temperature up to %s)", d.Dev.TjMax+500)
 		}
+	}
+	if r.Screens&ScreenImplausible != 0 {
+		if r.Pout > 0 && r.Losses.Total() > r.Pout {
+			out = append(out, fmt.Sprintf("%s: not a physical result: its loss %s exceeds the %s the stage processes (check the library's values and units)", r.Dev.Part.Name, r.Losses.Total(), r.Pout))
+		} else {
+			out = append(out, fmt.Sprintf("%s: not a physical result: a loss share is negative or not a number (check the library's values and units)", r.Dev.Part.Name))
+		}
+	}
+	if r.Screens&ScreenEstimated != 0 {
+		out = append(out, fmt.Sprintf("%s: strict ranking: its result rests on %d estimated values (%s)", r.Dev.Part.Name, r.Flags.Estimates(), (r.Flags&fit.EstimateFlags).Codes()))
 	}
 	return out
 }

@@ -120,6 +120,7 @@ type Result struct {
 	Flags    fit.Flags       // union of the devices' fallbacks
 	Screens  Screens         // union of the devices' screens (0: the part passes)
 	Derate   q.Ratio         // the stage's voltage derating, for the screen's message
+	Pout     q.Power         // the power the stage processes, W (0: not known), for the screen's message
 	RF       RFResult        // class E and class D values (zero for other stages)
 }
 

@@ -91,7 +91,7 @@ func rfScreens(out *DeviceResult, d *fit.Device, s *stage.Stage, vpeak q.Voltage
 func rfThermal(out *DeviceResult, d *fit.Device, s *stage.Stage, fixed q.Power) {
 	p := d.Part
 	r0 := d.Gate.At(max(s.Driver.VOn, d.Vth+0.1))
-	rthv, fl := rth(p, s)
+	rthv, fl := rth(d, s)
 	out.Rth, out.Flags = rthv, out.Flags|fl
 	m := thermal.Model{Fixed: fixed, Cond: loss.Conduction(out.Stress.IRms, r0), Law: &d.Temp}
 	tj := junction(&out.Thermal, &m, s, rthv, d.TjMax)
@@ -103,12 +103,7 @@ func rfThermal(out *DeviceResult, d *fit.Device, s *stage.Stage, fixed q.Power) 
 	case out.Thermal.Status == thermal.AboveMax || out.Thermal.Tj > d.TjMax:
 		out.Screens |= ScreenTjMax
 	default:
-		tc := tj
-		if p.RthJC.OK && out.Flags&fit.FlagRthJCOnly == 0 {
-			tc = tj - q.Temperature(float64(p.RthJC.V)*float64(out.Losses.Switch()))
-		} else if out.Flags&fit.FlagRthJCOnly != 0 {
-			tc = s.Ambient
-		}
+		tc := caseTemperature(d, tj, out.Losses.Switch())
 		out.IdLimit = loss.CurrentRatingAt(p.IdMax, d.TjMax, tc)
 		if out.Stress.IRms > out.IdLimit {
 			out.Screens |= ScreenRmsCurrent
@@ -156,14 +151,9 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	out.Losses.TurnOff = to.TurnOff
 	out.Losses.TurnOn = to.TurnOn
 	out.Eoff = q.Energy(float64(to.TurnOff) / f)
-	if p := d.Part; p.EossLoss.OK && p.EossLossVds.OK {
-		h, err := resonant.HysteresisLoss(resonant.Hysteresis{E: p.EossLoss.V, VStated: p.EossLossVds.V}, sh.VPeak, s.Fsw)
-		if err == nil {
-			out.Losses.Coss = h
-			rf.Hysteresis = true
-		}
-	} else {
-		out.Flags |= fit.FlagNoHysteresis
+	if h, err := resonant.HysteresisLoss(hysteresis(out, d, sh.VPeak), sh.VPeak, s.Fsw); err == nil && h > 0 {
+		out.Losses.Coss = h
+		rf.Hysteresis = true
 	}
 	softGate(out, d, &s.Driver, e.IOff, f)
 	rfScreens(out, d, s, sh.VPeak)
@@ -227,8 +217,11 @@ func evalClassD(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		vsd := d.ReverseDrop(i, s.Driver.VOff, 25)
 		out.Edead = q.Energy(float64(vsd) * float64(i) * float64(edge.TDiode))
 		out.Losses.DeadTime = q.Power(float64(out.Edead) * f)
-		if edge.PartnerDiode && d.Part.Technology != devices.GaN && d.Part.Qrr.OK {
-			out.Erec = loss.RecoveryEnergy(d.Part.Qrr.V, s.Vin)
+		if edge.PartnerDiode && d.Part.Technology != devices.GaN {
+			if !d.Part.Qrr.OK {
+				out.Flags |= fit.FlagQrrEstimated
+			}
+			out.Erec = loss.RecoveryEnergy(d.Qrr.At(25), s.Vin)
 			out.Losses.Recovery = q.Power(float64(out.Erec) * f)
 		}
 		// Gate charge at zero drain voltage: the Miller charge of a partial
@@ -259,4 +252,16 @@ func evalClassD(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 				T("gate driver", o.Losses.GateDriver), T("Tj", o.Thermal.Tj))
 		}
 	}
+}
+
+// hysteresis is the soft-switching output-capacitance hysteresis of device
+// d for a swing to vswing: the part's eoss_loss at its stated swing, or the
+// stated fraction of the energy stored at vswing (flagged) when it gives
+// none.
+func hysteresis(out *DeviceResult, d *fit.Device, vswing q.Voltage) resonant.Hysteresis {
+	if p := d.Part; p.EossLoss.OK && p.EossLossVds.OK {
+		return resonant.Hysteresis{E: p.EossLoss.V, VStated: p.EossLossVds.V}
+	}
+	out.Flags |= fit.FlagHysteresisEstimated
+	return resonant.Hysteresis{E: q.Energy(d.HysteresisFraction * float64(d.Oss.E(vswing))), VStated: vswing}
 }

@@ -19,6 +19,12 @@ func rfPart(name string, rds q.Resistance, qg q.Charge, tf q.Time, coss q.Capaci
 		Name: name, VdsMax: 100, IdMax: 20, VgsMax: 7, VgsTh: 1.4, RdsOn: rds, RdsOnVgs: 5,
 		Qg: qg, QgVgs: 5, Tr: q.Some(tf), Tf: q.Some(tf), Coss: q.Some(coss), CapVds: q.Some[q.Voltage](12),
 		RgInt: q.Some[q.Resistance](0.5), RthJA: q.Some[q.ThermalResistance](60),
+		// Stated rather than estimated: the √-law output charge and energy
+		// of coss at 12 V (Q = 2·C·V, E = Q·V/3), a lossless output
+		// capacitance, no recovered charge and no package inductance.
+		Qoss: q.Some(q.Charge(24 * float64(coss))), Eoss: q.Some(q.Energy(96 * float64(coss))), OssVds: q.Some[q.Voltage](12),
+		EossLoss: q.Some[q.Energy](0), EossLossVds: q.Some[q.Voltage](12), Qrr: q.Some[q.Charge](0),
+		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
 	}
 }
 
@@ -150,6 +156,7 @@ func TestRuleOfThumbSwap(t *testing.T) {
 func TestClassDHardSwitchedCaseB(t *testing.T) {
 	p := rfPart("case-b", 0.05, 10e-9, 2e-9, 500e-12)
 	p.CapVds = q.Some[q.Voltage](48)
+	p.Qoss, p.Eoss, p.OssVds = q.Some[q.Charge](48e-9), q.Some[q.Energy](768e-9), q.Some[q.Voltage](48) // the √ law: 2·C·V, Q·V/3
 	d, _ := fit.Prepare(&p)
 	st := stage.Stage{Topology: stage.ClassD, Vin: 48, Pout: 50, Fsw: 500e3, Phase: q.Some[q.Ratio](-0.5),
 		DeadTime: q.Some[q.Time](50e-9), Driver: stage.Driver{VOn: 5}}

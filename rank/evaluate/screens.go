@@ -1,6 +1,7 @@
 package evaluate
 
 import (
+	"math"
 	q "swrank/devices/quantity"
 	"swrank/rank/fit"
 	"swrank/rank/stage"
@@ -48,4 +49,26 @@ const (
 	ScreenFalseTurnOn                        // the off switch's gate reaches its hot threshold (dv/dt bounce or off level)
 	ScreenShuntTooSmall                      // class E: the part's output capacitance alone exceeds the shunt the design needs
 	ScreenTooSlow                            // class E: the current fall takes too large a part of the period
+	ScreenImplausible                        // the result is not physical: a loss above the power the stage processes, or a negative or non-finite share
+	ScreenEstimated                          // strict ranking: the result rests on estimated values
 )
+
+// stageScreens applies the screens of the whole result: a result that is
+// not physical (a loss above the power the stage processes, or a share
+// that is negative or not finite) is set aside rather than ranked, and
+// strict ranking sets aside a result that rests on estimates.
+func stageScreens(r *Result, pt *stage.Point) {
+	l := r.Losses
+	for _, v := range [...]q.Power{l.Conduction, l.TurnOn, l.TurnOff, l.Coss, l.DeadTime, l.Recovery,
+		l.GateRint, l.GateDriver, l.GateRext, l.DriverQuiescent} {
+		if !(v >= 0) || math.IsInf(float64(v), 0) {
+			r.Screens |= ScreenImplausible
+		}
+	}
+	if pt.Stage.Pout > 0 && l.Total() > pt.Stage.Pout {
+		r.Screens |= ScreenImplausible
+	}
+	if pt.Stage.Strict && r.Flags.Estimates() > 0 {
+		r.Screens |= ScreenEstimated
+	}
+}

@@ -213,10 +213,10 @@ func TestTemperatureLaws(t *testing.T) {
 		at     q.Temperature
 		expect float64
 	}{
-		{"default 2× at 125", 50e-9, 25, 0, 0, false, 125, 100e-9},
-		{"default at 75", 50e-9, 25, 0, 0, false, 75, 75e-9},
+		{"default 3× at 125", 50e-9, 25, 0, 0, false, 125, 150e-9},
+		{"default at 75", 50e-9, 25, 0, 0, false, 75, 100e-9},
 		// Stated at 100 °C: Q25 = 60/(1 + 0.75) = 34.286 nC; Q(125) = 2·Q25.
-		{"default, stated hot", 60e-9, 100, 0, 0, false, 125, 2 * 60e-9 / 1.75},
+		{"default, stated hot", 60e-9, 100, 0, 0, false, 125, 3 * 60e-9 / 2.5},
 		// Two points 40 nC at 25 °C, 100 nC at 150 °C: 0.48 nC/K; at 100 °C 76 nC.
 		{"two points", 40e-9, 25, 100e-9, 150, true, 100, 76e-9},
 		{"two points, clamped at 0", 40e-9, 25, 100e-9, 150, true, -100, 0},

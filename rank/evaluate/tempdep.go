@@ -184,5 +184,12 @@ func (m *devModel) finish(a *tempState) {
 			gm = 2 * float64(st.IOff) / float64(a.vplOff-a.vth) // square-law channel at the plateau
 		}
 		a.vpeak = loss.LoopOvershootLcs(v, m.lloop, m.lcs, gm, m.rOff, d.Cgs+d.Crss, st.IOff, a.iTop, a.tFall, m.cossSmall)
+		if !d.HasMiller {
+			// Without a Cgd law the share of the current that the output
+			// capacitance carries at the end of the voltage rise is
+			// unknown: the peak is linear in it, so take the worse end,
+			// the whole current ringing in the capacitance.
+			a.vpeak = max(a.vpeak, loss.LoopOvershootLcs(v, m.lloop, m.lcs, gm, m.rOff, d.Cgs+d.Crss, st.IOff, 0, a.tFall, m.cossSmall))
+		}
 	}
 }

@@ -3,7 +3,6 @@ package evaluate
 import (
 	q "swrank/devices/quantity"
 	"swrank/rank/fit"
-	"swrank/rank/loss"
 )
 
 // traceDevice records the temperature-dependent steps of one device.
@@ -32,7 +31,7 @@ func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *temp
 	if m.hard && m.driveOK {
 		if d.Method == fit.MethodGateCharge {
 			tr.add(name, "transitions", "gate-charge method at Tj: t = Q / I_gate, I_gate = (V_drive − V_gate)/R_loop (at the mean gate voltage (Vth+Vpl)/2 while the current moves)",
-				T("Qgd at V", loss.MillerChargeAt(d.Qgd, d.QgVds, st.V)), T("Vth", a.vth),
+				T("Qgd at V", d.MillerChargeAt(st.V)), T("Vth", a.vth),
 				T("Vpl on", a.vplOn), T("Vpl off", a.vplOff), T("R loop on", m.rOn), T("R loop off", m.rOff),
 				T("t_ir", a.trans.Tir), T("t_vf", a.trans.Tvf), T("t_vr", a.trans.Tvr), T("t_if", a.trans.Tif))
 		} else {

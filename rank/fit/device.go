@@ -23,18 +23,24 @@ const (
 	defaultTjMax q.Temperature = 150
 	// Body-diode drops: silicon 0.8 V, SiC 3.5 V (common practice, from
 	// memory); GaN reverse conduction is Vth + |Voff| + I·R (team notes).
-	vsdSi  q.Voltage = 0.8
-	vsdSiC q.Voltage = 3.5
-	// Threshold (and plateau) temperature coefficients, V/K, for a
-	// threshold stated at 25 °C: silicon about −5 mV/K, silicon carbide
-	// about −5 mV/K, GaN HEMTs much flatter, about −1 mV/K (common practice,
-	// from memory; low confidence for GaN, whose parts differ).
-	vthTCSi  = -5e-3
-	vthTCSiC = -5e-3
-	vthTCGaN = -1e-3
+	vsdSi  q.Voltage = 1.0
+	vsdSiC q.Voltage = 4.5
+	// GaN's reverse-conduction drop at 0 V off and no current, taken when
+	// vsd is blank: 2.5 V, the upper end of datasheet values at a few
+	// amperes (from memory); the channel's I·R is added to it.
+	vsdGaN q.Voltage = 2.5
+	// Threshold (and plateau) temperature coefficient per volt of the 25 °C
+	// threshold, 1/K, when vgs_th_hot is blank: the threshold falls by 40 %
+	// from 25 to 125 °C, the steep end of what datasheets show (silicon
+	// typically 20-40 %; GaN HEMTs flatter; common practice, from memory).
+	// A steeper fall is the unfavourable side for the false-turn-on
+	// screen and the turn-off edge.
+	vthTCPerVolt = -4e-3
 	// Forward-drop coefficient of a p-n body diode (silicon and SiC), V/K,
-	// for a vsd taken at 25 °C (common practice; SiC from memory).
-	vsdTC = -2e-3
+	// for a vsd taken at 25 °C when vsd_hot is blank: −0.5 mV/K, the
+	// shallow end of −0.5 to −2 mV/K (common practice, from memory), so
+	// that the hot drop is not underestimated.
+	vsdTC = -0.5e-3
 	// SiC parts are specified and usually driven at 15-20 V on (common
 	// practice, from memory).
 	SiCDriveMin q.Voltage = 15
@@ -119,12 +125,58 @@ type Device struct {
 	CrssV   q.Voltage // voltage of Crss, V
 	CgsEst  bool      // Cgs estimated from the gate charge to the plateau
 
+	// Values the library may leave blank, with their estimates filled in
+	// (estimates.go; each estimate sets a flag of EstimateFlags).
+
+	// Family is the package family the package column names, and
+	// FamilyKnown whether swrank recognised it.
+	Family      string
+	FamilyKnown bool
+	// RthJC and RthJA are the thermal resistances, K/W: the part's, else
+	// the top of its package family's range; not OK when neither exists.
+	RthJC, RthJA q.Opt[q.ThermalResistance]
+	// Vsd is the reverse-conduction drop at 25 °C, V (GaN: at 0 V off), at
+	// the current VsdIf, A (0: taken at no current, the channel's I·R
+	// added on top).
+	Vsd   q.Voltage
+	VsdIf q.Current
+	// QrrEst is the estimated recovered charge at 25 °C when qrr is blank
+	// (0: the part gives qrr, or has no body diode), C.
+	QrrEst q.Charge
+	// HysteresisFraction is the share of the stored output-capacitance
+	// energy lost per soft-switched cycle when eoss_loss is blank (0: the
+	// part gives eoss_loss).
+	HysteresisFraction float64
+
+	// Low is true in the twin that takes the low end of the bracketed
+	// estimates; Alt is that twin (nil when the part leaves none of them
+	// blank). The evaluation keeps the worse of the two.
+	Low bool
+	Alt *Device
+
 	Flags Flags // fallbacks that belong to the part, whatever the operating point
 }
 
-// Prepare fits the models' laws to a validated part.
+// Prepare fits the models' laws to a validated part. Where the part leaves
+// a value blank that can make its edges faster or slower (Alt), it also
+// prepares the twin with the other end of each such estimate.
 func Prepare(p *devices.Part) (Device, error) {
-	d := Device{Part: p, Vth: p.VgsTh, RgInt: p.RgInt.V}
+	d, err := prepare(p, false)
+	if err != nil || !d.bracketed() {
+		return d, err
+	}
+	alt, err := prepare(p, true)
+	if err != nil {
+		return Device{}, err
+	}
+	d.Alt = &alt
+	return d, nil
+}
+
+// prepare fits the laws with each estimate at its high end (the end that
+// costs more loss), or at its low end when low is true.
+func prepare(p *devices.Part, low bool) (Device, error) {
+	d := Device{Part: p, Low: low, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
 	if !p.RgInt.OK {
 		d.Flags |= FlagRgIntAssumed
 	}
@@ -152,6 +204,7 @@ func Prepare(p *devices.Part) (Device, error) {
 			return Device{}, err
 		}
 	}
+	d.estimate()
 	return d, nil
 }
 
@@ -197,7 +250,7 @@ func (d *Device) fitTempLaw() error {
 		}
 		d.Temp.Prepare()
 	case p.RdsHot.OK && p.RdsHotTj.OK && p.RdsHotTj.V != d.Temp.T0:
-		d.Temp.Alpha = loss.FitTempExponent(p.RdsOn, d.Temp.T0, p.RdsHot.V, p.RdsHotTj.V)
+		d.Temp = hotPointLaw(d.Temp.T0, loss.FitTempExponent(p.RdsOn, d.Temp.T0, p.RdsHot.V, p.RdsHotTj.V), p.RdsHotTj.V, float64(p.RdsHot.V/p.RdsOn))
 	default:
 		d.Flags |= FlagTempDefault
 		switch {
@@ -222,13 +275,16 @@ func (d *Device) fitOss() error {
 	case p.Qoss.OK && p.Eoss.OK && p.OssVds.OK:
 		d.Oss, d.OssV = loss.OssFromChargeEnergy(p.Qoss.V, p.Eoss.V, p.OssVds.V), p.OssVds.V
 	case p.Qoss.OK && p.OssVds.OK:
-		d.Oss, d.OssV = loss.OssFromCharge(p.Qoss.V, p.OssVds.V), p.OssVds.V
+		d.Oss, d.OssV = loss.OssFromCharge(p.Qoss.V, p.OssVds.V, ossExponent(fromCharge, d.Low)), p.OssVds.V
+		d.Flags |= FlagOssSqrtLaw
+	case p.Eoss.OK && p.OssVds.OK:
+		d.Oss, d.OssV = loss.OssFromEnergy(p.Eoss.V, p.OssVds.V, ossExponent(fromCharge, d.Low)), p.OssVds.V
 		d.Flags |= FlagOssSqrtLaw
 	case p.Coss.OK && p.CapVds.OK:
-		d.Oss, d.OssV = loss.OssFromCapacitance(p.Coss.V, p.CapVds.V), p.CapVds.V
+		d.Oss, d.OssV = loss.OssFromCapacitance(p.Coss.V, p.CapVds.V, ossExponent(fromCapacitance, d.Low)), p.CapVds.V
 		d.Flags |= FlagOssSqrtLaw
 	default:
-		return fmt.Errorf("part %s: needs coss with cap_vds, or qoss with oss_vds", p.Name)
+		return fmt.Errorf("part %s: needs coss with cap_vds, or qoss or eoss with oss_vds", p.Name)
 	}
 	return nil
 }
@@ -242,7 +298,7 @@ func (d *Device) fitGateCharge() error {
 	if !p.QgVds.OK {
 		d.Flags |= FlagQgVdsAssumed
 	}
-	d.QgId = p.QgId.Or(p.IdMax)
+	d.QgId = p.QgId.Or(p.IdMax / 2)
 	if !p.QgId.OK {
 		d.Flags |= FlagQgIdAssumed
 	}
@@ -250,16 +306,27 @@ func (d *Device) fitGateCharge() error {
 	if !p.VPlateau.OK {
 		d.Flags |= FlagPlateauEstimated
 	}
-	if p.Qgs.OK && p.Qgd.OK && p.VPlateau.OK && p.VPlateau.V > p.VgsTh && p.QgVgs > p.VPlateau.V {
+	if p.Qgs.OK || p.Qgd.OK || !(p.Tr.OK && p.Tf.OK) {
+		// The gate-charge method, with what the row leaves blank estimated
+		// (estimates.go): a partial gate-charge curve is closer to the part
+		// than datasheet times, which are usually measured at another
+		// load and gate loop.
+		qgs, qgd, vpl := d.gateChargeEstimates()
+		if !(vpl > p.VgsTh && p.QgVgs > vpl) {
+			return fmt.Errorf("part %s: v_plateau %s must lie between vgs_th %s and qg_vgs %s", p.Name, vpl, p.VgsTh, p.QgVgs)
+		}
 		d.Method = MethodGateCharge
-		if p.QgTh.OK && p.QgTh.V < p.Qgs.V {
-			d.Qth, d.Qgs2 = p.QgTh.V, p.Qgs.V-p.QgTh.V
+		d.VplSpec = vpl
+		if p.QgTh.OK && p.QgTh.V < qgs {
+			d.Qth, d.Qgs2 = p.QgTh.V, qgs-p.QgTh.V
 		} else {
-			d.Qth, d.Qgs2 = p.Qgs.V/2, p.Qgs.V/2
+			// A constant Cgs up to the plateau: Qth/Qgs = Vth/Vpl.
+			d.Qth = qgs * q.Charge(p.VgsTh/vpl)
+			d.Qgs2 = qgs - d.Qth
 			d.Flags |= FlagQgThAssumed
 		}
-		d.Qgd = p.Qgd.V
-		d.Slope = q.Capacitance(math.Max(0, float64(p.Qg-p.Qgs.V-p.Qgd.V)) / float64(p.QgVgs-p.VPlateau.V))
+		d.Qgd = qgd
+		d.Slope = q.Capacitance(math.Max(0, float64(p.Qg-qgs-qgd)) / float64(p.QgVgs-vpl))
 	} else if p.Tr.OK && p.Tf.OK {
 		d.Method = MethodTimes
 		d.Flags |= FlagGateLinear
@@ -274,8 +341,6 @@ func (d *Device) fitGateCharge() error {
 		} else {
 			d.Flags |= FlagTswNoConditions
 		}
-	} else {
-		return fmt.Errorf("part %s: needs qgs, qgd and v_plateau, or tr and tf", p.Name)
 	}
 	return nil
 }
@@ -304,13 +369,20 @@ func (d *Device) prepareSecondOrder() error {
 	bad := func(field, format string, a ...any) error {
 		return fmt.Errorf("part %s: %s: %s", p.Name, field, fmt.Sprintf(format, a...))
 	}
-	switch p.Technology {
-	case devices.GaN:
-		d.VthTC = vthTCGaN
-	case devices.SiC:
-		d.VthTC, d.VsdTC = vthTCSiC, vsdTC
+	d.VthTC = vthTCPerVolt * float64(p.VgsTh)
+	if p.Technology != devices.GaN {
+		d.VsdTC = vsdTC
+	}
+	switch {
+	case p.Vsd.OK:
+		d.Vsd = p.Vsd.V
+		d.VsdIf = p.VsdIf.V // 0 when not given: the drop taken at no current
+	case p.Technology == devices.GaN:
+		d.Vsd = vsdGaN
+	case p.Technology == devices.SiC:
+		d.Vsd = vsdSiC
 	default:
-		d.VthTC, d.VsdTC = vthTCSi, vsdTC
+		d.Vsd = vsdSi
 	}
 	// The part's own hot points replace the defaults (vgs_th is at 25 °C;
 	// vsd at its stated temperature, taken as 25 °C).
@@ -392,7 +464,7 @@ func (d *Device) CgdAt(v q.Voltage) q.Capacitance {
 		return q.Capacitance(float64(d.Miller.Charge(v)) / float64(v))
 	}
 	if d.Qgd > 0 {
-		return q.Capacitance(float64(loss.MillerChargeAt(d.Qgd, d.QgVds, v)) / float64(v))
+		return q.Capacitance(float64(d.MillerChargeAt(v)) / float64(v))
 	}
 	if d.Crss > 0 {
 		return q.Capacitance(2 * float64(d.Crss) * math.Sqrt(float64(d.CrssV/v)))
@@ -423,7 +495,7 @@ func (d *Device) Curve(vds q.Voltage, i q.Current, dvth q.Voltage) loss.GateCurv
 		qth *= q.Charge(vth / d.Vth)
 	}
 	return loss.GateCurve{
-		Qth: qth, Qgs2: qgs2, Qgd: loss.MillerChargeAt(d.Qgd, d.QgVds, vds),
+		Qth: qth, Qgs2: qgs2, Qgd: d.MillerChargeAt(vds),
 		Vth: vth, Vpl: vpl, Slope: d.Slope,
 	}
 }

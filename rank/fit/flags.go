@@ -12,49 +12,54 @@ type Flags uint64
 
 // The flags. Each has a short code for tables and a sentence for explain.
 const (
-	FlagQgVdsAssumed     Flags = 1 << iota // gate-charge test voltage missing
-	FlagQgIdAssumed                        // gate-charge test current missing
-	FlagQgThAssumed                        // qg_th missing: Qgs2 = Qgs/2
-	FlagRgIntAssumed                       // rg_int missing: 0 Ω
-	FlagTempDefault                        // no hot on-resistance: technology default law
-	FlagRdsOnePoint                        // one gate-voltage point: channel share assumed
-	FlagRdsExtrapolated                    // drive below the lowest datasheet gate voltage
-	FlagRdsFitClamped                      // two-point gate law replaced by a channel law
-	FlagOssSqrtLaw                         // output capacitance from one point with the √ law
-	FlagOssFar                             // working voltage far (outside 0.5-2×) from the capacitance's test voltage
-	FlagTswNoConditions                    // tr/tf test conditions missing: not rescaled
-	FlagPlateauEstimated                   // plateau unknown: threshold + 1 V
-	FlagGateLinear                         // gate curve unknown: linear gate, half the energy per edge
-	FlagRthJCOnly                          // only junction-to-case and no case-to-ambient: case at ambient
-	FlagNoRth                              // no thermal resistance: junction at ambient
-	FlagQrrMissing                         // no qrr for a silicon part: recovery not counted
-	FlagQrrLessCoss                        // qrr includes the output charge: partner Q_oss subtracted
-	FlagVsdDefault                         // vsd missing: technology default
-	FlagTjMaxDefault                       // tj_max missing: 150 °C
-	FlagDriverLimited                      // driver peak current limits the gate current
-	FlagVgsMinDefault                      // vgs_min missing: taken as −vgs_max (0 V for GaN)
-	FlagIdPulseMissing                     // no pulsed current rating: peak not screened
-	FlagQrrInModel                         // informational: recovery charge counted
-	FlagLcs                                // common-source inductance counted in the current edges
-	FlagLoopL                              // power-loop inductance counted: overshoot and ½·L·I²
-	FlagRdsDyn                             // dynamic on-resistance factor applied
-	FlagRdsDynFar                          // dynamic factor used above its test voltage or without one
-	FlagVthTempDefault                     // threshold, plateau and diode drop moved to Tj by technology defaults
-	FlagQrrTempDefault                     // recovered charge raised with Tj by the default law
-	FlagFalseOnThin                        // gate bounce uses more than half the off-state margin
-	FlagFalseOnUnchecked                   // no capacitance data: false turn-on not screened
-	FlagGateSpike                          // negative gate bounce below vgs_min (transient)
-	FlagSiCLowDrive                        // SiC part driven below 15 V
-	FlagNoHysteresis                       // class E: no eoss_loss column, hysteresis loss not counted
-	FlagMillerLumped                       // no crss: one lumped Qgd with a straight voltage ramp
+	FlagQgVdsAssumed        Flags = 1 << iota // gate-charge test voltage missing
+	FlagQgIdAssumed                           // gate-charge test current missing: id_max/2
+	FlagQgThAssumed                           // qg_th missing: Qth = Qgs·Vth/Vpl (constant Cgs)
+	FlagRgIntAssumed                          // rg_int missing: the technology's upper value
+	FlagTempDefault                           // no hot on-resistance: technology default law
+	FlagRdsOnePoint                           // one gate-voltage point: channel share assumed
+	FlagRdsExtrapolated                       // drive below the lowest datasheet gate voltage
+	FlagRdsFitClamped                         // two-point gate law replaced by a channel law
+	FlagOssSqrtLaw                            // output capacitance from one point with the √ law
+	FlagOssFar                                // working voltage far (outside 0.5-2×) from the capacitance's test voltage
+	FlagTswNoConditions                       // tr/tf test conditions missing: not rescaled
+	FlagPlateauEstimated                      // plateau unknown: threshold + 1 V
+	FlagGateLinear                            // gate curve unknown: linear gate, half the energy per edge
+	FlagRthJCEstimated                        // rth_jc missing: the top of the package family
+	FlagNoRth                                 // no thermal path and no known package: junction at tj_max
+	FlagQrrEstimated                          // no qrr for a part with a body diode: estimated from its output charge
+	FlagQrrLessCoss                           // qrr includes the output charge: partner Q_oss subtracted
+	FlagVsdDefault                            // vsd (or vsd_if) missing: the technology's upper value
+	FlagTjMaxDefault                          // tj_max missing: 150 °C
+	FlagDriverLimited                         // driver peak current limits the gate current
+	FlagVgsMinDefault                         // vgs_min missing: taken as −vgs_max (0 V for GaN)
+	FlagIdPulseMissing                        // no pulsed current rating: peak not screened
+	FlagQrrInModel                            // informational: recovery charge counted
+	FlagLcs                                   // common-source inductance counted in the current edges
+	FlagLoopL                                 // power-loop inductance counted: overshoot and ½·L·I²
+	FlagRdsDyn                                // dynamic on-resistance factor applied
+	FlagRdsDynFar                             // dynamic factor used above its test voltage or without one
+	FlagVthTempDefault                        // threshold, plateau and diode drop moved to Tj by technology defaults
+	FlagQrrTempDefault                        // recovered charge raised with Tj by the default law
+	FlagFalseOnThin                           // gate bounce uses more than half the off-state margin
+	FlagFalseOnUnchecked                      // no capacitance data: false turn-on not screened
+	FlagGateSpike                             // negative gate bounce below vgs_min (transient)
+	FlagSiCLowDrive                           // SiC part driven below 15 V
+	FlagHysteresisEstimated                   // soft switching: no eoss_loss, hysteresis a stated fraction of E_oss
+	FlagMillerLumped                          // no crss: one lumped Qgd with a straight voltage ramp
+	FlagRthJAEstimated                        // rth_ja missing: the top of the package family
+	FlagLcsEstimated                          // l_cs missing: the top of the package family
+	FlagLloopEstimated                        // l_loop missing: the top of the package family
+	FlagGateChargeEstimated                   // qgs or qgd missing: the top of their share of qg
+	FlagEstimateLow                           // informational: the low end of a bracketed estimate gave the worse result
 	flagCount
 )
 
 var flagText = [...]struct{ code, text string }{
 	{"qg-vds?", "gate-charge test voltage (qg_vds) not given: taken as half of vds_max"},
-	{"qg-id?", "gate-charge test current (qg_id) not given: taken as id_max"},
-	{"qgth?", "qg_th not given: charge from threshold to plateau taken as qgs/2"},
-	{"rg?", "internal gate resistance (rg_int) not given: taken as 0 Ω"},
+	{"qg-id?", "gate-charge test current (qg_id) not given: taken as id_max/2"},
+	{"qgth?", "qg_th not given: charge to the threshold taken as qgs·vgs_th/v_plateau (a constant Cgs)"},
+	{"rg?", "internal gate resistance (rg_int) not given: the technology's upper value (Si 3 Ω, SiC 5 Ω, GaN 1 Ω) is taken"},
 	{"temp-law", "no hot on-resistance: the technology's default temperature law is used"},
 	{"rds-1pt", "one gate-voltage point for the on-resistance: half of it taken as channel resistance"},
 	{"rds-extrap", "drive below the lowest gate voltage of the on-resistance data: extrapolated"},
@@ -62,13 +67,13 @@ var flagText = [...]struct{ code, text string }{
 	{"coss-sqrt", "output charge and energy from one capacitance point with the √ law"},
 	{"coss-far", "working voltage outside 0.5-2× the voltage of the output-capacitance data: low confidence"},
 	{"tsw-cond?", "test conditions of tr/tf not given: times used as given, not rescaled to your gate loop"},
-	{"vpl?", "plateau voltage not given: taken as threshold + 1 V"},
+	{"vpl?", "plateau voltage not given: taken as threshold + 1 V (SiC: + 4 V)"},
 	{"gate-lin", "gate-charge curve unknown: linear gate, Qg scaled with the drive and half the energy per edge"},
-	{"rth-jc", "only junction-to-case resistance and no --rth-ca: case taken at ambient"},
-	{"rth?", "no thermal resistance: junction taken at ambient"},
-	{"qrr?", "no qrr for a part with a body diode: reverse recovery not counted"},
+	{"rth-jc?", "rth_jc not given: the top of the package family's range is taken (docs/library.md)"},
+	{"rth?", "no thermal path (rth_ja; or rth_jc with --rth-ca; or a package swrank knows): junction taken at tj_max"},
+	{"qrr?", "no qrr for a part with a body diode: recovered charge estimated from its output charge (3× for ≤ 40 V silicon and SiC, 8× above)"},
 	{"qrr-coss", "qrr includes the output-capacitance charge: the partner's Q_oss is subtracted from it"},
-	{"vsd?", "vsd not given: the technology's default diode drop is used"},
+	{"vsd?", "vsd (or its current vsd_if) not given: the technology's upper drop is used (Si 1.0 V, SiC 4.5 V, GaN 2.5 V plus I·R)"},
 	{"tjmax?", "tj_max not given: 150 °C assumed"},
 	{"drv-limit", "the driver's peak-current limit sets the gate current"},
 	{"vgsmin?", "vgs_min not given: taken as −vgs_max (0 V for GaN)"},
@@ -84,8 +89,13 @@ var flagText = [...]struct{ code, text string }{
 	{"fto?", "no ciss/crss or gate-charge data: false turn-on of the off switch not screened"},
 	{"vgs-spike", "the dv/dt at the other switch's turn-off pulls the gate below vgs_min (a transient: check the transient rating)"},
 	{"sic-drive", "SiC part driven below 15 V: its on-resistance and switching data are usually given at 15-20 V"},
-	{"hyst?", "no eoss_loss: output-capacitance hysteresis loss under soft switching not counted"},
+	{"hyst?", "no eoss_loss: output-capacitance hysteresis under soft switching taken as 20 % of the stored energy at the swing"},
 	{"miller-lump", "no crss (with cap_vds): Qgd taken as one lump with a straight voltage ramp, and Coss charging at turn-off not counted (pessimistic)"},
+	{"rth-ja?", "rth_ja not given: the top of the package family's range is taken (docs/library.md)"},
+	{"l-cs?", "l_cs not given: the top of the package family's range is taken (leaded values without a known package)"},
+	{"l-loop?", "l_loop not given: the top of the package family's range is taken (leaded values without a known package)"},
+	{"qgs-qgd?", "qgs or qgd not given: taken as 0.4·qg and 0.35·qg (the top of their usual share, within 90 % of qg together), and as 0.15·qg each at the other end"},
+	{"est-low", "a blank value with no unfavourable end (rg_int, the gate-charge curve, l_cs, the Miller charge without crss, a one-point output capacitance) was taken at both ends of its range: the faster end gave the worse result and is shown"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".
@@ -117,3 +127,16 @@ func (f Flags) Sentences() []string {
 	}
 	return out
 }
+
+// EstimateFlags are the flags that stand for a missing datasheet value
+// replaced by an estimate: a result's count of them says how much of its
+// ranking rests on estimates (strict ranking sets such parts aside).
+const EstimateFlags = FlagQgVdsAssumed | FlagQgIdAssumed | FlagQgThAssumed | FlagRgIntAssumed |
+	FlagTempDefault | FlagRdsOnePoint | FlagOssSqrtLaw | FlagTswNoConditions | FlagPlateauEstimated |
+	FlagGateLinear | FlagRthJCEstimated | FlagRthJAEstimated | FlagNoRth | FlagQrrEstimated |
+	FlagVsdDefault | FlagTjMaxDefault | FlagVgsMinDefault | FlagIdPulseMissing | FlagVthTempDefault |
+	FlagQrrTempDefault | FlagFalseOnUnchecked | FlagHysteresisEstimated | FlagMillerLumped |
+	FlagLcsEstimated | FlagLloopEstimated | FlagGateChargeEstimated
+
+// Estimates returns how many of the set flags stand for estimated values.
+func (f Flags) Estimates() int { return bits.OnesCount64(uint64(f & EstimateFlags)) }

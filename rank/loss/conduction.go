@@ -14,10 +14,16 @@ type GateLaw struct {
 	R0  q.Resistance // fixed part, Ω; ≥ 0
 	K   float64      // channel part, Ω·V; ≥ 0
 	Vth q.Voltage    // threshold of the law, V
+	// Top is the gate voltage above which the law is not continued, V:
+	// R(Vgs > Top) = R(Top). 0: continued without limit.
+	Top q.Voltage
 }
 
 // At returns R(Vgs); the caller ensures Vgs > Vth.
 func (g GateLaw) At(vgs q.Voltage) q.Resistance {
+	if g.Top > 0 && vgs > g.Top {
+		vgs = g.Top
+	}
 	return g.R0 + q.Resistance(g.K/float64(vgs-g.Vth))
 }
 
@@ -40,11 +46,13 @@ func FitGateLaw(v1 q.Voltage, r1 q.Resistance, v2 q.Voltage, r2 q.Resistance, vt
 }
 
 // SinglePointGateLaw is the fallback when the datasheet gives one
-// gate-voltage point: half of r1 is taken as channel resistance (common
-// practice for low-voltage trench parts, from memory: 30-60 % at the rated
-// drive).
+// gate-voltage point, chosen so that a missing second point never makes a
+// part look better: below v1 the whole of r1 is taken as channel
+// resistance (the steepest rise the law allows; real parts have 30-60 %
+// at the rated drive, common practice, from memory), and above v1 no
+// improvement is claimed (Top = v1).
 func SinglePointGateLaw(v1 q.Voltage, r1 q.Resistance, vth q.Voltage) GateLaw {
-	return GateLaw{R0: r1 / 2, K: float64(r1) / 2 * float64(v1-vth), Vth: vth}
+	return GateLaw{R0: 0, K: float64(r1) * float64(v1-vth), Vth: vth, Top: v1}
 }
 
 // Conduction is the conduction loss I_rms²·R.

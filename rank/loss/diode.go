@@ -44,15 +44,17 @@ func (l QrrLaw) At(t q.Temperature) q.Charge {
 }
 
 // QrrRisePerK is the default relative rise of the recovered charge with
-// temperature: twice the 25 °C value at 125 °C, i.e. +1 % of Q(25 °C) per
-// kelvin (common practice for silicon body diodes, from memory).
-const QrrRisePerK = 0.01
+// temperature: three times the 25 °C value at 125 °C, i.e. +2 % of
+// Q(25 °C) per kelvin, the steep end of the 1.5-3× that silicon body
+// diodes show over that range (common practice, from memory), so that a
+// blank qrr_hot never makes a part look better.
+const QrrRisePerK = 0.02
 
 // FitQrrLaw returns the law through (q0 at t0) and, when hot is true,
 // (q1 at t1, t1 ≠ t0); otherwise the default rise QrrRisePerK relative to the
 // 25 °C value implied by q0 at t0.
 //
-// Source: two datasheet points when given; else common practice (about 2×
+// Source: two datasheet points when given; else common practice (about 3×
 // from 25 to 125 °C).
 func FitQrrLaw(q0 q.Charge, t0 q.Temperature, q1 q.Charge, t1 q.Temperature, hot bool) QrrLaw {
 	if hot && t1 != t0 {

@@ -21,13 +21,31 @@ func PlateauAt(vth, vplSpec q.Voltage, iSpec, i q.Current) q.Voltage {
 	return vth + (vplSpec-vth)*q.Voltage(math.Sqrt(float64(i/iSpec)))
 }
 
-// MillerChargeAt moves the gate-drain charge to another drain voltage,
-// Qgd(V) = Qgd,spec·√(V/V_spec): the charge a √-law Cgd(v) takes from 0 to V.
+// MillerChargeAt moves the gate-drain charge to another drain voltage when
+// only the datasheet's Qgd at V_spec is known (no Cgd curve): the whole of
+// Qgd at and below V_spec, and Qgd,spec·√(V/V_spec) above it, the charge a
+// √-law Cgd(v) adds beyond the test voltage.
 //
-// Source: heuristic (team notes, unverified against a published source);
-// Cgd of a MOSFET falls roughly as 1/√v above the depletion onset (Baliga
-// 2008, ch. 6).
+// Below V_spec the whole charge is kept because most of a real Cgd's
+// charge lies below a few volts (its oxide-limited part; Baliga 2008,
+// ch. 6): scaling it down with the voltage would make a part without a
+// Crss look faster than it is. Above V_spec Cgd falls roughly as 1/√v
+// above the depletion onset (Baliga 2008, ch. 6).
 func MillerChargeAt(qgdSpec q.Charge, vSpec, v q.Voltage) q.Charge {
+	if vSpec <= 0 || v <= 0 {
+		return 0
+	}
+	if v <= vSpec {
+		return qgdSpec
+	}
+	return qgdSpec * q.Charge(math.Sqrt(float64(v/vSpec)))
+}
+
+// MillerChargeSqrt is the other end of what a Qgd alone allows: the √ law
+// at every voltage, Qgd,spec·√(V/V_spec), the charge a √-law Cgd(v) takes
+// from 0 to V (Baliga 2008, ch. 6): the least charge below V_spec, so the
+// fastest edges.
+func MillerChargeSqrt(qgdSpec q.Charge, vSpec, v q.Voltage) q.Charge {
 	if vSpec <= 0 || v <= 0 {
 		return 0
 	}

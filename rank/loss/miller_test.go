@@ -41,7 +41,7 @@ func TestMillerEnergiesReduceToRamp(t *testing.T) {
 // memory): no loss, no current left.
 func TestMillerRiseEnergyIntegral(t *testing.T) {
 	m := FitMillerLaw(6e-9, 24, 40e-12, 3)
-	oss := OssFromCapacitance(400e-12, 24)
+	oss := OssFromCapacitance(400e-12, 24, 0.5)
 	for _, c := range []struct{ i, ig float64 }{{10, 1.2}, {4, 1.2}, {20, 0.5}} {
 		v := 48.0
 		n := 1000000

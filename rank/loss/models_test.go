@@ -77,13 +77,13 @@ func TestGateCurveStoredEnergy(t *testing.T) {
 func TestOssSqrtLaw(t *testing.T) {
 	// A: 400 pF at 12 V → Q_oss 9.60 nC; identical devices: V·Q_oss per
 	// hard turn-on → 57.6 mW at 500 kHz.
-	a := OssFromCapacitance(400e-12, 12)
+	a := OssFromCapacitance(400e-12, 12, 0.5)
 	testkit.Near(t, "A Q_oss", float64(a.Q(12)), 9.6e-9, 1e-9)
 	e := HardTurnOnCossEnergy(a.E(12), 12, a.Q(12), a.E(12))
 	testkit.Near(t, "A P", float64(e)*500e3, 57.6e-3, 1e-9)
 	// B: 500 pF at 48 V → Q_oss 48.0 nC, E_oss 0.768 µJ, 2.304 µJ per hard
 	// turn-on → 1.152 W at 500 kHz (½CV²·f would say 0.288 W).
-	b := OssFromCapacitance(500e-12, 48)
+	b := OssFromCapacitance(500e-12, 48, 0.5)
 	testkit.Near(t, "B Q_oss", float64(b.Q(48)), 48e-9, 1e-9)
 	testkit.Near(t, "B E_oss", float64(b.E(48)), 0.768e-6, 1e-9)
 	eb := HardTurnOnCossEnergy(b.E(48), 48, b.Q(48), b.E(48))

@@ -66,14 +66,17 @@ func (p OssPoint) E() q.Energy {
 	return q.Energy(p.L.K * p.pv / (2 - p.L.N))
 }
 
-// OssFromCapacitance is the √ law through one small-signal datasheet point.
-func OssFromCapacitance(c q.Capacitance, v q.Voltage) OssLaw {
-	return OssLaw{K: float64(c) * math.Sqrt(float64(v)), N: 0.5}
+// OssFromCapacitance is the power law C = K·v^(−n) through one
+// small-signal datasheet point c at v (n = 0.5: the √ law of an abrupt
+// junction; larger n: more of the charge at low voltage). 0 ≤ n < 1.
+func OssFromCapacitance(c q.Capacitance, v q.Voltage, n float64) OssLaw {
+	return OssLaw{K: float64(c) * math.Pow(float64(v), n), N: n}
 }
 
-// OssFromCharge is the √ law through a datasheet Q_oss at v.
-func OssFromCharge(qoss q.Charge, v q.Voltage) OssLaw {
-	return OssLaw{K: float64(qoss) * 0.5 / math.Sqrt(float64(v)), N: 0.5}
+// OssFromCharge is the power law C = K·v^(−n) through a datasheet Q_oss
+// at v: Q(v) = K·v^(1−n)/(1−n). 0 ≤ n < 1.
+func OssFromCharge(qoss q.Charge, v q.Voltage, n float64) OssLaw {
+	return OssLaw{K: float64(qoss) * (1 - n) / math.Pow(float64(v), 1-n), N: n}
 }
 
 // OssFromChargeEnergy fits the power law to Q_oss and E_oss at v: for
@@ -155,4 +158,10 @@ func SwingResidual(s, k OssLaw, v q.Voltage, dq q.Charge) q.Voltage {
 		return v
 	}
 	return v - q.Voltage(r.X)
+}
+
+// OssFromEnergy is the power law C = K·v^(−n) through a datasheet E_oss at
+// v: E(v) = K·v^(2−n)/(2−n). 0 ≤ n < 1.
+func OssFromEnergy(eoss q.Energy, v q.Voltage, n float64) OssLaw {
+	return OssLaw{K: float64(eoss) * (2 - n) / math.Pow(float64(v), 2-n), N: n}
 }

@@ -68,7 +68,7 @@ func num(v float64) string {
 
 var csvHeader = []string{"rank", "part", "partner", "position", "total_w", "switch_w", "driver_w", "conduction_w", "turn_on_w",
 	"turn_off_w", "coss_w", "deadtime_w", "recovery_w", "gate_driver_w", "gate_rext_w", "gate_rint_w",
-	"driver_quiescent_w", "tj_degc", "loss_pct", "method", "flags", "screened", "reasons"}
+	"driver_quiescent_w", "tj_degc", "loss_pct", "method", "flags", "estimated_values", "screened", "reasons"}
 
 func (r *Ranking) csv(w io.Writer) error {
 	cw := newSafeCSV(w)
@@ -93,7 +93,7 @@ func (r *Ranking) csv(w io.Writer) error {
 			num(float64(l.Switch())), num(float64(l.Driver())), num(float64(l.Conduction)), num(float64(l.TurnOn)),
 			num(float64(l.TurnOff)), num(float64(l.Coss)), num(float64(l.DeadTime)), num(float64(l.Recovery)),
 			num(float64(l.GateDriver)), num(float64(l.GateRext)), num(float64(l.GateRint)), num(float64(l.DriverQuiescent)),
-			tj, pct, methods(&x), strings.TrimSpace(flagCodes(x.Flags)), strconv.FormatBool(x.Screened()),
+			tj, pct, methods(&x), strings.TrimSpace(flagCodes(x.Flags)), strconv.Itoa(x.Flags.Estimates()), strconv.FormatBool(x.Screened()),
 			strings.Join(x.Reasons(), "; ")}
 		if err := cw.Write(row); err != nil {
 			return err

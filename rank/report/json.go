@@ -121,7 +121,10 @@ type JSONResult struct {
 	LossPct  *float64     `json:"loss_pct,omitempty"`
 	Method   string       `json:"method"`
 	Flags    []string     `json:"flags"`
-	Screened bool         `json:"screened"`
+	// Estimated counts the values this result rests on that the library
+	// left blank and swrank estimated (the flags of fit.EstimateFlags).
+	Estimated int          `json:"estimated_values"`
+	Screened  bool         `json:"screened"`
 	Reasons  []string     `json:"reasons"`
 	Devices  []JSONDevice `json:"devices"`
 	// Class E and class D stages.
@@ -217,7 +220,7 @@ func flagList(f fit.Flags) []string {
 func resultJSON(i int, x *evaluate.Result, pout q.Power) JSONResult {
 	j := JSONResult{
 		Rank: i + 1, Part: x.Dev.Part.Name, Position: x.Position.String(), JSONLosses: lossesJSON(x.Losses),
-		Method: methods(x), Flags: flagList(x.Flags), Screened: x.Screened(), Reasons: x.Reasons(),
+		Method: methods(x), Flags: flagList(x.Flags), Estimated: x.Flags.Estimates(), Screened: x.Screened(), Reasons: x.Reasons(),
 	}
 	if j.Reasons == nil {
 		j.Reasons = []string{}

@@ -20,7 +20,7 @@ import (
 // The table format: the tables of every command, drawn with tablewriter
 // (markdown.go draws the same tables in Markdown).
 
-var tableHeader = []string{"#", "part", "conduction", "turn-on", "turn-off", "output cap", "diode", "gate (in FET)", "switch", "driver", "total", "Tj", "% of Pout", "method / flags"}
+var tableHeader = []string{"#", "part", "conduction", "turn-on", "turn-off", "output cap", "diode", "gate (in FET)", "switch", "driver", "total", "Tj", "% of Pout", "est.", "method / flags"}
 
 func tableRow(i int, x *evaluate.Result, pout q.Power) []string {
 	l := x.Losses
@@ -31,6 +31,9 @@ func tableRow(i int, x *evaluate.Result, pout q.Power) []string {
 	tj := "–"
 	if t, ok := x.Tj(); ok {
 		tj = q.Format(t, 3)
+		if x.Flags&(fit.FlagRthJCEstimated|fit.FlagRthJAEstimated|fit.FlagNoRth) != 0 {
+			tj = "~" + tj // an estimated thermal path: not a measured-looking number
+		}
 	} else {
 		tj = "none"
 	}
@@ -58,19 +61,19 @@ func tableRow(i int, x *evaluate.Result, pout q.Power) []string {
 		}
 		row = append(row, pc(rf.EffStage), pc(rf.EffWithDriver))
 	}
-	return append(row, methods(x)+flagCodes(x.Flags))
+	return append(row, strconv.Itoa(x.Flags.Estimates()), methods(x)+flagCodes(x.Flags))
 }
 
 // header returns the table's column names for the stage.
 func header(pt *stage.Point) []string {
-	h := append([]string(nil), tableHeader[:len(tableHeader)-1]...)
+	h := append([]string(nil), tableHeader[:len(tableHeader)-2]...)
 	switch pt.Stage.Topology {
 	case stage.ClassE:
 		h = append(h, "peak V", "C ext", "f max", "η stage %", "η +driver %")
 	case stage.ClassD:
 		h = append(h, "V", "ZVS", "η stage %", "η +driver %")
 	}
-	return append(h, tableHeader[len(tableHeader)-1])
+	return append(h, tableHeader[len(tableHeader)-2:]...)
 }
 
 func (r *Ranking) table(w io.Writer, markdown bool) error {
@@ -153,8 +156,13 @@ func (r *Ranking) textWithLeaders(w io.Writer, format string, cs []decide.Candid
 	}
 	var worstLines []string
 	for _, c := range cs {
-		if c.Worst != nil {
+		switch {
+		case c.Worst != nil:
 			worstLines = append(worstLines, fmt.Sprintf("- %s: typical %s, worst case %s", c.Name(), unit(c.Chosen.Key()), unit(c.Worst.Key())))
+		case c.NoMax:
+			// Unknown is not zero: a leader without maximum values is
+			// listed with its worst case unknown, never left out.
+			worstLines = append(worstLines, fmt.Sprintf("- %s: typical %s, worst case unknown (no rds_on_max, qg_max or vgs_th_max)", c.Name(), unit(c.Chosen.Key())))
 		}
 	}
 	if len(worstLines) > 0 {
@@ -332,6 +340,16 @@ func (r *Comparison) table(w io.Writer, markdown bool) error {
 	var rows [][]string
 	for _, c := range r.Candidates {
 		row := []string{c.Cand.Dev.Part.Name, watts(float64(c.Cand.Losses.Total()))}
+		if c.Cand.Screened() || f.Screened() {
+			// A result set aside is not a valid operating point: no
+			// component is diffed against it (the verdict says why).
+			row[1] = "set aside"
+			for range cols {
+				row = append(row, "–")
+			}
+			rows = append(rows, append(row, "–", "–", "–", "–"))
+			continue
+		}
 		for _, j := range cols {
 			row = append(row, fmtDelta(c.Deltas[j], watts))
 		}

@@ -397,5 +397,12 @@ func (ds *Datasheet) Part(m *Model) devices.Part {
 		Tr: q.Some(q.Time(ds.Tr)), Tf: q.Some(q.Time(ds.Tf)), TswVdd: v(ds.TswVdd), TswId: q.Some(q.Current(ds.TswId)),
 		TswVgs: v(ds.TswVgs), TswRg: q.Some(q.Resistance(ds.TswRg)), TswRgen: q.Some(q.Resistance(ds.TswRgen)),
 		Vsd: v(ds.Vsd), VsdIf: q.Some(q.Current(m.ITest)),
+		// What the simulated die has, which a datasheet would state and
+		// swrank would otherwise estimate: no package inductance (the
+		// cell's own parasitics are the stage's), and lossless output
+		// capacitance (the model's capacitances store and return their
+		// energy: no soft-switching hysteresis).
+		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
+		EossLoss: q.Some[q.Energy](0), EossLossVds: v(ds.OssVds),
 	}
 }

@@ -201,7 +201,7 @@ func TestSoftTurnOnEnergy(t *testing.T) {
 	testkit.Within(t, "linear, zero", float64(loss.SoftTurnOnEnergy(lin, lin, 12, 0)), 0, 1e-30)
 	diode := loss.OssLaw{K: 100e-12, N: 0}
 	testkit.Within(t, "diode partner", float64(loss.SoftTurnOnEnergy(lin, diode, 12, 7)), 0.5*1e-9*49+0.5*100e-12*49, 1e-12)
-	sq := loss.OssFromCapacitance(500e-12, 48)
+	sq := loss.OssFromCapacitance(500e-12, 48, 0.5)
 	testkit.Within(t, "hand case B", float64(loss.SoftTurnOnEnergy(sq, sq, 48, 48)), 2.304e-6, 1e-9)
 	testkit.Within(t, "hard turn-on agrees", float64(loss.SoftTurnOnEnergy(sq, sq, 48, 48)),
 		float64(loss.HardTurnOnCossEnergy(sq.E(48), 48, sq.Q(48), sq.E(48))), 1e-12)
@@ -223,7 +223,7 @@ func TestSwingResidual(t *testing.T) {
 	testkit.Within(t, "linear", float64(loss.SwingResidual(lin, lin, 12, 6e-9)), 12-6e-9/2e-9, 1e-9)
 	testkit.Within(t, "complete", float64(loss.SwingResidual(lin, lin, 12, 30e-9)), 0, 1e-15)
 	testkit.Within(t, "none", float64(loss.SwingResidual(lin, lin, 12, 0)), 12, 1e-15)
-	sq := loss.OssFromCapacitance(500e-12, 48)
+	sq := loss.OssFromCapacitance(500e-12, 48, 0.5)
 	dq := q.Charge(40e-9)
 	vr := loss.SwingResidual(sq, sq, 48, dq)
 	x := 48 - vr

@@ -194,4 +194,8 @@ type Stage struct {
 	// Derate is the fraction of the voltage rating that the peak drain
 	// voltage may reach. Range (0, 1]; default 0.8.
 	Derate q.Ratio
+	// Strict sets aside every part whose result rests on an estimated
+	// value (a blank datasheet cell). Default false: estimates are used,
+	// conservatively, and shown.
+	Strict bool
 }

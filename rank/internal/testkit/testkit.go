@@ -33,8 +33,20 @@ func HandCasePart() devices.Part {
 		Qgs: q.Some[q.Charge](2e-9), Qgd: q.Some[q.Charge](2e-9), QgTh: q.Some[q.Charge](1e-9),
 		VPlateau: q.Some[q.Voltage](2.5), RgInt: q.Some[q.Resistance](1),
 		Coss: q.Some[q.Capacitance](400e-12), CapVds: q.Some[q.Voltage](12),
+		// The √-law output charge and energy of that capacitance (Q = 2·C·V,
+		// E = Q·V/3), stated so that the law is the same whatever swrank
+		// would estimate from one capacitance.
+		Qoss: q.Some[q.Charge](9.6e-9), Eoss: q.Some[q.Energy](38.4e-9), OssVds: q.Some[q.Voltage](12),
 		Vsd: q.Some[q.Voltage](0.8), Qrr: q.Some[q.Charge](20e-9),
 		RthJA: q.Some[q.ThermalResistance](40),
+		// The values swrank would otherwise estimate, given so that the
+		// checks exercise the formulas with stated inputs: no package
+		// inductance; threshold −5 mV/K, diode drop −2 mV/K and recovered
+		// charge 2× from 25 to 125 °C (common practice, from memory).
+		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
+		VgsThHot: q.Some[q.Voltage](1.3), VgsThHotTj: q.Some[q.Temperature](125),
+		VsdHot: q.Some[q.Voltage](0.6), VsdHotTj: q.Some[q.Temperature](125),
+		QrrHot: q.Some[q.Charge](40e-9), QrrHotTj: q.Some[q.Temperature](125),
 	}
 }
 
@@ -60,6 +72,14 @@ func LightPart() devices.Part {
 		Qoss: q.Some[q.Charge](12e-9), Eoss: q.Some[q.Energy](72e-9), OssVds: q.Some[q.Voltage](12),
 		Vsd: q.Some[q.Voltage](0.8), Qrr: q.Some[q.Charge](20e-9),
 		RthJA: q.Some[q.ThermalResistance](40),
+		// The values swrank would otherwise estimate, given so that the
+		// checks exercise the formulas with stated inputs: no package
+		// inductance; threshold −5 mV/K, diode drop −2 mV/K and recovered
+		// charge 2× from 25 to 125 °C (common practice, from memory).
+		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
+		VgsThHot: q.Some[q.Voltage](1.3), VgsThHotTj: q.Some[q.Temperature](125),
+		VsdHot: q.Some[q.Voltage](0.6), VsdHotTj: q.Some[q.Temperature](125),
+		QrrHot: q.Some[q.Charge](40e-9), QrrHotTj: q.Some[q.Temperature](125),
 	}
 }
 
@@ -74,5 +94,8 @@ func CaseDPart() devices.Part {
 		Qg: 10e-9, QgVgs: 10, Tr: q.Some[q.Time](10e-9), Tf: q.Some[q.Time](10e-9),
 		Qoss: q.Some[q.Charge](38e-9), Eoss: q.Some[q.Energy](1.9e-6), OssVds: q.Some[q.Voltage](100),
 		RthJA: q.Some[q.ThermalResistance](40),
+		// Stated rather than estimated: no package inductance, no
+		// recovered charge.
+		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0), Qrr: q.Some[q.Charge](0),
 	}
 }
