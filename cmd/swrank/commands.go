@@ -32,7 +32,7 @@ func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []fit.Device, 
 	case in.demo:
 		lib, err = devices.Demo()
 	case in.parts != "":
-		lib, err = devices.Load(in.parts)
+		lib, err = in.read.Load(in.parts)
 	default:
 		return nil, nil, errors.New("no parts library: give --parts FILE.csv or --demo")
 	}
@@ -163,7 +163,7 @@ func rankStream(in *inputs, stderr io.Writer) (report.Ranking, error) {
 // rankReader ranks the library read from r at pt.
 func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io.Writer) (report.Ranking, error) {
 	best := rank.Best{N: in.top}
-	hdr, probs := devices.Scan(r, name, func(p *devices.Part) error {
+	hdr, probs := in.read.Scan(r, name, func(p *devices.Part) error {
 		d, err := fit.Prepare(p)
 		if err != nil {
 			return err
@@ -211,7 +211,9 @@ func runExplain(args []string, stdout, stderr io.Writer) error {
 }
 
 func runCheck(args []string, stdout, stderr io.Writer) error {
-	fs := newFlagSet("check", "check FILE.csv ...", stderr)
+	fs := newFlagSet("check", "check [--notes-columns] FILE.csv ...", stderr)
+	var opts devices.ReadOptions
+	fs.BoolVar(&opts.UnknownAsNotes, "notes-columns", false, "accept columns swrank does not know as your own notes (default: an error naming the closest known column)")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -225,7 +227,7 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		if err != nil {
 			return err
 		}
-		lib, probs := devices.Check(f, path)
+		lib, probs := opts.Check(f, path)
 		f.Close()
 		if err := report.WriteCheck(stdout, path, lib, probs); err != nil {
 			return err

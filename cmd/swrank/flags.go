@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"swrank/devices"
 	q "swrank/devices/quantity"
 	"swrank/rank/decide"
 	"swrank/rank/design"
@@ -93,7 +94,9 @@ func short[T ~float64](v T) string {
 
 // inputs are the flags shared by rank and explain.
 type inputs struct {
-	parts   string
+	parts string
+	// read holds the library-reading options (--notes-columns).
+	read    devices.ReadOptions
 	demo    bool
 	partner string
 	stage   stage.Stage
@@ -106,6 +109,7 @@ type inputs struct {
 func (in *inputs) register(fs *flag.FlagSet) {
 	fs.StringVar(&in.parts, "parts", "", "parts library `FILE.csv` (one row per part)")
 	fs.BoolVar(&in.demo, "demo", false, "use the built-in demo library instead of --parts")
+	fs.BoolVar(&in.read.UnknownAsNotes, "notes-columns", false, "accept columns swrank does not know as your own notes (default: an error naming the closest known column)")
 	fs.StringVar(&in.partner, "partner", "", "`PART` filling the other place (default: the ranked part itself)")
 	registerStage(fs, &in.stage)
 }
