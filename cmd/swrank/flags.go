@@ -128,6 +128,8 @@ func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 	fs.Var(opt[q.Ratio]{&s.Ripple}, "ripple", "inductor ripple, peak-to-peak `FRACTION` of the inductor current (default "+short(stage.DefaultRipple)+" unless --inductance)")
 	fs.Var(qty[q.Inductance]{&s.Inductance}, "inductance", "inductor, `H` (sets the ripple)")
 	fs.Var(opt[q.Time]{&s.DeadTime}, "dead-time", "dead time at each edge of a synchronous stage, `S` (default "+short(stage.DefaultDeadTime)+")")
+	fs.Var(opt[q.Time]{&s.DeadTimeSyncOn}, "dead-time-sync-on", "dead time after the control switch turns off, before the synchronous switch turns on, `S` (default --dead-time)")
+	fs.Var(opt[q.Time]{&s.DeadTimeCtrlOn}, "dead-time-ctrl-on", "dead time after the synchronous switch turns off, before the control switch turns on, `S` (default --dead-time)")
 	fs.Var(qty[q.Voltage]{&s.Diode.Vf}, "diode-vf", "rectifier diode forward drop, `V` (default "+short(stage.DefaultDiodeVf)+")")
 	fs.Var(qty[q.Charge]{&s.Diode.Qrr}, "diode-qrr", "rectifier diode recovered charge, `C` (default 0)")
 	fs.Var(qty[q.Capacitance]{&s.Diode.Cj}, "diode-cj", "rectifier diode junction capacitance, `F` (default 0)")

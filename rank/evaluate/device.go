@@ -16,12 +16,17 @@ import (
 // temperature-independent charges of the hard turn-on, the conduction law,
 // the thermal fixed point over the whole temperature-dependent loss, the
 // losses at the solved junction temperature, and the screens that need it.
-// k is what the device across the cell contributes (nil: nothing).
-func evalDevice(out *DeviceResult, pt *stage.Point, d *fit.Device, role Role, st *stage.SwitchStress, k *partnerCharge, oss *ossMemo, tr *Trace) {
+// k is what the device across the cell contributes (nil: nothing); dt,
+// for the synchronous switch, its diode's share of the dead times.
+func evalDevice(out *DeviceResult, pt *stage.Point, d *fit.Device, role Role, st *stage.SwitchStress, k *partnerCharge, dt *deadTiming, oss *ossMemo, tr *Trace) {
 	*out = DeviceResult{}
 	out.Dev, out.Role, out.Method, out.Flags, out.Stress, out.RdsDyn = d, role, d.Method, d.Flags, *st, 1
 	var m devModel
 	m.setup(out, pt, d, role, st, k)
+	if dt != nil {
+		m.tDiode1, m.tDiode2 = dt.t1, dt.t2
+		out.TDiode1, out.TDiode2 = dt.t1, dt.t2
+	}
 	m.oss = oss.at(d, st.V)
 	m.prepare()
 	hardTurnOnCharges(out, &m, k, tr)
@@ -171,6 +176,9 @@ func conductionLaw(out *DeviceResult, m *devModel) (r0, rdyn q.Resistance) {
 	if d.DynK > 1 {
 		out.RdsDyn = loss.DynamicRdsFactor(d.DynK, d.DynV, st.V)
 		out.Flags |= fit.FlagRdsDyn
+		if !d.Part.RdsDyn.OK {
+			out.Flags |= fit.FlagRdsDynEstimated
+		}
 		if d.DynV == 0 || st.V > d.DynV {
 			out.Flags |= fit.FlagRdsDynFar
 		}

@@ -109,7 +109,7 @@ func evaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trac
 		if pt.HasDiode {
 			k = diodePartner(&pt.Stage.Diode, pt.Ctrl.V)
 		}
-		evalDevice(&r.Devices[0], pt, dev, RoleControl, &pt.Ctrl, &k, &oss, tr)
+		evalDevice(&r.Devices[0], pt, dev, RoleControl, &pt.Ctrl, &k, nil, &oss, tr)
 	} else {
 		ctrl, sync := dev, dev
 		if partner != nil && partner != dev {
@@ -121,9 +121,11 @@ func evaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trac
 			}
 		}
 		r.N = 2
-		evalDevice(&r.Devices[1], pt, sync, RoleSync, &pt.Sync, nil, &oss, tr)
-		k := devicePartner(sync, oss.at(sync, pt.Ctrl.V), &r.Devices[1])
-		evalDevice(&r.Devices[0], pt, ctrl, RoleControl, &pt.Ctrl, &k, &oss, tr)
+		dt := diodeTimes(pt, ctrl, sync)
+		evalDevice(&r.Devices[1], pt, sync, RoleSync, &pt.Sync, nil, &dt, &oss, tr)
+		k := devicePartner(sync, oss.at(sync, pt.Ctrl.V), &r.Devices[1], pt.Ctrl.IOn, dt.didtOn)
+		evalDevice(&r.Devices[0], pt, ctrl, RoleControl, &pt.Ctrl, &k, nil, &oss, tr)
+		crossConduction(&r.Devices[1], &dt, tr)
 		r.Devices[0].Flags |= k.flags
 		offSwitchChecks(&r.Devices[1], &r.Devices[0], pt, &oss, tr)
 	}
@@ -162,8 +164,11 @@ func diodePartner(d *stage.Diode, v q.Voltage) partnerCharge {
 
 // devicePartner is the synchronous switch k seen from the control switch,
 // with its output-capacitance law at the cell voltage, ok, and its
-// recovered charge at its solved junction temperature kr.Thermal.
-func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult) partnerCharge {
+// recovered charge at its solved junction temperature kr.Thermal, moved
+// from the datasheet's test to the commutation of forward current iF at
+// rate didt when the test conditions are known (charge-control model,
+// loss.RecoveredCharge).
+func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Current, didt q.Slew) partnerCharge {
 	p := partnerCharge{qoss: ok.Q(), eoss: ok.E(), lloop: k.Lloop, tj: kr.Thermal.Tj, dev: k}
 	if !kr.Thermal.Found {
 		p.tj = k.TjMax
@@ -175,6 +180,13 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult) partnerCha
 		return p
 	}
 	p.qrr = k.Qrr.At(p.tj)
+	if k.QrrTau > 0 && iF > 0 && didt > 0 {
+		scale := float64(loss.RecoveredCharge(k.QrrTau, iF, didt)) / float64(loss.RecoveredCharge(k.QrrTau, k.QrrIf, k.QrrDidt))
+		p.qrr = q.Charge(float64(p.qrr) * scale)
+		if !k.Part.QrrIf.OK || !k.Part.QrrDidt.OK {
+			p.flags |= fit.FlagQrrCondEstimated
+		}
+	}
 	if !k.Part.Qrr.OK {
 		p.flags |= fit.FlagQrrEstimated
 	}

@@ -67,7 +67,7 @@ func TestEvaluateFCCM(t *testing.T) {
 		t.Errorf("sync turn-off %g: should be hard at %g A", float64(s.TurnOff), i)
 	}
 	// The sync's own dead time: only before its turn-on, at the peak.
-	testkit.Within(t, "sync dead time", float64(s.DeadTime), 0.8*(0.5+4.32/2)*40e-9*500e3, 1e-6)
+	testkit.Within(t, "sync dead time", float64(s.DeadTime), 0.8*(0.5+4.32/2)*float64(r.Devices[1].TDiode1)*500e3, 1e-6)
 
 	// A short dead time leaves a residual voltage: partial swing with
 	// x = I·t_dt/(2C) (linear parts) and E = C·(V − x)² per cycle.

@@ -26,6 +26,8 @@ type devModel struct {
 	vdsGate       q.Voltage    // drain voltage of the gate-charge curve
 	lcs           q.Inductance // common-source inductance in the gate loop
 	lloop         q.Inductance // power-loop inductance at the hard edges
+	tDiode1       q.Time       // the diode's conduction in the dead time before this switch's turn-on (deadTiming)
+	tDiode2       q.Time       // and after its turn-off
 
 	// Fixed by prepare.
 	odOn, odOff, odPk       q.Voltage         // plateau overdrive Vpl − Vth at the turn-on, turn-off and peak currents

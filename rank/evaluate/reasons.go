@@ -2,6 +2,7 @@ package evaluate
 
 import (
 	"fmt"
+	q "swrank/devices/quantity"
 	"swrank/rank/fit"
 	"swrank/rank/loss"
 )
@@ -81,6 +82,14 @@ func (r *Result) Reasons() []string {
 		}
 		if s&ScreenTooSlow != 0 {
 			add("its current fall time %s is too long a part of the period for class E", r.RF.Tf)
+		}
+		if s&ScreenCrossConduction != 0 {
+			for k, m := range [2]q.Time{d.Margin1, d.Margin2} {
+				if m < 0 {
+					edge := [2]string{"the control switch's turn-off", "the synchronous switch's turn-off"}[k]
+					add("cross-conduction after %s: the other switch's channel starts %s before this edge is over (both conduct); the dead time needs %s more", edge, -m, -m)
+				}
+			}
 		}
 		if s&ScreenNoOutputCap != 0 {
 			add("its output-capacitance law cannot be evaluated over this swing")

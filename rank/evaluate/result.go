@@ -53,6 +53,14 @@ type DeviceResult struct {
 	// Vsd1, Vsd2 are the reverse-conduction drops in the dead times before
 	// and after this switch's conduction, at Tj, V (sync only).
 	Vsd1, Vsd2 q.Voltage
+	// TDiode1, TDiode2 are the diode's full-current conduction times in
+	// those dead times: the programmed dead time less what the edges use,
+	// s (sync only; ≥ 0).
+	TDiode1, TDiode2 q.Time
+	// Margin1, Margin2 are what is left of each dead time when the other
+	// switch's channel starts to conduct, s: below 0 both conduct at once
+	// (ScreenCrossConduction; sync only).
+	Margin1, Margin2 q.Time
 	// Qrr is the partner's recovered charge counted at this switch's hard
 	// turn-on, at the partner's junction temperature, C.
 	Qrr q.Charge

@@ -51,6 +51,7 @@ const (
 	ScreenTooSlow                            // class E: the current fall takes too large a part of the period
 	ScreenImplausible                        // the result is not physical: a loss above the power the stage processes, or a negative or non-finite share
 	ScreenEstimated                          // strict ranking: the result rests on estimated values
+	ScreenCrossConduction                    // a dead time too short for the gates: both channels conduct at once
 )
 
 // stageScreens applies the screens of the whole result: a result that is

@@ -28,7 +28,7 @@ func softTurnOn(out *DeviceResult, pt *stage.Point, d *fit.Device, st *stage.Swi
 	var edead q.Energy
 	var tcond q.Time
 	if st.ISoftOn > 0 {
-		tdt := s.DeadTime.V
+		tdt := s.DeadTimeCtrlOn.V
 		full := d.Oss.Q(st.V) + kl.Q(st.V)
 		if dq := q.Charge(float64(st.ISoftOn) * float64(tdt)); dq >= full {
 			vr = 0
@@ -45,7 +45,7 @@ func softTurnOn(out *DeviceResult, pt *stage.Point, d *fit.Device, st *stage.Swi
 	if tr != nil {
 		if st.ISoftOn > 0 {
 			tr.add(out.Role.String(), "soft turn-on", "the reversed current I swings the node in the dead time: Q_K(x) + Q_S(V) − Q_S(V − x) = I·t_dt; residual V_r = V − x; E = E_S(V_r) + V·[Q_K(V) − Q_K(V − V_r)] − [E_K(V) − E_K(V − V_r)]; then reverse conduction for t_dt − (Q_S + Q_K)/I",
-				T("I reversed", st.ISoftOn), T("t_dt", s.DeadTime.V), T("Q_S(V) + Q_K(V)", d.Oss.Q(st.V)+kl.Q(st.V)),
+				T("I reversed", st.ISoftOn), T("t_dt", s.DeadTimeCtrlOn.V), T("Q_S(V) + Q_K(V)", d.Oss.Q(st.V)+kl.Q(st.V)),
 				T("V residual", vr), T("E/cycle", e), T("reverse conduction", tcond), T("E reverse/cycle", edead))
 		} else {
 			tr.add(out.Role.String(), "soft turn-on", "discontinuous conduction: turn-on at zero current with V_r across the switch; E = E_S(V_r) + V·[Q_K(V) − Q_K(V − V_r)] − [E_K(V) − E_K(V − V_r)]",

@@ -18,7 +18,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 	if m.dead {
 		st := m.st
 		a.vsd1, a.vsd2 = m.reverseDrops(tj)
-		a.edead = loss.DeadTimeEnergy(a.vsd1, st.IDead1, m.s.DeadTime.V, a.vsd2, st.IDead2, m.s.DeadTime.V)
+		a.edead = loss.DeadTimeEnergy(a.vsd1, st.IDead1, m.tDiode1, a.vsd2, st.IDead2, m.tDiode2)
 	}
 	a.p = q.Power(float64(a.eon+a.eoff+a.edead+a.split.Rint) * m.f)
 }

@@ -36,6 +36,9 @@ const (
 	// A steeper fall is the unfavourable side for the false-turn-on
 	// screen and the turn-off edge.
 	vthTCPerVolt = -4e-3
+	// The other end, taken by the low twin (Device.Alt): 10 % lower at
+	// 125 °C, the flat end (GaN HEMTs).
+	vthTCPerVoltLow = -1e-3
 	// Forward-drop coefficient of a p-n body diode (silicon and SiC), V/K,
 	// for a vsd taken at 25 °C when vsd_hot is blank: −0.5 mV/K, the
 	// shallow end of −0.5 to −2 mV/K (common practice, from memory), so
@@ -100,6 +103,13 @@ type Device struct {
 	Qrr            loss.QrrLaw // own recovered charge against temperature (Q0 = 0: none)
 	// QrrHot is true when the recovery law comes from the part's own hot point.
 	QrrHot bool
+	// QrrTau is the charge-control lifetime that gives the recovered
+	// charge at its test current and di/dt (loss.FitRecoveryLifetime), s;
+	// QrrIf and QrrDidt are that test's current and rate, the datasheet's
+	// or, when blank, the unfavourable ends of the usual test (estimates.go).
+	QrrTau  q.Time
+	QrrIf   q.Current
+	QrrDidt q.Slew
 
 	// Dynamic on-resistance: factor DynK (≥ 1; 0 when not given) after
 	// blocking DynV (0: voltage unknown).
@@ -370,6 +380,9 @@ func (d *Device) prepareSecondOrder() error {
 		return fmt.Errorf("part %s: %s: %s", p.Name, field, fmt.Sprintf(format, a...))
 	}
 	d.VthTC = vthTCPerVolt * float64(p.VgsTh)
+	if d.Low {
+		d.VthTC = vthTCPerVoltLow * float64(p.VgsTh)
+	}
 	if p.Technology != devices.GaN {
 		d.VsdTC = vsdTC
 	}
@@ -404,6 +417,7 @@ func (d *Device) prepareSecondOrder() error {
 			return bad("qrr_hot", "needs a charge ≥ 0 at a qrr_hot_tj other than qrr_tj (%s)", t0)
 		}
 		d.Qrr, d.QrrHot = loss.FitQrrLaw(p.Qrr.V, t0, p.QrrHot.V, p.QrrHotTj.V, hot), hot
+
 	}
 
 	// Dynamic on-resistance.

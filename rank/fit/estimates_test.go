@@ -74,3 +74,15 @@ func TestPackageFamilies(t *testing.T) {
 		}
 	}
 }
+
+// Every flag has its code and sentence.
+func TestFlagTexts(t *testing.T) {
+	for f := fit.Flags(1); f != 0; f <<= 1 {
+		if f.Codes() == "" && len(f.Sentences()) == 0 {
+			break // past the last flag
+		}
+		if f.Codes() == "" || len(f.Sentences()) != 1 {
+			t.Errorf("flag %#x: code %q, sentences %q", uint64(f), f.Codes(), f.Sentences())
+		}
+	}
+}

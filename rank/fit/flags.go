@@ -52,6 +52,8 @@ const (
 	FlagLloopEstimated                        // l_loop missing: the top of the package family
 	FlagGateChargeEstimated                   // qgs or qgd missing: the top of their share of qg
 	FlagEstimateLow                           // informational: the low end of a bracketed estimate gave the worse result
+	FlagRdsDynEstimated                       // GaN without rds_dyn: 1.4× after blocking 80 % of the rating
+	FlagQrrCondEstimated                      // qrr_if or qrr_didt missing: the recovery test at a quarter of id_max and 100 A/µs
 	flagCount
 )
 
@@ -96,6 +98,8 @@ var flagText = [...]struct{ code, text string }{
 	{"l-loop?", "l_loop not given: the top of the package family's range is taken (leaded values without a known package)"},
 	{"qgs-qgd?", "qgs or qgd not given: taken as 0.4·qg and 0.35·qg (the top of their usual share, within 90 % of qg together), and as 0.15·qg each at the other end"},
 	{"est-low", "a blank value with no unfavourable end (rg_int, the gate-charge curve, l_cs, the Miller charge without crss, a one-point output capacitance) was taken at both ends of its range: the faster end gave the worse result and is shown"},
+	{"rds-dyn-est", "GaN part without rds_dyn: a dynamic on-resistance of 1.4× after blocking 80 % of the rating is taken (the top of what GaN datasheets state)"},
+	{"qrr-cond?", "qrr_if or qrr_didt not given: the recovery test taken at a quarter of id_max and 100 A/µs (the unfavourable ends of the usual test) when the charge is moved to the working current and di/dt"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".
@@ -136,7 +140,7 @@ const EstimateFlags = FlagQgVdsAssumed | FlagQgIdAssumed | FlagQgThAssumed | Fla
 	FlagGateLinear | FlagRthJCEstimated | FlagRthJAEstimated | FlagNoRth | FlagQrrEstimated |
 	FlagVsdDefault | FlagTjMaxDefault | FlagVgsMinDefault | FlagIdPulseMissing | FlagVthTempDefault |
 	FlagQrrTempDefault | FlagFalseOnUnchecked | FlagHysteresisEstimated | FlagMillerLumped |
-	FlagLcsEstimated | FlagLloopEstimated | FlagGateChargeEstimated
+	FlagLcsEstimated | FlagLloopEstimated | FlagGateChargeEstimated | FlagRdsDynEstimated | FlagQrrCondEstimated
 
 // Estimates returns how many of the set flags stand for estimated values.
 func (f Flags) Estimates() int { return bits.OnesCount64(uint64(f & EstimateFlags)) }

@@ -1,6 +1,10 @@
 package loss
 
-import q "swrank/devices/quantity"
+import (
+	"math"
+
+	q "swrank/devices/quantity"
+)
 
 // DeadTimeEnergy is the body-diode (reverse) conduction energy per cycle in
 // the dead times: Vsd·(I1·t1 + I2·t2).
@@ -62,4 +66,54 @@ func FitQrrLaw(q0 q.Charge, t0 q.Temperature, q1 q.Charge, t1 q.Temperature, hot
 	}
 	q25 := float64(q0) / (1 + QrrRisePerK*float64(t0-25))
 	return QrrLaw{Q0: q0, T0: t0, Slope: q25 * QrrRisePerK}
+}
+
+// RecoveredCharge is the charge a p-n diode recovers when its forward
+// current iF is ramped down at the rate didt, by the charge-control model
+// with lifetime tau: the stored charge q obeys dq/dt = i − q/τ from the
+// steady state τ·iF while i falls linearly to zero in iF/didt, and what is
+// left at the zero crossing is swept out as reverse current:
+//
+//	Q_rr = didt·τ²·(1 − exp(−iF/(didt·τ))).
+//
+// Fast commutation (didt·τ ≫ iF) recovers the whole stored charge τ·iF;
+// slow commutation recovers didt·τ², whatever the current.
+//
+// Source: the charge-control model of the junction diode (Kassakian,
+// Schlecht & Verghese, Principles of Power Electronics, 1991, ch. 20 on
+// diode switching); solved here for a linear current ramp.
+func RecoveredCharge(tau q.Time, iF q.Current, didt q.Slew) q.Charge {
+	if tau <= 0 || iF <= 0 || didt <= 0 {
+		return 0
+	}
+	a, t := float64(didt), float64(tau)
+	return q.Charge(a * t * t * -math.Expm1(-float64(iF)/(a*t)))
+}
+
+// FitRecoveryLifetime returns the lifetime τ for which RecoveredCharge
+// gives qrr at the datasheet's test current iF and rate didt (the charge
+// grows with τ without bound, so any qrr > 0 has one), and false for
+// non-positive inputs or a lifetime beyond 1 s.
+func FitRecoveryLifetime(qrr q.Charge, iF q.Current, didt q.Slew) (q.Time, bool) {
+	if qrr <= 0 || iF <= 0 || didt <= 0 {
+		return 0, false
+	}
+	// The charge rises monotonically with τ from 0; bracket then bisect on
+	// the logarithm of τ (to 1e-9 relative).
+	lo, hi := 1e-15, 1e-9
+	for float64(RecoveredCharge(q.Time(hi), iF, didt)) < float64(qrr) {
+		hi *= 10
+		if hi > 1 {
+			return 0, false
+		}
+	}
+	for hi/lo > 1+1e-9 {
+		mid := math.Sqrt(lo * hi)
+		if float64(RecoveredCharge(q.Time(mid), iF, didt)) < float64(qrr) {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return q.Time(math.Sqrt(lo * hi)), true
 }

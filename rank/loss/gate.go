@@ -180,3 +180,24 @@ func GateCurrent(vDrv, vGate q.Voltage, r q.Resistance, iPeak q.Current) q.Curre
 	}
 	return q.Current(i)
 }
+
+// GateDelay is the time a gate driven through resistance r from vDrive
+// takes to move from vFrom to vTo when its charge per volt is c (a
+// constant capacitance between the two levels): the RC charge or
+// discharge t = r·c·ln((vDrive − vFrom)/(vDrive − vTo)). It is +Inf when
+// the drive never reaches vTo, 0 when vTo is already passed.
+//
+// Source: the turn-on and turn-off delay of a MOSFET gate, the RC
+// response of the input capacitance through the gate loop (Balogh,
+// "Fundamentals of MOSFET and IGBT Gate Driver Circuits", 2001, the delay
+// intervals of the switching procedure).
+func GateDelay(r q.Resistance, c q.Capacitance, vDrive, vFrom, vTo q.Voltage) q.Time {
+	num, den := float64(vDrive-vFrom), float64(vDrive-vTo)
+	switch {
+	case num == 0 || den/num >= 1:
+		return 0 // vTo lies between vFrom and the drive's start: already passed
+	case den/num <= 0:
+		return q.Time(math.Inf(1)) // the drive never reaches vTo
+	}
+	return q.Time(float64(r) * float64(c) * math.Log(num/den))
+}

@@ -402,11 +402,17 @@ func (s *Stage) fillConverter(pt *Point, bad complaint) {
 		if !s.DeadTime.OK {
 			s.DeadTime = q.Some(DefaultDeadTime)
 		}
-		if s.DeadTime.V < 0 {
+		if !s.DeadTimeSyncOn.OK {
+			s.DeadTimeSyncOn = s.DeadTime
+		}
+		if !s.DeadTimeCtrlOn.OK {
+			s.DeadTimeCtrlOn = s.DeadTime
+		}
+		if s.DeadTime.V < 0 || s.DeadTimeSyncOn.V < 0 || s.DeadTimeCtrlOn.V < 0 {
 			bad("dead-time: must be ≥ 0 s")
 		}
-		if float64(s.DeadTime.V)*2*float64(s.Fsw) >= 0.5 {
-			bad("dead-time: %s twice per period leaves too little of a %s period", s.DeadTime.V, s.Fsw)
+		if float64(s.DeadTimeSyncOn.V+s.DeadTimeCtrlOn.V)*float64(s.Fsw) >= 0.5 {
+			bad("dead-time: %s and %s per period leave too little of a %s period", s.DeadTimeSyncOn.V, s.DeadTimeCtrlOn.V, s.Fsw)
 		}
 	}
 	if s.Pout == 0 {

@@ -149,6 +149,11 @@ type Stage struct {
 	// turning on, at each of the two edges, s. ≥ 0. Default (not given)
 	// 20 ns.
 	DeadTime q.Opt[q.Time]
+	// DeadTimeSyncOn is the dead time after the control switch turns off,
+	// before the synchronous switch turns on, s; DeadTimeCtrlOn the one
+	// after the synchronous switch turns off, before the control switch
+	// turns on. ≥ 0; default (not given) DeadTime.
+	DeadTimeSyncOn, DeadTimeCtrlOn q.Opt[q.Time]
 
 	Diode Diode // the rectifier diode when Rectifier is DiodeRect
 
