@@ -44,18 +44,18 @@ type deadTiming struct {
 // transition (half the interval counted; Graovac, Pürschel, Kiep 2006).
 func diodeTimes(pt *stage.Point, ct, sy *fit.Device) deadTiming {
 	s := &pt.Stage
-	drv := &s.Driver
+	cd, sd := s.DriverOf(false), s.DriverOf(true)
 	var t deadTiming
 	// Edge 1: the control switch turns off at its peak current.
-	off := turnOffTimes(ct, drv, pt.Ctrl.V, pt.Ctrl.IOff)
-	syOn := onDelay(sy, drv)
+	off := turnOffTimes(ct, cd, pt.Ctrl.V, pt.Ctrl.IOff)
+	syOn := onDelay(sy, sd)
 	t.used1 = off.delay + off.tvr + off.tif/2 - syOn
 	t.margin1 = s.DeadTimeSyncOn.V + syOn - (off.delay + off.tvr + off.tif)
 	// Edge 2: the synchronous switch's channel stops as its gate passes
 	// the threshold; the control switch's channel starts at its own.
-	syOff := softOffDelay(sy, drv, pt.Sync.IOff)
-	ctOn := onDelay(ct, drv)
-	tir := currentRise(ct, drv, pt.Ctrl.IOn)
+	syOff := softOffDelay(sy, sd, pt.Sync.IOff)
+	ctOn := onDelay(ct, cd)
+	tir := currentRise(ct, cd, pt.Ctrl.IOn)
 	if tir > 0 && pt.Ctrl.IOn > 0 {
 		t.didtOn = q.Slew(float64(pt.Ctrl.IOn) / float64(tir))
 	}

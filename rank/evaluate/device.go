@@ -50,8 +50,8 @@ func evalDevice(out *DeviceResult, pt *stage.Point, d *fit.Device, role Role, st
 // inductances of its hard edges.
 func (m *devModel) setup(out *DeviceResult, pt *stage.Point, d *fit.Device, role Role, st *stage.SwitchStress, k *partnerCharge) {
 	s := &pt.Stage
-	drv := &s.Driver
-	m.d, m.s, m.st, m.f = d, s, st, float64(s.Fsw)
+	drv := s.DriverOf(role == RoleSync)
+	m.d, m.s, m.st, m.f, m.drv = d, s, st, float64(s.Fsw), drv
 	m.hard, m.dead = st.HardOn || st.HardOff, role == RoleSync && s.DeadTime.OK
 
 	// Gate loop: driver, external and internal gate resistance.
@@ -82,7 +82,7 @@ func (m *devModel) setup(out *DeviceResult, pt *stage.Point, d *fit.Device, role
 // resistances, raised where the driver's peak-current limit binds at the
 // plateau vplPk.
 func (m *devModel) driverLimits(out *DeviceResult, vplPk q.Voltage) {
-	d, drv := m.d, &m.s.Driver
+	d, drv := m.d, m.drv
 	m.rdOn, m.rdOff = drv.RSource, drv.RSink
 	if drv.IPeakSource > 0 && drv.VOn-vplPk > 0 {
 		if r := q.Resistance(float64(drv.VOn-vplPk)/float64(drv.IPeakSource)) - drv.RgExt - d.RgInt; r > m.rdOn {
@@ -168,7 +168,7 @@ func hardTurnOnCharges(out *DeviceResult, m *devModel, k *partnerCharge, tr *Tra
 // reference temperature, r0, and with the dynamic factor for the blocked
 // voltage applied, rdyn.
 func conductionLaw(out *DeviceResult, m *devModel) (r0, rdyn q.Resistance) {
-	d, drv, st := m.d, &m.s.Driver, m.st
+	d, drv, st := m.d, m.drv, m.st
 	r0 = d.Gate.At(drv.VOn)
 	if !m.driveOK {
 		r0 = d.Gate.At(max(drv.VOn, d.Vth+0.1))
@@ -212,7 +212,7 @@ func solveJunction(out *DeviceResult, m *devModel, a *tempState, fixed q.Power, 
 // temperature tj into out: gate drive, edges, dead time (with the
 // light-load reverse conduction esoft) and conduction through rdyn.
 func recordAt(out *DeviceResult, m *devModel, a *tempState, tj q.Temperature, rdyn q.Resistance, esoft q.Energy) {
-	d, st, drv, f := m.d, m.st, &m.s.Driver, m.f
+	d, st, drv, f := m.d, m.st, m.drv, m.f
 	p := d.Part
 	out.Vth, out.VplOn, out.VplOff = a.vth, a.vplOn, a.vplOff
 	out.Qg, out.Egate = a.qg, a.egate
@@ -261,7 +261,7 @@ func hotScreens(out *DeviceResult, m *devModel, a *tempState, tj q.Temperature) 
 		out.Screens |= ScreenVoltage
 	}
 	out.FalseOn.Vth = a.vth
-	out.FalseOn.Margin = a.vth - s.Driver.VOff
+	out.FalseOn.Margin = a.vth - m.drv.VOff
 	if out.FalseOn.Margin <= 0 {
 		out.Screens |= ScreenFalseTurnOn
 	}

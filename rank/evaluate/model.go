@@ -17,6 +17,7 @@ import (
 type devModel struct {
 	d             *fit.Device
 	s             *stage.Stage
+	drv           *stage.Driver // this device's gate driver (Stage.DriverOf)
 	st            *stage.SwitchStress
 	f             float64
 	hard, driveOK bool
@@ -45,7 +46,7 @@ type devModel struct {
 
 // prepare fixes the temperature-independent parts of at.
 func (m *devModel) prepare() {
-	d, st, drv := m.d, m.st, &m.s.Driver
+	d, st, drv := m.d, m.st, m.drv
 	od := func(i q.Current) (q.Voltage, q.Charge) {
 		v := max(loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i)-d.Vth, 1e-3)
 		return v, d.Qgs2 * q.Charge(v/(d.VplSpec-d.Vth))
@@ -124,7 +125,7 @@ func chargeTime(qq q.Charge, i q.Current) q.Time {
 // tj (Device.reverseDrop, with the GaN resistances fixed by prepare).
 func (m *devModel) reverseDrops(tj q.Temperature) (q.Voltage, q.Voltage) {
 	d, st := m.d, m.st
-	voff := m.s.Driver.VOff
+	voff := m.drv.VOff
 	if m.rRev == 0 {
 		return d.ReverseDrop(st.IDead1, voff, tj), d.ReverseDrop(st.IDead2, voff, tj)
 	}

@@ -15,7 +15,7 @@ import (
 func offSwitchChecks(sy, ct *DeviceResult, pt *stage.Point, oss *ossMemo, tr *Trace) {
 	d := sy.Dev
 	s := &pt.Stage
-	drv := &s.Driver
+	drv := s.DriverOf(true)
 	v := sy.Stress.V
 	fo := &sy.FalseOn
 	fo.R = drv.RSink + drv.RgExt + d.RgInt

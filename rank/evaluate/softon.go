@@ -33,7 +33,7 @@ func softTurnOn(out *DeviceResult, pt *stage.Point, d *fit.Device, st *stage.Swi
 		if dq := q.Charge(float64(st.ISoftOn) * float64(tdt)); dq >= full {
 			vr = 0
 			tcond = tdt - q.Time(float64(full)/float64(st.ISoftOn))
-			vsd := d.ReverseDrop(st.ISoftOn, s.Driver.VOff, s.Ambient)
+			vsd := d.ReverseDrop(st.ISoftOn, s.DriverOf(out.Role == RoleSync).VOff, s.Ambient)
 			edead = q.Energy(float64(vsd) * float64(st.ISoftOn) * float64(tcond))
 		} else {
 			vr = loss.SwingResidual(d.Oss, kl, st.V, dq)

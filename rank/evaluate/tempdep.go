@@ -29,7 +29,7 @@ func (m *devModel) at(tj q.Temperature, a *tempState) {
 // the external and the internal gate resistance (loss.SplitGateEnergy).
 // The tr/tf method's linear gate does not depend on temperature.
 func (m *devModel) gateAt(a *tempState) {
-	d, drv := m.d, &m.s.Driver
+	d, drv := m.d, m.drv
 	vth := a.vth
 	if d.Method == fit.MethodGateCharge {
 		c := loss.GateCurve{Qth: q.Charge(m.qthPerV * float64(vth)), Qgs2: m.qgs2Pk, Qgd: m.qgdGate, Vth: vth, Vpl: vth + m.odPk, Slope: d.Slope}
@@ -68,7 +68,7 @@ func (m *devModel) gateAt(a *tempState) {
 // intervals in which the loop current changes) and returns the gate
 // currents at the turn-on and turn-off plateaus, the voltage edges.
 func (m *devModel) transitionsAt(a *tempState) (igOn, igOff q.Current) {
-	d, st, drv := m.d, m.st, &m.s.Driver
+	d, st, drv := m.d, m.st, m.drv
 	vth := a.vth
 	igOn = loss.GateCurrent(drv.VOn, a.vplOn, m.rOn, drv.IPeakSource)
 	igOff = loss.GateCurrent(drv.VOff, a.vplOff, m.rOff, drv.IPeakSink)
@@ -148,7 +148,7 @@ func (m *devModel) overlapAt(a *tempState, igOn, igOff q.Current) {
 // finish adds to a, computed by at, what the thermal loop does not need:
 // the shares of the common-source and loop inductances and the drain peak.
 func (m *devModel) finish(a *tempState) {
-	d, st, drv := m.d, m.st, &m.s.Driver
+	d, st, drv := m.d, m.st, m.drv
 	a.vpeak = st.V
 	a.tir0, a.tif0 = a.trans.Tir, a.trans.Tif
 	a.elcsOn, a.elcsOff, a.eloop = 0, 0, 0

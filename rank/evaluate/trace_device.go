@@ -8,7 +8,7 @@ import (
 // traceDevice records the temperature-dependent steps of one device.
 func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *tempState, fixed q.Power, r0 q.Resistance, tj q.Temperature) {
 	d, st, s := m.d, m.st, m.s
-	drv := &s.Driver
+	drv := m.drv
 	hist := make([]Term, 0, 16)
 	for i := 0; i < out.Thermal.Iterations && i < len(out.Thermal.History); i++ {
 		hist = append(hist, T("iterate", out.Thermal.History[i]))

@@ -49,7 +49,12 @@ func describePoint(w io.Writer, pt *stage.Point, source string, parts int) {
 		fmt.Fprintf(w, "%s conduction; inductor %s average, %s ripple; control switch: duty %.3f, %s on, %s off, %s rms",
 			pt.Mode, pt.IL, pt.Ripple, float64(pt.Ctrl.Duty), pt.Ctrl.IOn, pt.Ctrl.IOff, pt.Ctrl.IRms)
 		if pt.HasSync {
-			fmt.Fprintf(w, "; sync switch %s rms, dead time %s", pt.Sync.IRms, s.DeadTime.V)
+			if s.DeadTimeSyncOn.V == s.DeadTimeCtrlOn.V {
+				fmt.Fprintf(w, "; sync switch %s rms, dead time %s", pt.Sync.IRms, s.DeadTime.V)
+			} else {
+				fmt.Fprintf(w, "; sync switch %s rms, dead time %s before the sync switch turns on, %s before the control switch does",
+					pt.Sync.IRms, s.DeadTimeSyncOn.V, s.DeadTimeCtrlOn.V)
+			}
 		}
 		fmt.Fprintln(w)
 	}
@@ -59,6 +64,9 @@ func describePoint(w io.Writer, pt *stage.Point, source string, parts int) {
 	}
 	if d.IQ > 0 {
 		fmt.Fprintf(w, ", quiescent %s", d.IQ)
+	}
+	if sd := &s.SyncDriver; sd.VOn > 0 && pt.HasSync {
+		fmt.Fprintf(w, "; sync switch's own drive %s / %s, source %s, sink %s, external %s", sd.VOn, sd.VOff, sd.RSource, sd.RSink, sd.RgExt)
 	}
 	fmt.Fprintf(w, "; ambient %s", s.Ambient)
 	if s.RthCA.OK {

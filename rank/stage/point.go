@@ -325,6 +325,17 @@ func (s *Stage) fillCommon(bad complaint) {
 	if d.RSink == 0 {
 		d.RSink = DefaultRSink
 	}
+	if sd := &s.SyncDriver; sd.VOn > 0 {
+		if sd.RSource == 0 {
+			sd.RSource = DefaultRSource
+		}
+		if sd.RSink == 0 {
+			sd.RSink = DefaultRSink
+		}
+		if sd.VOff >= sd.VOn || sd.RSource < 0 || sd.RSink < 0 || sd.RgExt < 0 || sd.IPeakSource < 0 || sd.IPeakSink < 0 || sd.IQ < 0 {
+			bad("sync-vdrive, sync-vdrive-off, sync-rsrc, sync-rsnk: the off level must be below the on level, resistances and currents ≥ 0")
+		}
+	}
 	if d.RSource < 0 || d.RSink < 0 || d.RgExt < 0 {
 		bad("rsrc, rsnk, rg-ext: resistances must be ≥ 0 Ω")
 	}

@@ -186,6 +186,10 @@ type Stage struct {
 
 	// Driver is the gate driver of each switch; VOn is required.
 	Driver Driver
+	// SyncDriver is the synchronous switch's gate driver when it differs
+	// from the control switch's (a high-side and a low-side driver);
+	// VOn 0 (not given): the same as Driver.
+	SyncDriver Driver
 
 	// Ambient is the ambient temperature, °C. Default 25 °C.
 	Ambient q.Temperature
@@ -203,4 +207,13 @@ type Stage struct {
 	// value (a blank datasheet cell). Default false: estimates are used,
 	// conservatively, and shown.
 	Strict bool
+}
+
+// DriverOf is the gate driver of the synchronous switch (sync true) or of
+// the control switch: SyncDriver when it is given, else Driver.
+func (s *Stage) DriverOf(sync bool) *Driver {
+	if sync && s.SyncDriver.VOn > 0 {
+		return &s.SyncDriver
+	}
+	return &s.Driver
 }
