@@ -65,26 +65,14 @@ func Within(t *testing.T, what string, got, want, rel float64) {
 
 // LightPart is an invented 30 V part with a linear output capacitance
 // (Q_oss and E_oss with E = Q·V/2) so that the capacitive energies have
-// closed forms: C = 1 nF, Q_oss(12 V) = 12 nC, E_oss(12 V) = 72 nJ.
+// closed forms: C = 1 nF, Q_oss(12 V) = 12 nC, E_oss(12 V) = 72 nJ. The
+// rest is the hand-case part's, rated 40 A.
 func LightPart() devices.Part {
-	return devices.Part{
-		Name: "light-a", VdsMax: 30, IdMax: 40, VgsMax: 20, VgsTh: 1.8,
-		RdsOn: 5e-3, RdsOnVgs: 5, RdsOnTj: q.Some[q.Temperature](25),
-		Qg: 8e-9, QgVgs: 5, QgVds: q.Some[q.Voltage](12), QgId: q.Some[q.Current](10),
-		Qgs: q.Some[q.Charge](2e-9), Qgd: q.Some[q.Charge](2e-9), QgTh: q.Some[q.Charge](1e-9),
-		VPlateau: q.Some[q.Voltage](2.5), RgInt: q.Some[q.Resistance](1),
-		Qoss: q.Some[q.Charge](12e-9), Eoss: q.Some[q.Energy](72e-9), OssVds: q.Some[q.Voltage](12),
-		Vsd: q.Some[q.Voltage](0.8), Qrr: q.Some[q.Charge](20e-9),
-		RthJA: q.Some[q.ThermalResistance](40),
-		// The values swrank would otherwise estimate, given so that the
-		// checks exercise the formulas with stated inputs: no package
-		// inductance; threshold −5 mV/K, diode drop −2 mV/K and recovered
-		// charge 2× from 25 to 125 °C (common practice, from memory).
-		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
-		VgsThHot: q.Some[q.Voltage](1.3), VgsThHotTj: q.Some[q.Temperature](125),
-		VsdHot: q.Some[q.Voltage](0.6), VsdHotTj: q.Some[q.Temperature](125),
-		QrrHot: q.Some[q.Charge](40e-9), QrrHotTj: q.Some[q.Temperature](125),
-	}
+	p := HandCasePart()
+	p.Name, p.IdMax = "light-a", 40
+	p.Coss, p.CapVds = q.Opt[q.Capacitance]{}, q.Opt[q.Voltage]{}
+	p.Qoss, p.Eoss = q.Some[q.Charge](12e-9), q.Some[q.Energy](72e-9)
+	return p
 }
 
 // CaseDPart is an invented part for hand case D of the team notes: R₁ =
