@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 )
 
 // Shares are one switch's losses over the measured period, W, taken at its
@@ -50,6 +51,7 @@ type BenchResult struct {
 	// (every switch's terminals, drive supplies and the rectifier).
 	PSS       float64
 	Runs      int     // ngspice runs it took
+	Relaxed   bool    // the looser tolerances were needed (the time step stalled with the tight ones)
 	StepLimit float64 // maximum time step, s
 	Kept      string  `json:"-"` // scratch directory kept (Keep), or ""
 	Cached    bool    `json:"-"` // read from the cache, not simulated
@@ -113,7 +115,7 @@ func Simulate(ctx context.Context, r *Runner, b *Bench, o SimOptions) (*BenchRes
 	if b.Kind == BoostBench {
 		vsrc = b.Vout - b.IL*(1-b.Duty)*b.outputR()
 	}
-	deck0, err := b.deck(o.Periods, vsrc)
+	deck0, err := b.deck(o.Periods, vsrc, benchOptions[0])
 	if err != nil {
 		return nil, err
 	}
@@ -123,13 +125,17 @@ func Simulate(ctx context.Context, r *Runner, b *Bench, o SimOptions) (*BenchRes
 		cached.Cached = true
 		return &cached, nil
 	}
-	n := o.Periods
+	n, opt := o.Periods, 0
 	for runs := 1; ; runs++ {
-		deck, err := b.deck(n, vsrc)
+		deck, err := b.deck(n, vsrc, benchOptions[opt])
 		if err != nil {
 			return nil, err
 		}
 		tabs, dir, err := r.RunJob(ctx, Job{Name: b.Name(), Deck: deck, Files: files, Outputs: []string{"bench.dat"}, Compat: compat})
+		if err != nil && opt+1 < len(benchOptions) && strings.Contains(strings.ToLower(err.Error()), "timestep too small") {
+			opt++ // the looser tolerances, once
+			continue
+		}
 		if err != nil {
 			return nil, err
 		}
@@ -140,7 +146,7 @@ func Simulate(ctx context.Context, r *Runner, b *Bench, o SimOptions) (*BenchRes
 			}
 			return nil, fmt.Errorf("%s: %w", b.Name(), err)
 		}
-		res.Runs, res.Kept = runs, dir
+		res.Runs, res.Kept, res.Relaxed = runs, dir, opt > 0
 		converter := b.Kind == BuckBench || b.Kind == BoostBench
 		ilOff := converter && math.Abs(res.ILMean-b.IL) > 0.01*math.Abs(b.IL)+1e-3
 		if res.PSS <= o.Tol && !ilOff {
