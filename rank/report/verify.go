@@ -34,7 +34,6 @@ func (v *Verification) Write(w io.Writer, format string) error {
 	return v.table(w, false)
 }
 
-
 // diffCells returns the relative difference, the margin and the flag mark
 // of a share.
 func diffCells(p *verify.Part, s verify.Share) (string, string, string) {
