@@ -150,6 +150,3 @@ func runVerify(args []string, stdout, stderr io.Writer) error {
 	return nil
 }
 
-func runCharacterise(args []string, stdout, stderr io.Writer) error {
-	return errors.New("not yet")
-}
