@@ -149,4 +149,3 @@ func runVerify(args []string, stdout, stderr io.Writer) error {
 	}
 	return nil
 }
-

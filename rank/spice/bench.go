@@ -159,8 +159,15 @@ func (b *Bench) deck(n int, vsrc float64, opts string) (string, error) {
 		fmt.Fprintf(&w, "vbus bus 0 dc %s\ndcl d0 bus dclamp\n", num(b.Vblock-drop))
 		ton := b.Duty * T
 		v0 := b.Ioff + (b.Ion-b.Ioff)*(T-delay-ton)/((1-b.Duty)*T)
-		fmt.Fprintf(&w, "il bus d0 pwl(0 %s %s %s %s %s %s %s) r=0\n", num(v0), num(delay), num(b.Ion),
-			num(delay+ton), num(b.Ioff), num(T), num(v0))
+		// The load current ramps from Ion to Ioff while the switch
+		// conducts and back while the clamp does, written out for every
+		// period (ngspice's current sources take no repeat).
+		w.WriteString("il bus d0 pwl(")
+		for k := 0; k < n; k++ {
+			t := float64(k) * T
+			fmt.Fprintf(&w, "%s %s %s %s %s %s ", num(t), num(v0), num(t+delay), num(b.Ion), num(t+delay+ton), num(b.Ioff))
+		}
+		fmt.Fprintf(&w, "%s %s)\n", num(float64(n)*T), num(v0))
 		b.place(&w, 0, b.Ctrl, "d0", "0")
 	case BuckBench:
 		uic = " uic"
