@@ -348,7 +348,7 @@ func TestCheckBadLibraries(t *testing.T) {
 		{"header_only.csv", "header_only.csv:2: no parts"},
 		{"missing_column.csv", "missing_column.csv:1: vgs_th: missing required column"},
 		{"nan.csv", `nan.csv:2:7: rds_on: "NaN": not a finite number`},
-		{"nonphysical.csv", "nonphysical.csv:4:6: vgs_th: 22.00 V: must be below vgs_max"},
+		{"nonphysical.csv", "nonphysical.csv:4:6: vgs_th: 22 reads as 22 V, outside 100 mV–10 V"},
 		{"quotes.csv", `quotes.csv:3: byte 3 of the line: bare " in non-quoted-field`},
 		{"ragged.csv", "ragged.csv:3: wrong number of fields"},
 		{"relations.csv", "relations.csv:3:14: crss: 500.0 pF: exceeds coss"},
@@ -365,9 +365,10 @@ func TestCheckBadLibraries(t *testing.T) {
 			}
 		})
 	}
-	// Warnings only: the library loads, the unknown columns are named.
+	// An unknown column is an error naming it (devices: an unknown column
+	// is fatal unless ReadOptions.UnknownAsNotes).
 	code, out, _ := runCLI(t, "check", dir+"unknown_column.csv")
-	if code != 0 || !strings.Contains(out, "colour: unknown column, ignored (warning)") {
+	if code != 1 || !strings.Contains(out, "colour: unknown column") {
 		t.Errorf("unknown column: %d %q", code, out)
 	}
 }
