@@ -127,14 +127,21 @@ func (b *Bench) places() int {
 }
 
 // outputR is the resistance from a converter's output node to its
-// output source, Ω: chosen so that the inductor current settles with a
-// time constant of two periods (L/R = 2T for the buck).
+// output source, Ω. Buck: the inductor current settles with a time
+// constant of two periods (L/R = 2T). Boost: critical damping of the
+// inductor with the output capacitor seen through the switch,
+// R = √(L/C)/(2(1 − D)).
 func (b *Bench) outputR() float64 {
-	r := b.Inductance * b.Fsw / 2
 	if b.Kind == BoostBench {
-		r /= (1 - b.Duty) * (1 - b.Duty)
+		return math.Sqrt(b.Inductance/b.outputC()) / (2 * (1 - b.Duty))
 	}
-	return r
+	return b.Inductance * b.Fsw / 2
+}
+
+// outputC is the boost's output capacitor, F: 2 % ripple at the output
+// current.
+func (b *Bench) outputC() float64 {
+	return b.IL * (1 - b.Duty) * b.Duty / b.Fsw / (0.02 * b.Vout)
 }
 
 // deck writes the netlist for n periods, saving the last two. vsrc is the
@@ -181,8 +188,7 @@ func (b *Bench) deck(n int, vsrc float64, opts string) (string, error) {
 		}
 	case BoostBench:
 		uic = " uic"
-		iout := b.IL * (1 - b.Duty)
-		c := iout * T / (0.005 * b.Vout) // 0.5 % ripple
+		c := b.outputC()
 		fmt.Fprintf(&w, "vin in 0 dc %s\nl1 in sw %s ic=%s\nco out 0 %s ic=%s\nro out vo %s\nvout vo 0 dc %s\n",
 			num(b.Vin), num(b.Inductance), num(b.IL), num(c), num(b.Vout), num(b.outputR()), num(vsrc))
 		b.place(&w, 0, b.Ctrl, "sw", "0")
