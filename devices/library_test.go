@@ -123,6 +123,13 @@ func TestCheckFiles(t *testing.T) {
 			`relations.csv:14:32: rds_on_curve: "25:1": bad rds_on_curve: want 2 to 8 points written T:factor`,
 			`relations.csv:15:14: crss: 40.00 pF: exceeds ciss (30.00 pF)`,
 		}},
+		{"spice.csv", 2, []string{
+			`spice.csv:4:17: spice_pins: needed by spice_subckt (the order of the subcircuit's pins, e.g. "d g s")`,
+			`spice.csv:5:15: spice_model: needed by spice_subckt (the file holding sub30)`,
+			`spice.csv:6:17: spice_pins: "d g x": pin "x" is not d, g, s or k`,
+			`spice.csv:7:17: spice_pins: "d d s": the pins must name d, g and s once each (and k at most once)`,
+			`spice.csv:8:17: spice_pins: "d g s": given without spice_subckt (a .model card has its pins fixed)`,
+		}},
 		{"conditional.csv", 0, []string{
 			`conditional.csv:2:30: rds_on2_vgs: needed by rds_on2 (its test condition)`,
 			`conditional.csv:3:28: rds_on_hot_tj: needed by rds_on_hot (its test condition)`,

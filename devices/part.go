@@ -204,6 +204,12 @@ type Part struct {
 	Lcs   q.Opt[q.Inductance] `csv:"l_cs"`   // common-source inductance, H
 	Lloop q.Opt[q.Inductance] `csv:"l_loop"` // package share of the power-loop inductance, H
 
+	// Simulation model, read by swrank verify (and written by swrank
+	// characterise); blank: the part is not simulated.
+	SpiceModel  string `csv:"spice_model"`  // ngspice model file holding a .model NAME VDMOS(...) card or a .subckt, path relative to the library file
+	SpiceSubckt string `csv:"spice_subckt"` // name of the subcircuit in spice_model; blank = the file's one VDMOS .model card
+	SpicePins   string `csv:"spice_pins"`   // the subcircuit's pins in order, each d, g, s or k (Kelvin source), e.g. "d g s"; required with spice_subckt
+
 	// Line is the file line the row came from (0 for parts built in code).
 	Line int `csv:"-"`
 }

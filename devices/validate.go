@@ -223,6 +223,8 @@ func (v *validator) run() {
 		}
 	}
 
+	v.checkSpice()
+
 	// Gate charge.
 	if p.QgMax.OK && v.ok("qg_max", "qg") && p.QgMax.V < p.Qg {
 		v.add("qg_max", ErrInconsistent, "%s: below the typical qg (%s)", fmtq(p.QgMax.V), fmtq(p.Qg))

@@ -7,6 +7,8 @@
 //	swrank compare judge candidates against the part already fitted
 //	swrank sweep   sweep a variable and find where the best part changes
 //	swrank new     write a starter design file and parts library
+//	swrank verify  simulate the shortlist in ngspice beside the prediction
+//	swrank characterise  a model's datasheet values as a library row
 //
 // Run "swrank CMD -h" for the inputs of each command, with units and
 // defaults.
@@ -38,6 +40,8 @@ func commands() []command {
 		{"check", "validate a parts library and report every problem at once", runCheck},
 		{"compare", "judge replacement candidates against the part already fitted", runCompare},
 		{"sweep", "sweep fsw, iout, vin or vdrive and find where the best part changes", runSweep},
+		{"verify", "simulate the best-ranked parts in ngspice and set simulated losses beside the predicted", runVerify},
+		{"characterise", "measure a model's datasheet values in ngspice and write them as a library row", runCharacterise},
 		{"new", "write a starter design file and parts library (never overwrites)", runNew},
 	}
 }

@@ -53,17 +53,80 @@ const (
 
 // Characterise extracts the datasheet numbers of m by simulation.
 func Characterise(ctx context.Context, r *Runner, m *Model) (*Datasheet, error) {
+	return characterise(ctx, r, m, modelDUT(m))
+}
+
+// Ratings are what a datasheet states beside a model file's simulated
+// numbers: the part's name, ratings and test current (SI units; the
+// fields of Model of the same names and ranges).
+type Ratings struct {
+	Name   string  // part name; required
+	VdsMax float64 // V; > 0
+	IdMax  float64 // A; > 0
+	VgsMax float64 // V; default 20
+	ITest  float64 // A; default IdMax/2
+	Vgs2   float64 // second Rds(on) gate voltage, V; default 4.5
+}
+
+// CharacteriseDevice extracts the datasheet numbers of a model file's
+// device by simulation, with the tests of Characterise. It returns the
+// ratings as a Model (ratings only) for Datasheet.Part.
+func CharacteriseDevice(ctx context.Context, r *Runner, d *Device, rt Ratings) (*Datasheet, *Model, error) {
+	m := &Model{Name: rt.Name, VdsMax: rt.VdsMax, IdMax: rt.IdMax, VgsMax: rt.VgsMax, ITest: rt.ITest, Vgs2: rt.Vgs2}
+	if m.ITest == 0 {
+		m.ITest = m.IdMax / 2
+	}
+	m.SetDefaults()
+	if m.Name == "" || !(m.VdsMax > 0) || !(m.IdMax > 0) || !(m.ITest > 0) {
+		return nil, nil, fmt.Errorf("characterising %s: a name, vds_max, id_max and a test current > 0 are required", d.Path)
+	}
+	ds, err := characterise(ctx, r, m, deviceDUT(d))
+	return ds, m, err
+}
+
+// dut is the device under test as the characterisation decks see it: the
+// model text, how to place it, and the sizes the tests are scaled by.
+type dut struct {
+	card   string                           // deck lines defining the model
+	inst   func(ref, d, g, s string) string // one instance line
+	files  map[string][]byte
+	compat string
+	// Sizing (NaN: measured first): input capacitance at 0 V (F), its
+	// gate-drain share (F), threshold (V) and gate resistance (Ω).
+	cin, cgd, vto, rg float64
+}
+
+func modelDUT(m *Model) *dut {
+	return &dut{card: m.card("dut"), inst: func(ref, d, g, s string) string {
+		return fmt.Sprintf("m%s %s %s %s %s dut\n", ref, d, g, s, s)
+	}, cin: m.Cgs + m.Cgdmax, cgd: m.Cgdmax, vto: m.Vto, rg: m.Rg}
+}
+
+func deviceDUT(d *Device) *dut {
+	return &dut{card: ".include model.lib\n", inst: func(ref, dn, g, s string) string {
+		l, _ := d.instance(ref, dn, g, s, s)
+		return l
+	}, files: map[string][]byte{"model.lib": d.Text}, compat: d.Compat,
+		cin: math.NaN(), cgd: math.NaN(), vto: math.NaN(), rg: math.NaN()}
+}
+
+func (u *dut) run(ctx context.Context, r *Runner, name, deck string, outputs ...string) (map[string]*Table, error) {
+	t, _, err := r.RunJob(ctx, Job{Name: name, Deck: deck, Files: u.files, Outputs: outputs, Compat: u.compat})
+	return t, err
+}
+
+func characterise(ctx context.Context, r *Runner, m *Model, u *dut) (*Datasheet, error) {
 	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, CapVds: m.VdsMax / 2, OssVds: m.VdsMax / 2,
 		QgVgs: vgsHigh, QgVds: m.VdsMax / 2, QgId: m.ITest,
 		TswVdd: m.VdsMax / 2, TswId: m.ITest, TswVgs: vgsHigh, TswRg: tswRg, TswRgen: tswRgen,
 		VthCurrent: vthCurrent}
 	steps := []struct {
 		name string
-		fn   func(context.Context, *Runner, *Model, *Datasheet) error
+		fn   func(context.Context, *Runner, *Model, *dut, *Datasheet) error
 	}{{"static", static}, {"capacitances", capacitances}, {"output charge", outputCharge},
 		{"gate charge", gateCharge}, {"switching times", switchingTimes}}
 	for _, s := range steps {
-		if err := s.fn(ctx, r, m, ds); err != nil {
+		if err := s.fn(ctx, r, m, u, ds); err != nil {
 			return nil, fmt.Errorf("characterising %s: %s test: %w", m.Name, s.name, err)
 		}
 	}
@@ -72,17 +135,17 @@ func Characterise(ctx context.Context, r *Runner, m *Model) (*Datasheet, error) 
 
 // static: Rds(on) at two gate voltages (a current forced into the drain),
 // Vgs(th) with gate tied to drain at 250 µA, and the body-diode drop.
-func static(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
 	var b strings.Builder
 	b.WriteString("* static characterisation\n")
-	b.WriteString(m.card("dut"))
+	b.WriteString(u.card)
 	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "m1 d1 g1 0 0 dut\nvg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
-	fmt.Fprintf(&b, "m2 d2 g2 0 0 dut\nvg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
-	fmt.Fprintf(&b, "m3 d3 d3 0 0 dut\ni3 0 d3 dc %s\n", num(vthCurrent))
-	fmt.Fprintf(&b, "m4 d4 0 0 0 dut\ni4 d4 0 dc %s\n", num(m.ITest))
+	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
+	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
+	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(vthCurrent))
+	fmt.Fprintf(&b, u.inst("4", "d4", "0", "0")+"i4 d4 0 dc %s\n", num(m.ITest))
 	b.WriteString(".control\n" + deckPrologue + "op\nwrdata static.dat v(d1) v(d2) v(d3) v(d4)\nquit 0\n.endc\n.end\n")
-	t, err := r.Run(ctx, m.Name+" static", b.String(), "static.dat")
+	t, err := u.run(ctx, r, m.Name+" static", b.String(), "static.dat")
 	if err != nil {
 		return err
 	}
@@ -105,7 +168,11 @@ func static(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
 	ds.RdsOn, ds.RdsOn2, ds.Vth, ds.Vsd = v1/m.ITest, v2/m.ITest, v3, -v4
 	// A datasheet Rds(on) is a linear-region figure: the drain voltage must
 	// stay well below the overdrive.
-	if v2 > 0.3*(ds.RdsOn2Vgs-m.Vto) {
+	vto := u.vto
+	if math.IsNaN(vto) {
+		vto = ds.Vth
+	}
+	if v2 > 0.3*(ds.RdsOn2Vgs-vto) {
 		return fmt.Errorf("at Vgs = %g V and %g A the channel saturates (Vds %.3g V): raise vgs2 or lower i_test",
 			ds.RdsOn2Vgs, m.ITest, v2)
 	}
@@ -116,21 +183,27 @@ func static(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
 // Crss (drain driven at CapVds, gate AC-shorted to source) at 1 MHz, and the
 // gate resistance as the real part of the gate impedance with the drain
 // shorted to the source.
-func capacitances(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+func capacitances(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
 	var b strings.Builder
 	b.WriteString("* small-signal capacitances\n")
-	b.WriteString(m.card("dut"))
+	b.WriteString(u.card)
 	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "m1 d1 g1 0 0 dut\nvd1 d1 0 dc %s\nvg1 g1 0 dc 0 ac 1\n", num(ds.CapVds))
-	fmt.Fprintf(&b, "m2 d2 g2 0 0 dut\nvd2 d2 0 dc %s ac 1\nvg2 g2 0 dc 0\n", num(ds.CapVds))
-	b.WriteString("m3 0 g3 0 0 dut\nvg3 g3 0 dc 0 ac 1\n")
+	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vd1 d1 0 dc %s\nvg1 g1 0 dc 0 ac 1\n", num(ds.CapVds))
+	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vd2 d2 0 dc %s ac 1\nvg2 g2 0 dc 0\n", num(ds.CapVds))
+	b.WriteString(u.inst("3", "0", "g3", "0") + "vg3 g3 0 dc 0 ac 1\n")
+	// At 0 V as well: the input and gate-drain capacitances at their
+	// largest, which size the gate-charge and switching-time tests of a
+	// model file.
+	b.WriteString(u.inst("4", "d4", "g4", "0") + "vd4 d4 0 dc 0\nvg4 g4 0 dc 0 ac 1\n")
+	b.WriteString(u.inst("5", "d5", "g5", "0") + "vd5 d5 0 dc 0 ac 1\nvg5 g5 0 dc 0\n")
 	fmt.Fprintf(&b, ".control\n%sac lin 1 %s %s\n", deckPrologue, num(capFreq), num(capFreq))
 	fmt.Fprintf(&b, "let w = 2*pi*%s\n", num(capFreq))
 	b.WriteString("let z1 = -1/i(vg1)\nlet ciss = -1/(w*imag(z1))\n")
 	b.WriteString("let coss = imag(-i(vd2))/w\nlet crss = imag(i(vg2))/w\n")
 	b.WriteString("let z3 = -1/i(vg3)\nlet rgint = real(z3)\n")
-	b.WriteString("wrdata caps.dat ciss coss crss rgint\nquit 0\n.endc\n.end\n")
-	t, err := r.Run(ctx, m.Name+" capacitances", b.String(), "caps.dat")
+	b.WriteString("let z4 = -1/i(vg4)\nlet ciss0 = -1/(w*imag(z4))\nlet crss0 = imag(i(vg5))/w\n")
+	b.WriteString("wrdata caps.dat ciss coss crss rgint ciss0 crss0\nquit 0\n.endc\n.end\n")
+	t, err := u.run(ctx, r, m.Name+" capacitances", b.String(), "caps.dat")
 	if err != nil {
 		return err
 	}
@@ -145,22 +218,31 @@ func capacitances(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error
 		}
 		*p = c[0]
 	}
+	if math.IsNaN(u.cin) {
+		c0, err1 := t["caps.dat"].Col("ciss0")
+		g0, err2 := t["caps.dat"].Col("crss0")
+		if err1 != nil || err2 != nil || !(c0[0] > 0) || !(g0[0] > 0) {
+			return fmt.Errorf("no input capacitance at 0 V")
+		}
+		// 1.5 × the 0 V values: room for the test to reach its gate voltage.
+		u.cin, u.cgd, u.rg = 1.5*c0[0], 1.5*g0[0], ds.RgInt
+	}
 	return nil
 }
 
 // outputCharge: the drain is ramped slowly from 0 V to OssVds with the gate
 // shorted to the source; Q_oss = ∫i dt and E_oss = ∫v·i dt (IEC 60747-8
 // definitions of output charge and stored energy).
-func outputCharge(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+func outputCharge(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
 	const ramp = 2e-6
 	var b strings.Builder
 	b.WriteString("* output charge and energy\n")
-	b.WriteString(m.card("dut"))
+	b.WriteString(u.card)
 	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "m1 d1 0 0 0 dut\nvd1 d1 0 pwl(0 0 %s %s)\n", num(ramp), num(ds.OssVds))
+	fmt.Fprintf(&b, u.inst("1", "d1", "0", "0")+"vd1 d1 0 pwl(0 0 %s %s)\n", num(ramp), num(ds.OssVds))
 	fmt.Fprintf(&b, ".control\n%stran %s %s 0 %s\nwrdata oss.dat v(d1) i(vd1)\nquit 0\n.endc\n.end\n",
 		deckPrologue, num(ramp/2000), num(ramp), num(ramp/2000))
-	t, err := r.Run(ctx, m.Name+" output charge", b.String(), "oss.dat")
+	t, err := u.run(ctx, r, m.Name+" output charge", b.String(), "oss.dat")
 	if err != nil {
 		return err
 	}
@@ -198,23 +280,23 @@ func mustCol(t *Table, n string) []float64 {
 // before the plateau meets the plateau level, Qgs + Qgd where the tangent
 // after the plateau does, and Qg the charge at QgVgs (IEC 60747-8 gate-charge
 // definitions; JESD24 constant-current method).
-func gateCharge(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
+func gateCharge(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
 	// Gate current: a few mA scaled with the part so that the test lasts a
 	// few microseconds (it is slow against every time constant of the die).
-	qmax := (m.Cgs+m.Cgdmax)*(ds.QgVgs+2) + m.Cgdmax*ds.QgVds
+	qmax := u.cin*(ds.QgVgs+2) + u.cgd*ds.QgVds
 	ig := qmax / 5e-6
 	tstop := qmax / ig
 	ds.GateChargeIg, ds.GateChargeTime = ig, tstop
 	var b strings.Builder
 	b.WriteString("* gate charge\n")
-	b.WriteString(m.card("dut"))
+	b.WriteString(u.card)
 	b.WriteString(clampCard)
 	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "vdd dd 0 dc %s\nil dd d1 dc %s\ndcl d1 dd dclamp\nm1 d1 g1 0 0 dut\n", num(ds.QgVds), num(m.ITest))
+	fmt.Fprintf(&b, "vdd dd 0 dc %s\nil dd d1 dc %s\ndcl d1 dd dclamp\n"+u.inst("1", "d1", "g1", "0"), num(ds.QgVds), num(m.ITest))
 	fmt.Fprintf(&b, "ig 0 g1 pwl(0 0 %s %s)\nrleak g1 0 1e9\n", num(edge), num(ig))
 	fmt.Fprintf(&b, ".control\n%stran %s %s 0 %s\nwrdata qg.dat v(g1) v(d1)\nquit 0\n.endc\n.end\n",
 		deckPrologue, num(tstop/4000), num(tstop), num(tstop/4000))
-	t, err := r.Run(ctx, m.Name+" gate charge", b.String(), "qg.dat")
+	t, err := u.run(ctx, r, m.Name+" gate charge", b.String(), "qg.dat")
 	if err != nil {
 		return err
 	}
@@ -319,22 +401,21 @@ func extractGateCharge(qs, vg []float64, ds *Datasheet) error {
 // switchingTimes: resistive load from TswVdd at TswId, gate driven from
 // 0 to TswVgs through the generator and external resistances. tr and tf are
 // the 10-90 % times of the drain current (IEC 60747-8 switching times).
-func switchingTimes(ctx context.Context, r *Runner, m *Model, ds *Datasheet) error {
-	rtot := ds.TswRg + ds.TswRgen + m.Rg
-	cin := m.Cgs + m.Cgdmax
-	ton := 40*rtot*cin + 40*rtot*m.Cgdmax*ds.TswVdd/ds.TswVgs + 20e-9
+func switchingTimes(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
+	rtot := ds.TswRg + ds.TswRgen + u.rg
+	ton := 40*rtot*u.cin + 40*rtot*u.cgd*ds.TswVdd/ds.TswVgs + 20e-9
 	const delay = 5e-9
 	tstop := delay + 2*ton
 	var b strings.Builder
 	b.WriteString("* switching times, resistive load\n")
-	b.WriteString(m.card("dut"))
+	b.WriteString(u.card)
 	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "vdd dd 0 dc %s\nrl dd d1 %s\nm1 d1 g1 0 0 dut\n", num(ds.TswVdd), num(ds.TswVdd/ds.TswId))
+	fmt.Fprintf(&b, "vdd dd 0 dc %s\nrl dd d1 %s\n"+u.inst("1", "d1", "g1", "0"), num(ds.TswVdd), num(ds.TswVdd/ds.TswId))
 	fmt.Fprintf(&b, "vgen p 0 pulse(0 %s %s %s %s %s %s)\nrgen p gx %s\nrgx gx g1 %s\n",
 		num(ds.TswVgs), num(delay), num(edge), num(edge), num(ton), num(4*ton), num(ds.TswRgen), num(ds.TswRg))
 	fmt.Fprintf(&b, ".control\n%stran %s %s 0 %s\nwrdata tsw.dat v(d1) v(g1)\nquit 0\n.endc\n.end\n",
 		deckPrologue, num(tstop/20000), num(tstop), num(tstop/20000))
-	t, err := r.Run(ctx, m.Name+" switching times", b.String(), "tsw.dat")
+	t, err := u.run(ctx, r, m.Name+" switching times", b.String(), "tsw.dat")
 	if err != nil {
 		return err
 	}

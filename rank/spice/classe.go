@@ -58,11 +58,7 @@ type ClassEMeasured struct {
 // voltage the integral of that sinusoid, the choke at I_DC (Raab 1977).
 func classEDeck(m *Model, x *ClassEParts) string {
 	T := 1 / x.F
-	w := 2 * math.Pi * x.F
-	im := x.IDC * math.Sqrt(math.Pi*math.Pi+4) / 2
-	phi := -math.Atan(2 / math.Pi)
-	i0 := im * math.Sin(math.Pi+phi)
-	vc0 := -im * math.Cos(math.Pi+phi) / (w * x.C2)
+	i0, vc0 := classEStart(x)
 	n := float64(x.Cycles)
 	var b strings.Builder
 	fmt.Fprintf(&b, "* class E stage: %s at %s V, %s Hz\n", m.Name, num(x.Vdd), num(x.F))
@@ -79,6 +75,16 @@ func classEDeck(m *Model, x *ClassEParts) string {
 	fmt.Fprintf(&b, "tran %s %s %s %s uic\n", num(T/1e3), num(n*T), num((n-2)*T), num(x.StepLimit))
 	b.WriteString("wrdata ce.dat v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd)\nquit 0\n.endc\n.end\n")
 	return b.String()
+}
+
+// classEStart returns the series branch's current (A) and the series
+// capacitor's voltage (V) at the turn-on instant of the Q_L → ∞ steady
+// state (Raab 1977): the initial conditions of the class E decks.
+func classEStart(x *ClassEParts) (i0, vc0 float64) {
+	w := 2 * math.Pi * x.F
+	im := x.IDC * math.Sqrt(math.Pi*math.Pi+4) / 2
+	phi := -math.Atan(2 / math.Pi)
+	return im * math.Sin(math.Pi+phi), -im * math.Cos(math.Pi+phi) / (w * x.C2)
 }
 
 // SimulateClassE simulates the class E stage x with device m as the switch

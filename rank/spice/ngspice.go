@@ -21,10 +21,19 @@ type Runner struct {
 	Bin string
 	// Timeout bounds one ngspice run (wall clock). Default 60 s.
 	Timeout time.Duration
+	// Keep leaves every run's scratch directory (deck, model files, output)
+	// in place. Default false: removed after the run.
+	Keep bool
+	// KeepFailed leaves the scratch directory of a failed run in place and
+	// names it in the error. Default false.
+	KeepFailed bool
 }
 
 // ErrNoNgspice is returned by FindNgspice when no executable is found.
 var ErrNoNgspice = errors.New("ngspice not found in PATH")
+
+// InstallHint is the install step named when ngspice is missing.
+const InstallHint = "install it (apt-get install ngspice on Debian) or give its path with --ngspice"
 
 // FindNgspice returns a Runner for the ngspice found in PATH.
 func FindNgspice(timeout time.Duration) (*Runner, error) {
@@ -33,6 +42,37 @@ func FindNgspice(timeout time.Duration) (*Runner, error) {
 		return nil, ErrNoNgspice
 	}
 	return &Runner{Bin: p, Timeout: timeout}, nil
+}
+
+// NewRunner returns a Runner for the ngspice at path, or for the one in
+// PATH when path is empty. A missing executable is an error naming the
+// install step (InstallHint) and wrapping ErrNoNgspice.
+func NewRunner(path string, timeout time.Duration) (*Runner, error) {
+	if path == "" {
+		r, err := FindNgspice(timeout)
+		if err != nil {
+			return nil, fmt.Errorf("%w: %s", err, InstallHint)
+		}
+		return r, nil
+	}
+	p, err := exec.LookPath(path)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %s: %v; %s", ErrNoNgspice, path, errors.Unwrap(err), InstallHint)
+	}
+	return &Runner{Bin: p, Timeout: timeout}, nil
+}
+
+// Job is one ngspice run: the deck, the files it includes, and the wrdata
+// files to read back.
+type Job struct {
+	Name    string            // for messages, e.g. "verify slate-30-lo"
+	Deck    string            // the netlist, written as deck.cir; its control block ends with "quit 0"
+	Files   map[string][]byte // further files written beside the deck (relative names), e.g. included models
+	Outputs []string          // wrdata files the deck writes (relative names)
+	// Compat is ngspice's compatibility mode (the ngbehavior variable,
+	// e.g. "ps" or "ltpsa"), written to a .spiceinit in the scratch
+	// directory; "" runs without any start-up file.
+	Compat string
 }
 
 // Table is one file written by ngspice's wrdata with wr_singlescale and
@@ -85,21 +125,52 @@ const deckPrologue = "set wr_singlescale\nset wr_vecnames\nset noaskquit\n"
 // with "quit 0"; a non-zero exit, a missing output file or an error line in
 // ngspice's output is an error that quotes the output.
 func (r *Runner) Run(ctx context.Context, name, deck string, outputs ...string) (map[string]*Table, error) {
+	t, _, err := r.RunJob(ctx, Job{Name: name, Deck: deck, Outputs: outputs})
+	return t, err
+}
+
+// RunJob is Run for a job with files beside the deck and a compatibility
+// mode. It returns the scratch directory when it was kept (Keep, or
+// KeepFailed on an error), else "".
+func (r *Runner) RunJob(ctx context.Context, j Job) (map[string]*Table, string, error) {
+	name := j.Name
 	timeout := r.Timeout
 	if timeout <= 0 {
 		timeout = 60 * time.Second
 	}
 	dir, err := os.MkdirTemp("", "swrank-spice-")
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", name, err)
+		return nil, "", fmt.Errorf("%s: %w", name, err)
 	}
-	defer os.RemoveAll(dir)
-	if err := os.WriteFile(filepath.Join(dir, "deck.cir"), []byte(deck), 0o644); err != nil {
-		return nil, fmt.Errorf("%s: %w", name, err)
+	keep := r.Keep
+	defer func() {
+		if !keep {
+			os.RemoveAll(dir)
+		}
+	}()
+	fail := func(err error) (map[string]*Table, string, error) {
+		if r.KeepFailed || r.Keep {
+			keep = true
+			return nil, dir, fmt.Errorf("%w (deck kept in %s)", err, dir)
+		}
+		return nil, "", err
+	}
+	files := map[string][]byte{"deck.cir": []byte(j.Deck)}
+	for n, b := range j.Files {
+		files[n] = b
+	}
+	args := []string{"-b", "-n", "deck.cir"}
+	if j.Compat != "" {
+		files[".spiceinit"] = []byte("set ngbehavior=" + j.Compat + "\n")
+		args = []string{"-b", "deck.cir"} // reads the .spiceinit of its working directory
+	}
+	for n, b := range files {
+		if err := os.WriteFile(filepath.Join(dir, n), b, 0o644); err != nil {
+			return fail(fmt.Errorf("%s: %w", name, err))
+		}
 	}
 	ctx, cancel := context.WithTimeout(ctx, timeout)
 	defer cancel()
-	args := []string{"-b", "-n", "deck.cir"}
 	bin := r.Bin
 	// Under coreutils timeout as well, so that a run outlives neither its
 	// deadline nor this process (the signal reaches the whole group).
@@ -110,6 +181,9 @@ func (r *Runner) Run(ctx context.Context, name, deck string, outputs ...string) 
 	}
 	cmd := exec.CommandContext(ctx, bin, args...)
 	cmd.Dir = dir
+	if j.Compat != "" {
+		cmd.Env = append(os.Environ(), "HOME="+dir) // no user start-up file besides ours
+	}
 	cmd.SysProcAttr = &syscall.SysProcAttr{Setpgid: true}
 	cmd.Cancel = func() error { return syscall.Kill(-cmd.Process.Pid, syscall.SIGKILL) }
 	cmd.WaitDelay = 2 * time.Second
@@ -117,23 +191,26 @@ func (r *Runner) Run(ctx context.Context, name, deck string, outputs ...string) 
 	cmd.Stdout, cmd.Stderr = &out, &out
 	runErr := cmd.Run()
 	if ctx.Err() != nil {
-		return nil, fmt.Errorf("%s: ngspice did not finish within %v", name, timeout)
+		return fail(fmt.Errorf("%s: ngspice did not finish within %v", name, timeout))
 	}
 	if runErr != nil {
-		return nil, fmt.Errorf("%s: ngspice: %w\n%s", name, runErr, tail(out.String(), 2000))
+		return fail(fmt.Errorf("%s: ngspice: %w\n%s", name, runErr, tail(out.String(), 2000)))
 	}
 	if msg := errorLines(out.String()); msg != "" {
-		return nil, fmt.Errorf("%s: ngspice reported: %s", name, msg)
+		return fail(fmt.Errorf("%s: ngspice reported: %s", name, msg))
 	}
-	res := make(map[string]*Table, len(outputs))
-	for _, o := range outputs {
+	res := make(map[string]*Table, len(j.Outputs))
+	for _, o := range j.Outputs {
 		t, err := readTable(filepath.Join(dir, o))
 		if err != nil {
-			return nil, fmt.Errorf("%s: %w\n%s", name, err, tail(out.String(), 2000))
+			return fail(fmt.Errorf("%s: %w\n%s", name, err, tail(out.String(), 2000)))
 		}
 		res[o] = t
 	}
-	return res, nil
+	if keep {
+		return res, dir, nil
+	}
+	return res, "", nil
 }
 
 // errorLines returns ngspice's error and failure lines, joined, or "".

@@ -1,0 +1,151 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"runtime"
+	"time"
+
+	"github.com/schollz/progressbar/v3"
+	"golang.org/x/term"
+
+	"swrank/rank"
+	"swrank/rank/design"
+	"swrank/rank/report"
+	"swrank/rank/spice"
+	"swrank/rank/verify"
+)
+
+const verifySynopsis = `verify [same flags as rank] [--top N] [--ngspice PATH] [--timeout D] [--jobs N] [--no-cache] [--keep]`
+
+// DefaultTimeout bounds one ngspice run of verify and characterise.
+const defaultTimeout = 120 * time.Second
+
+// simFlags are the flags of the commands that run ngspice.
+type simFlags struct {
+	ngspice string
+	timeout time.Duration
+	jobs    int
+	noCache bool
+	keep    bool
+}
+
+func (s *simFlags) register(fs *flag.FlagSet) {
+	fs.StringVar(&s.ngspice, "ngspice", "", "ngspice executable `PATH` (default: ngspice found in PATH)")
+	fs.DurationVar(&s.timeout, "timeout", defaultTimeout, "bound on each ngspice run, a `DURATION` such as 90s or 5m")
+	fs.IntVar(&s.jobs, "jobs", runtime.NumCPU(), "ngspice runs at once, `N`")
+	fs.BoolVar(&s.noCache, "no-cache", false, "simulate again instead of reading results cached under the user's cache directory (swrank/)")
+	fs.BoolVar(&s.keep, "keep", false, "keep every scratch deck and print where (a failed run's deck is always kept)")
+}
+
+// runner returns the ngspice runner the flags ask for.
+func (s *simFlags) runner() (*spice.Runner, error) {
+	r, err := spice.NewRunner(s.ngspice, s.timeout)
+	if err != nil {
+		return nil, err
+	}
+	r.Keep, r.KeepFailed = s.keep, true
+	return r, nil
+}
+
+// cache returns the result cache, or nil with --no-cache or --keep (a
+// kept deck is one that was run).
+func (s *simFlags) cache(stderr io.Writer) *spice.Cache {
+	if s.noCache || s.keep {
+		return nil
+	}
+	dir, err := spice.DefaultCacheDir()
+	if err != nil {
+		fmt.Fprintf(stderr, "swrank: no result cache: %v\n", err)
+		return nil
+	}
+	return &spice.Cache{Dir: dir}
+}
+
+// progress returns a progress callback drawing a bar on stderr when
+// stderr is a terminal, else nil.
+func progress(stderr io.Writer, what string) func(done, total int) {
+	f, ok := stderr.(*os.File)
+	if !ok || !term.IsTerminal(int(f.Fd())) {
+		return nil
+	}
+	var bar *progressbar.ProgressBar
+	return func(done, total int) {
+		if bar == nil {
+			bar = progressbar.NewOptions(total, progressbar.OptionSetWriter(f), progressbar.OptionSetDescription(what),
+				progressbar.OptionClearOnFinish())
+		}
+		bar.Set(done)
+	}
+}
+
+func runVerify(args []string, stdout, stderr io.Writer) error {
+	var in inputs
+	var dec design.Decisions
+	var sf simFlags
+	var demoModels string
+	fs := newFlagSet("verify", verifySynopsis, stderr)
+	in.register(fs)
+	in.registerOutput(fs)
+	registerDecisions(fs, &dec)
+	sf.register(fs)
+	fs.StringVar(&demoModels, "demo-models", filepath.Join("testdata", "models"), "`DIR` holding the demo library's model files (--demo)")
+	top := fs.Lookup("top")
+	top.Usage, top.DefValue = "verify the best `N` parts that have a model", fmt.Sprint(verify.DefaultTop)
+	in.top = verify.DefaultTop
+	if err := parse(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() > 0 {
+		return fmt.Errorf("unexpected arguments %q (flags come as --name value)", fs.Args())
+	}
+	if err := applyDesign(fs, &in, &dec); err != nil {
+		return err
+	}
+	if dec.OwnPath() {
+		return errors.New("verify simulates one operating point with one device in each place: no --weighting, --parallel or several design points")
+	}
+	if in.top <= 0 {
+		return fmt.Errorf("%w: --top must be at least 1", errUsage)
+	}
+	r, err := sf.runner()
+	if err != nil {
+		return err
+	}
+	pt, devs, partner, lib, err := prepare(&in, stderr)
+	if err != nil {
+		return err
+	}
+	base := demoModels
+	if !in.demo {
+		base = filepath.Dir(in.parts)
+	}
+	res := rank.Rank(pt, devs, partner, rank.Options{})
+	rep, err := verify.Run(context.Background(), pt, res, verify.Options{Top: in.top, Jobs: sf.jobs, Runner: r, Base: base,
+		Sim: spice.SimOptions{Cache: sf.cache(stderr)}, Progress: progress(stderr, "verify")})
+	if err != nil {
+		if in.demo && errors.Is(err, spice.ErrModel) && errors.Is(err, os.ErrNotExist) {
+			return fmt.Errorf("%w (the demo's models are in the repository's testdata/models: run from its root or give --demo-models DIR)", err)
+		}
+		return err
+	}
+	v := report.Verification{Report: rep, Source: lib.Source, Parts: len(lib.Parts)}
+	if err := v.Write(stdout, in.format); err != nil {
+		return err
+	}
+	failed := 0
+	for _, p := range rep.Parts {
+		if p.Err != nil {
+			failed++
+		}
+	}
+	if failed > 0 {
+		return &exitError{code: 1, err: fmt.Errorf("%d of %d parts could not be simulated (see above)", failed, len(rep.Parts))}
+	}
+	return nil
+}
