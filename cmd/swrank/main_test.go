@@ -52,7 +52,7 @@ func TestHelp(t *testing.T) {
 	}
 }
 
-// Hand case A of the team notes through the command line's custom stage:
+// A hand calculation from the gate-charge method through the command line's custom stage:
 // 12 V, 10 A at both edges, 500 kHz, 5 V drive, Rsrc 2 Ω, Rsnk 1 Ω, junction
 // pinned at 25 °C (where its threshold is the datasheet value): overlap 0.1795 W by the gate-charge method (refined
 // variant; Erickson & Maksimović ch. 4, Balogh 2001), conduction
@@ -293,8 +293,9 @@ func TestDemoExplainEqualsRank(t *testing.T) {
 }
 
 // Class E and class D through the command line: the JSON carries the
-// resonant values, and the hand case C design (Sokal & Sokal 1975; Raab
-// 1977: 12 V, 10 W, 6.78 MHz → C₁ 518.9 pF, R 8.3059 Ω) is what the
+// resonant values, and the ideal class E design by hand calculation from
+// Sokal & Sokal 1975 and Raab 1977 (12 V, 10 W, 6.78 MHz → C₁ 518.9 pF,
+// R 8.3059 Ω) is what the
 // operating point reports.
 func TestResonantCLI(t *testing.T) {
 	code, out, e := runCLI(t, "rank", "--demo", "--topology", "class-e", "--vin", "12", "--pout", "10", "--fsw", "6.78M",

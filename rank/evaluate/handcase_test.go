@@ -22,16 +22,19 @@ func TestEvaluateAllocations(t *testing.T) {
 	}
 }
 
-// Hand case A end to end through Evaluate, synchronous buck 12 V → 1.2 V at
+// A hand calculation end to end through Evaluate, synchronous buck 12 V → 1.2 V at
 // 10 A, no ripple, 500 kHz, 20 ns dead time, the same part in both places,
 // junction pinned at 25 °C, where the part's threshold, plateau, recovered
 // charge and diode drop are stated (so no temperature law moves them) and
 // where its 5 mΩ is given. Expected values from
-// the team notes (re-derived above from the cited methods): control switch
+// hand calculation from the gate-charge method (Erickson & Maksimović,
+// Fundamentals of Power Electronics, 2nd ed., 2001, ch. 4; Balogh 2001),
+// the √-law output charge (Erickson & Maksimović ch. 4) and Qrr·V (Graovac,
+// Pürschel & Kiep 2006): control switch
 // overlap 0.1795 W (refined variant), V·Q_oss 57.6 mW, recovery 0.1200 W,
 // conduction 0.0500 W, gate 20.00 mW in all; sync switch dead time 0.1600 W,
 // conduction 10²·0.9·5 mΩ = 0.450 W.
-func TestEvaluateHandCaseA(t *testing.T) {
+func TestEvaluateSyncBuckByHand(t *testing.T) {
 	p := testkit.HandCasePart()
 	d, err := fit.Prepare(&p)
 	if err != nil {
