@@ -130,7 +130,7 @@ func goldenCases() []goldenCase {
 	add(formats("explain_control_basalt-40", "explain", cat(gpBuckCtrl, []string{"basalt-40"}), "table")...)
 	add(formats("explain_boost_diode_granite-80", "explain", cat(gpBoostDiode, []string{"granite-80"}), "table", "json")...)
 	add(formats("explain_class_e_quartz-100", "explain", cat(gpClassE, []string{"quartz-100"}), "table", "json")...)
-	add(formats("explain_hand_a", "explain", cat(gpHandA, []string{"HAND-A"}), "table")...)
+	add(formats("explain_hand_a", "explain", cat(gpHandA, []string{"hand-a"}), "table")...)
 
 	// compare: the fitted part against named candidates, or against all.
 	add(formats("compare_buck12", "compare", cat(gpBuck12, []string{"--fitted", "basalt-40", "quartz-40", "slate-30-lo"}), allFormats...)...)
