@@ -4,6 +4,7 @@
 //	swrank rank    rank the parts of a library at an operating point
 //	swrank explain show one part's whole calculation
 //	swrank check   validate a parts library and report every problem
+//	swrank parts   list a library's parts and how complete each row is
 //	swrank compare judge candidates against the part already fitted
 //	swrank sweep   sweep a variable and find where the best part changes
 //	swrank new     write a starter design file and parts library
@@ -39,6 +40,7 @@ func commands() []command {
 		{"rank", "rank the parts of a library by total loss at an operating point", runRank},
 		{"explain", "show one part's whole calculation at an operating point", runExplain},
 		{"check", "validate a parts library and report every problem at once", runCheck},
+		{"parts", "list a library's parts: ratings, package, technology, how complete each row is", runParts},
 		{"compare", "judge replacement candidates against the part already fitted", runCompare},
 		{"sweep", "sweep fsw, iout, vin or vdrive and find where the best part changes", runSweep},
 		{"new", "write a starter design file and parts library (never overwrites)", runNew},

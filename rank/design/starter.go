@@ -92,13 +92,13 @@ const starterParts = `# swrank parts library: one row per transistor, one column
 # parts.csv" reports every problem at once; "swrank parts parts.csv" lists
 # the parts and how complete each row is. Columns and their test
 # conditions: docs/library.md.
-part,technology,rds_on,rds_on_vgs,rds_on_tj,rds_on_max,rds_on_hot,rds_on_hot_tj,qg,qg_vgs,qg_vds,qg_id,qgs,qgd,qg_th,v_plateau,vgs_th,vgs_th_hot,vgs_th_hot_tj,rg_int,ciss,coss,crss,cap_vds,qoss,eoss,oss_vds,vsd,qrr,qrr_if,l_loop,l_cs,rth_jc,rth_ja,tj_max,vds_max,id_max,id_pulse,vgs_max,vgs_min,package,price
-starter-si-20,si,2.4m,4.5,25,3m,3.6m,125,14n,4.5,10,30,4.18n,3.2n,2.09n,2.0,1.0,0.5,125,1.0,2.2n,685p,128p,10,17.8n,64.2n,10,0.75,12n,30,600p,400p,2.0,35,150,20,60,240,12,-8,QFN 3.3x3.3,0.30
-starter-si-40,si,2.8m,4.5,25,3.5m,4.2m,125,16.7n,4.5,20,35,6.67n,4.4n,3.95n,2.7,1.6,1.1,125,1.1,2.6n,842p,88p,20,42.1n,303n,20,0.8,22n,35,800p,500p,1.3,32,150,40,70,280,16,-16,QFN 5x6,0.48
-starter-si-60,si,5.5m,4.5,25,6.87m,8.25m,125,14.8n,4.5,30,27,6.61n,3.6n,3.88n,2.9,1.7,1.2,125,1.2,2.4n,810p,48p,30,58.3n,630n,30,0.8,30n,27,800p,500p,1.4,32,150,60,55,220,20,-20,QFN 5x6,0.62
-starter-si-100,si,11m,4.5,25,13.7m,16.5m,125,13.4n,4.5,50,20,6.77n,2.8n,3.93n,3.1,1.8,1.3,125,1.3,2.3n,810p,22.4p,50,93.2n,1.68u,50,0.8,45n,20,800p,500p,1.2,32,150,100,40,160,20,-20,QFN 5x6,0.95
-starter-gan-30,gan,3.6m,5,25,4.5m,5.76m,125,3.56n,5,15,17,1.1n,550p,627p,2.1,1.2,1.1,125,0.45,550p,106p,22.9p,15,3.34n,18n,15,2.0,0,17,200p,50p,1.1,48,150,30,35,140,6.5,-5,chip-scale 2.2x1.4,0.85
-starter-gan-80,gan,6.5m,5,25,8.12m,10.4m,125,3.76n,5,40,15,1.31n,500p,741p,2.3,1.3,1.2,125,0.45,600p,110p,7.81p,40,9.72n,140n,40,2.0,0,15,200p,50p,1.0,46,150,80,30,120,6.5,-5,chip-scale 3.0x1.8,1.25
+part,technology,rds_on,rds_on_vgs,rds_on_tj,rds_on_max,rds_on2,rds_on2_vgs,rds_on_hot,rds_on_hot_tj,qg,qg_vgs,qg_vds,qg_id,qgs,qgd,qg_th,v_plateau,vgs_th,vgs_th_hot,vgs_th_hot_tj,rg_int,ciss,coss,crss,cap_vds,qoss,eoss,oss_vds,vsd,qrr,qrr_if,l_loop,l_cs,rth_jc,rth_ja,tj_max,vds_max,id_max,id_pulse,vgs_max,vgs_min,package,price
+starter-si-20,si,2.4m,4.5,25,3m,1.87m,10,3.6m,125,14n,4.5,10,30,4.18n,3.2n,2.09n,2.0,1.0,0.5,125,1.0,2.2n,685p,128p,10,17.8n,64.2n,10,0.75,12n,30,600p,400p,2.0,35,150,20,60,240,12,-8,QFN 3.3x3.3,0.30
+starter-si-40,si,2.8m,4.5,25,3.5m,2.18m,10,4.2m,125,16.7n,4.5,20,35,6.67n,4.4n,3.95n,2.7,1.6,1.1,125,1.1,2.6n,842p,88p,20,42.1n,303n,20,0.8,22n,35,800p,500p,1.3,32,150,40,70,280,16,-16,QFN 5x6,0.48
+starter-si-60,si,5.5m,4.5,25,6.87m,4.29m,10,8.25m,125,14.8n,4.5,30,27,6.61n,3.6n,3.88n,2.9,1.7,1.2,125,1.2,2.4n,810p,48p,30,58.3n,630n,30,0.8,30n,27,800p,500p,1.4,32,150,60,55,220,20,-20,QFN 5x6,0.62
+starter-si-100,si,11m,4.5,25,13.7m,8.58m,10,16.5m,125,13.4n,4.5,50,20,6.77n,2.8n,3.93n,3.1,1.8,1.3,125,1.3,2.3n,810p,22.4p,50,93.2n,1.68u,50,0.8,45n,20,800p,500p,1.2,32,150,100,40,160,20,-20,QFN 5x6,0.95
+starter-gan-30,gan,3.6m,5,25,4.5m,4.03m,4,5.76m,125,3.56n,5,15,17,1.1n,550p,627p,2.1,1.2,1.1,125,0.45,550p,106p,22.9p,15,3.34n,18n,15,2.0,0,17,200p,50p,1.1,48,150,30,35,140,6.5,-5,chip-scale 2.2x1.4,0.85
+starter-gan-80,gan,6.5m,5,25,8.12m,7.28m,4,10.4m,125,3.76n,5,40,15,1.31n,500p,741p,2.3,1.3,1.2,125,0.45,600p,110p,7.81p,40,9.72n,140n,40,2.0,0,15,200p,50p,1.0,46,150,80,30,120,6.5,-5,chip-scale 3.0x1.8,1.25
 `
 
 // WriteStarter writes the starter design file (stage.toml) and parts
