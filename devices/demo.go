@@ -12,7 +12,8 @@ import (
 var demoCSV []byte
 
 // Demo returns the built-in demo library (Source "demo"): invented parts
-// from 20 V small-signal silicon to 150 V power silicon and GaN, and two
+// from 20 V small-signal silicon to 150 V power silicon, GaN from 45 V to
+// 700 V, and two
 // SiC parts, for trying swrank without a library of one's own. Its error is
 // a ProblemList, as for Read; the shipped file has no fatal problem.
 func Demo() (*Library, error) {
