@@ -58,8 +58,8 @@ func TestCheckFiles(t *testing.T) {
 			`missing_column.csv:1: qg: missing required column`,
 		}},
 		{"duplicate.csv", 3, []string{
-			`duplicate.csv:4:1: part: "fx30a": duplicate part name: the part on line 2 has the same name (names are compared ignoring case)`,
-			`duplicate.csv:6:1: part: "FX30B": duplicate part name: the part on line 3 has the same name (names are compared ignoring case)`,
+			`duplicate.csv:4:1: part: "EMBER-A": duplicate part name: the part on line 2 has the same name (names are compared ignoring case)`,
+			`duplicate.csv:6:1: part: "ember-b": duplicate part name: the part on line 3 has the same name (names are compared ignoring case)`,
 		}},
 		{"duplicate_column.csv", 1, []string{
 			`duplicate_column.csv:1:16: qg: column given twice (first as column 9)`,
@@ -94,8 +94,8 @@ func TestCheckFiles(t *testing.T) {
 			`ragged.csv:4:16: wrong number of fields: the row has 17, the header 15`,
 		}},
 		{"quotes.csv", 2, []string{
-			`quotes.csv:3: byte 3 of the line: bare " in non-quoted-field`,
-			`quotes.csv:5: byte 19 of the line: extraneous or missing " in quoted-field`,
+			`quotes.csv:3: byte 6 of the line: bare " in non-quoted-field`,
+			`quotes.csv:5: byte 22 of the line: extraneous or missing " in quoted-field`,
 		}},
 		{"nonphysical.csv", 0, []string{
 			`nonphysical.csv:2:7: rds_on: -4.500 mΩ: must be positive`,
@@ -191,7 +191,7 @@ func TestBOMCommentsCRLF(t *testing.T) {
 		}
 		p := lib.Parts[1]
 		// 9 mOhm, 5.5 nC, 220 pF: SI prefixes m, n, p (BIPM SI brochure, table 7).
-		if p.Name != "FX30B" || p.Technology != Silicon || math.Abs(float64(p.RdsOn)-9e-3) > 1e-18 ||
+		if p.Name != "ember-b" || p.Technology != Silicon || math.Abs(float64(p.RdsOn)-9e-3) > 1e-18 ||
 			math.Abs(float64(p.Qg)-5.5e-9) > 1e-21 || !p.Coss.OK || math.Abs(float64(p.Coss.V)-220e-12) > 1e-24 {
 			t.Errorf("%s: %+v", d.name, p)
 		}
@@ -209,7 +209,7 @@ func TestProblemFields(t *testing.T) {
 			t.Fatalf("%s: %v", d.name, probs)
 		}
 		p := probs[1]
-		want := Problem{File: "bad_unit.csv", Line: 3, Column: 14, Field: "coss", Part: "FX30B", Text: "3 nC", Fatal: true}
+		want := Problem{File: "bad_unit.csv", Line: 3, Column: 14, Field: "coss", Part: "ember-b", Text: "3 nC", Fatal: true}
 		got := *p
 		got.Err = nil
 		if got != want {
@@ -279,7 +279,7 @@ func TestScan(t *testing.T) {
 		names = append(names, p.Name)
 		return nil
 	})
-	if !slices.Equal(names, []string{"FX30A", "FX30B", "GX100"}) || len(probs) != 2 || hdr.Line != 1 || len(hdr.Columns) != 15 {
+	if !slices.Equal(names, []string{"ember-a", "ember-b", "cinder-a"}) || len(probs) != 2 || hdr.Line != 1 || len(hdr.Columns) != 15 {
 		t.Errorf("names %q, problems %v, header %+v", names, probs, hdr)
 	}
 	stop := errors.New("enough")
@@ -296,7 +296,7 @@ func TestScan(t *testing.T) {
 // validPart is an invented, consistent 30 V part built in code.
 func validPart() Part {
 	return Part{
-		Name: "CODE-1", VdsMax: 30, IdMax: 40, VgsMax: 20, VgsTh: 1.8,
+		Name: "row-one", VdsMax: 30, IdMax: 40, VgsMax: 20, VgsTh: 1.8,
 		RdsOn: 4.5e-3, RdsOnVgs: 10, Qg: 12e-9, QgVgs: 10,
 		Qgs: q.Some[q.Charge](3.5e-9), Qgd: q.Some[q.Charge](2.5e-9), VPlateau: q.Some[q.Voltage](3),
 		Coss: q.Some[q.Capacitance](450e-12), CapVds: q.Some[q.Voltage](15),
@@ -312,8 +312,8 @@ func TestValidate(t *testing.T) {
 		cause error
 	}{
 		{"valid", func(p *Part) {}, nil, nil},
-		{"nan", func(p *Part) { p.RdsOn = q.Resistance(math.NaN()) }, []string{`part "CODE-1": rds_on: not a finite number`}, q.ErrNotFinite},
-		{"inf opt", func(p *Part) { p.Ciss = q.Some(q.Capacitance(math.Inf(1))) }, []string{`part "CODE-1": ciss: not a finite number`}, q.ErrNotFinite},
+		{"nan", func(p *Part) { p.RdsOn = q.Resistance(math.NaN()) }, []string{`part "row-one": rds_on: not a finite number`}, q.ErrNotFinite},
+		{"inf opt", func(p *Part) { p.Ciss = q.Some(q.Capacitance(math.Inf(1))) }, []string{`part "row-one": ciss: not a finite number`}, q.ErrNotFinite},
 		{"no name", func(p *Part) { p.Name = " " }, []string{`part: empty part name`}, ErrMissingValue},
 		{"tr tf suffice", func(p *Part) {
 			p.Qgs, p.Qgd, p.VPlateau = q.Opt[q.Charge]{}, q.Opt[q.Charge]{}, q.Opt[q.Voltage]{}
@@ -330,24 +330,24 @@ func TestValidate(t *testing.T) {
 		{"gan qrr zero", func(p *Part) { p.Technology = GaN; p.Qrr = q.Some[q.Charge](0) }, nil, nil},
 		{"tj_max 250 ok", func(p *Part) { p.TjMax = q.Some[q.Temperature](250) }, nil, nil},
 		{"tj_max 25", func(p *Part) { p.TjMax = q.Some[q.Temperature](25) },
-			[]string{`part "CODE-1": tj_max: 25 °C: outside 100–250 °C`}, ErrImplausible},
+			[]string{`part "row-one": tj_max: 25 °C: outside 100–250 °C`}, ErrImplausible},
 		{"rds_on in display units", func(p *Part) { p.RdsOn = 4.5 },
-			[]string{`part "CODE-1": rds_on: 4.5 Ω; at id_max 40 A it would drop 180 V, more than a quarter of vds_max 30 V; was 4.5 mΩ meant?`}, ErrImplausible},
+			[]string{`part "row-one": rds_on: 4.5 Ω; at id_max 40 A it would drop 180 V, more than a quarter of vds_max 30 V; was 4.5 mΩ meant?`}, ErrImplausible},
 		{"qg in display units", func(p *Part) { p.Qg = 12 },
-			[]string{`part "CODE-1": qg: 12 C: outside 100 pC–5 µC; was 12 nC meant?`}, ErrImplausible},
+			[]string{`part "row-one": qg: 12 C: outside 100 pC–5 µC; was 12 nC meant?`}, ErrImplausible},
 		{"hot at same temperature is not checked", func(p *Part) {
 			p.RdsHot, p.RdsHotTj = q.Some[q.Resistance](4e-3), q.Some[q.Temperature](25)
 		}, nil, nil},
 		{"second gate point above", func(p *Part) {
 			p.RdsOnVgs = 4.5
 			p.RdsOn2, p.RdsOn2Vgs = q.Some[q.Resistance](5e-3), q.Some[q.Voltage](10)
-		}, []string{`part "CODE-1": rds_on2: 5.000 mΩ at 10.00 V against rds_on 4.500 mΩ at 4.500 V: a higher gate voltage must give a lower or equal on-resistance`}, ErrInconsistent},
+		}, []string{`part "row-one": rds_on2: 5.000 mΩ at 10.00 V against rds_on 4.500 mΩ at 4.500 V: a higher gate voltage must give a lower or equal on-resistance`}, ErrInconsistent},
 		{"eoss_loss needs swing", func(p *Part) { p.EossLoss = q.Some[q.Energy](1e-9) },
-			[]string{`part "CODE-1": eoss_loss_vds: needed by eoss_loss (its test condition)`}, ErrMissingValue},
+			[]string{`part "row-one": eoss_loss_vds: needed by eoss_loss (its test condition)`}, ErrMissingValue},
 		{"qrr_hot needs tj", func(p *Part) { p.QrrHot = q.Some[q.Charge](30e-9) },
-			[]string{`part "CODE-1": qrr_hot_tj: needed by qrr_hot (its test condition)`}, ErrMissingValue},
+			[]string{`part "row-one": qrr_hot_tj: needed by qrr_hot (its test condition)`}, ErrMissingValue},
 		{"eoss needs oss_vds", func(p *Part) { p.Eoss = q.Some[q.Energy](30e-9) },
-			[]string{`part "CODE-1": oss_vds: needed by eoss (its test condition)`}, ErrMissingValue},
+			[]string{`part "row-one": oss_vds: needed by eoss (its test condition)`}, ErrMissingValue},
 	}
 	for _, tt := range tests {
 		p := validPart()

@@ -65,12 +65,25 @@ func unknownColumn(name string, asNotes bool) error {
 }
 
 // closestColumns returns the known column names nearest to name by edit
-// distance (insertions, deletions, substitutions and swaps of adjacent
-// characters), in Part's order, when they are near enough to be a typing
-// slip: at most one edit for names of up to five characters, two up to
-// eight, three beyond.
+// distance, in Part's order, when they are near enough to be a typing slip
+// (NearestNames).
 func closestColumns(name string) []string {
-	a := []rune(name)
+	known := make([]string, len(partSchema.cols))
+	for i := range partSchema.cols {
+		known[i] = partSchema.cols[i].name
+	}
+	return NearestNames(name, known)
+}
+
+// NearestNames returns the names of known nearest to name by edit distance
+// (insertions, deletions, substitutions and swaps of adjacent characters,
+// ignoring case), in known's order, when they are near enough to be a
+// typing slip: at most one edit for names of up to five characters, two up
+// to eight, three beyond. A name equal to name (ignoring case) is not
+// returned: it is no suggestion. It serves the suggestions for columns,
+// part names and flags.
+func NearestNames(name string, known []string) []string {
+	a := []rune(strings.ToLower(name))
 	limit := 1
 	switch {
 	case len(a) > 8:
@@ -80,9 +93,9 @@ func closestColumns(name string) []string {
 	}
 	best := limit + 1
 	var out []string
-	for i := range partSchema.cols {
-		c := partSchema.cols[i].name
-		switch d := editDistance(a, []rune(c)); {
+	for _, c := range known {
+		switch d := editDistance(a, []rune(strings.ToLower(c))); {
+		case d == 0:
 		case d < best:
 			best, out = d, append(out[:0], c)
 		case d == best:

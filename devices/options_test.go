@@ -87,7 +87,7 @@ func TestUnknownAsNotes(t *testing.T) {
 		names = append(names, p.Name)
 		return nil
 	})
-	if probs.Fatal() || len(probs) != 3 || !slices.Equal(names, []string{"FX30A", "FX30B"}) || len(hdr.Unknown) != 3 {
+	if probs.Fatal() || len(probs) != 3 || !slices.Equal(names, []string{"ember-a", "ember-b"}) || len(hdr.Unknown) != 3 {
 		t.Errorf("Scan: names %q, problems %v, header %+v", names, probs, hdr)
 	}
 	if _, err := notes.Load("testdata/parts/no_such_file.csv"); !errors.Is(err, os.ErrNotExist) {

@@ -15,6 +15,7 @@ import (
 
 	"swrank/devices"
 	"swrank/devices/synth"
+	"swrank/rank"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
 )
@@ -105,10 +106,12 @@ func BenchmarkEndToEnd(b *testing.B) {
 					b.Fatal(err)
 				}
 				t1 := time.Now()
-				rep, err := rankReader(&in, &pt, bytes.NewReader(data), "bench", io.Discard)
+				best := rank.Best{N: in.top}
+				src, err := rankReader(&in, &pt, bytes.NewReader(data), "bench", &best, nil, io.Discard)
 				if err != nil {
 					b.Fatal(err)
 				}
+				rep := rankingOf(&in, &pt, &best, src)
 				if err := rep.Write(io.Discard, "table"); err != nil {
 					b.Fatal(err)
 				}

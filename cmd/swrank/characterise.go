@@ -14,7 +14,7 @@ import (
 
 const characteriseSynopsis = `characterise MODEL.lib --vds-max V --id-max A [--subckt NAME --pins "d g s"] [--name PART] [--i-test A] [--append FILE.csv] [--ngspice PATH] [--timeout D]`
 
-func runCharacterise(args []string, stdout, stderr io.Writer) error {
+func runCharacterise(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var sf simFlags
 	var subckt, pins, name, appendTo string
 	var rt spice.Ratings
@@ -37,18 +37,18 @@ func runCharacterise(args []string, stdout, stderr io.Writer) error {
 	}
 	if fs.NArg() == 0 {
 		fs.Usage()
-		return fmt.Errorf("%w: characterise takes one model file", errUsage)
+		return usagef("characterise takes one model file")
 	}
 	model := fs.Arg(0)
 	if err := parse(fs, fs.Args()[1:]); err != nil {
 		return err
 	}
 	if fs.NArg() > 0 {
-		return fmt.Errorf("%w: characterise takes one model file (got also %q)", errUsage, fs.Args())
+		return usagef("characterise takes one model file (got also %q)", fs.Args())
 	}
 	rt.VdsMax, rt.IdMax, rt.ITest, rt.VgsMax, rt.Vgs2 = float64(vdsMax), float64(idA), float64(itestA), float64(vgsMax), float64(vgs2)
 	if !(rt.VdsMax > 0) || !(rt.IdMax > 0) {
-		return fmt.Errorf("%w: --vds-max and --id-max are required (a model file holds no ratings)", errUsage)
+		return usagef("--vds-max and --id-max are required (a model file holds no ratings)")
 	}
 	dev, err := spice.LoadDevice(model, subckt, pins)
 	if err != nil {

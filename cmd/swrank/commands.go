@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"slices"
 	"strings"
 
 	"swrank/devices"
@@ -19,23 +20,71 @@ import (
 	"swrank/rank/stage"
 )
 
-const rankSynopsis = `rank [--parts FILE.csv | --demo] [--topology buck|boost|custom] [stage flags] --vdrive V [driver, thermal and output flags]`
+const rankSynopsis = `rank [--parts FILE.csv ... | --demo | --design FILE.toml] [--topology buck|boost|custom] [stage flags] --vdrive V [driver, thermal and output flags]`
+
+// checkSources checks the library flags: --demo or one or more --parts,
+// standard input ("-") at most once.
+func (in *inputs) checkSources() error {
+	switch {
+	case in.demo && len(in.parts) > 0:
+		return usagef("give --parts or --demo, not both")
+	case !in.demo && len(in.parts) == 0:
+		return usagef("no parts library: give --parts FILE.csv or --demo")
+	}
+	for i, p := range in.parts {
+		if slices.Contains(in.parts[:i], p) {
+			if p == "-" {
+				return usagef("--parts - given twice: standard input can be read once")
+			}
+			return usagef("--parts %s given twice", p)
+		}
+	}
+	return nil
+}
+
+// openParts opens one --parts source: the file at path, or standard input
+// for "-" (named "stdin" in messages). The caller closes it.
+func openParts(path string, stdin io.Reader) (io.ReadCloser, string, error) {
+	if path == "-" {
+		return io.NopCloser(stdin), "stdin", nil
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, "", fmt.Errorf("parts library: %w", err)
+	}
+	return f, path, nil
+}
+
+// readLibrary reads the parts library the flags name: the demo, or every
+// --parts source merged (a part name held by two of them is an error
+// naming both).
+func readLibrary(in *inputs, stdin io.Reader) (*devices.Library, error) {
+	if err := in.checkSources(); err != nil {
+		return nil, err
+	}
+	if in.demo {
+		return devices.Demo()
+	}
+	libs := make([]*devices.Library, 0, len(in.parts))
+	for _, path := range in.parts {
+		r, name, err := openParts(path, stdin)
+		if err != nil {
+			return nil, err
+		}
+		lib, err := in.read.Read(r, name)
+		r.Close()
+		if err != nil {
+			return nil, err
+		}
+		libs = append(libs, lib)
+	}
+	return devices.Merge(libs...)
+}
 
 // loadLibrary reads the parts library named by the flags and prepares
 // every part for evaluation. Warnings go to stderr.
-func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []fit.Device, error) {
-	var lib *devices.Library
-	var err error
-	switch {
-	case in.demo && in.parts != "":
-		return nil, nil, errors.New("give --parts or --demo, not both")
-	case in.demo:
-		lib, err = devices.Demo()
-	case in.parts != "":
-		lib, err = in.read.Load(in.parts)
-	default:
-		return nil, nil, errors.New("no parts library: give --parts FILE.csv or --demo")
-	}
+func loadLibrary(in *inputs, stdin io.Reader, stderr io.Writer) (*devices.Library, []fit.Device, error) {
+	lib, err := readLibrary(in, stdin)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -53,45 +102,23 @@ func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []fit.Device, 
 	return lib, devs, nil
 }
 
-// findDevice returns the device named name (case-insensitive).
+// findDevice returns the device named name (case-insensitive); the error
+// suggests the nearest names in the library.
 func findDevice(devs []fit.Device, name string) (*fit.Device, error) {
+	names := make([]string, len(devs))
 	for i := range devs {
 		if strings.EqualFold(devs[i].Part.Name, name) {
 			return &devs[i], nil
 		}
+		names[i] = devs[i].Part.Name
 	}
-	return nil, fmt.Errorf("no part named %q in the library", name)
+	return nil, fmt.Errorf("no part named %q in the library%s", name, didYouMean(devices.NearestNames(name, names), ""))
 }
 
-// prepare parses the shared inputs and resolves the operating point.
-func prepare(in *inputs, stderr io.Writer) (*stage.Point, []fit.Device, *fit.Device, *devices.Library, error) {
-	if err := report.CheckFormat(in.format); err != nil {
-		return nil, nil, nil, nil, err
-	}
-	pt, err := in.stage.Resolve()
-	if err != nil {
-		return nil, nil, nil, nil, fmt.Errorf("operating point: %w", err)
-	}
-	lib, devs, err := loadLibrary(in, stderr)
-	if err != nil {
-		return nil, nil, nil, nil, err
-	}
-	var partner *fit.Device
-	if in.partner != "" {
-		if !pt.HasSync || pt.Stage.Topology == stage.ClassD {
-			return nil, nil, nil, nil, errors.New("--partner needs a synchronous buck or boost stage (class D ranks the part in both places)")
-		}
-		if partner, err = findDevice(devs, in.partner); err != nil {
-			return nil, nil, nil, nil, fmt.Errorf("--partner: %w", err)
-		}
-	}
-	return &pt, devs, partner, lib, nil
-}
-
-func runRank(args []string, stdout, stderr io.Writer) error {
+func runRank(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var in inputs
 	var dec design.Decisions // design file, profiles, paralleling
-	fs := newFlagSet("rank", rankSynopsis, stderr)
+	fs := newFlagSet("rank", rankSynopsis, stdout)
 	in.register(fs)
 	in.registerOutput(fs)
 	registerDecisions(fs, &dec)
@@ -99,28 +126,40 @@ func runRank(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if fs.NArg() > 0 {
-		return fmt.Errorf("unexpected arguments %q (flags come as --name value)", fs.Args())
+		return usagef("rank takes no arguments, got %q (flags come as --name value)", fs.Args())
 	}
 	if err := applyDesign(fs, &in, &dec); err != nil {
 		return err
 	}
 	if dec.OwnPath() {
-		return runRankDecisions(&in, &dec, stdout, stderr)
+		return runRankDecisions(&in, &dec, stdin, stdout, stderr)
 	}
 	if in.partner != "" {
-		pt, devs, partner, lib, err := prepare(&in, stderr)
+		plan, devs, lib, err := preparePlan(&in, &dec, stdin, stderr)
 		if err != nil {
 			return err
 		}
-		res := rank.Rank(pt, devs, partner, rank.Options{})
-		rep := report.Ranking{Point: pt, Source: lib.Source, Parts: len(lib.Parts), Results: res, All: in.all, Top: in.top}
-		return writeRanking(stdout, in.format, &rep, partner)
+		res := rank.Rank(plan.Point, devs, plan.Partner, rank.Options{})
+		rep := report.Ranking{Point: plan.Point, Source: lib.source, Parts: len(devs), Results: res, All: in.all, Top: in.top}
+		if err := writeRanking(stdout, in.format, &rep, plan.Partner); err != nil {
+			return err
+		}
+		if len(res) == 0 || res[0].Screened() { // passing parts rank first
+			return errNoPass
+		}
+		return nil
 	}
-	rep, err := rankStream(&in, stderr)
+	rep, err := rankStream(&in, stdin, stderr)
 	if err != nil {
 		return err
 	}
-	return writeRanking(stdout, in.format, &rep, nil)
+	if err := writeRanking(stdout, in.format, &rep, nil); err != nil {
+		return err
+	}
+	if rep.Parts == rep.Screened {
+		return errNoPass
+	}
+	return nil
 }
 
 // writeRanking writes a plain ranking with the worst case of its leaders
@@ -136,34 +175,59 @@ func writeRanking(w io.Writer, format string, rep *report.Ranking, partner *fit.
 
 // rankStream ranks a library without holding it: each part is read,
 // prepared, evaluated and offered to a rank.Best that keeps the leaders.
-func rankStream(in *inputs, stderr io.Writer) (report.Ranking, error) {
+// Several --parts sources are read in turn into the same ranking.
+func rankStream(in *inputs, stdin io.Reader, stderr io.Writer) (report.Ranking, error) {
 	if err := report.CheckFormat(in.format); err != nil {
+		return report.Ranking{}, err
+	}
+	if err := in.checkSources(); err != nil {
 		return report.Ranking{}, err
 	}
 	pt, err := in.stage.Resolve()
 	if err != nil {
 		return report.Ranking{}, fmt.Errorf("operating point: %w", err)
 	}
-	switch {
-	case in.demo && in.parts != "":
-		return report.Ranking{}, errors.New("give --parts or --demo, not both")
-	case in.demo:
-		return rankReader(in, &pt, bytes.NewReader(devices.DemoCSV()), "demo", stderr)
-	case in.parts != "":
-		f, err := os.Open(in.parts)
+	best := rank.Best{N: in.top}
+	if in.demo {
+		src, err := rankReader(in, &pt, bytes.NewReader(devices.DemoCSV()), "demo", &best, nil, stderr)
+		return rankingOf(in, &pt, &best, src), err
+	}
+	var names *devices.PartNames
+	if len(in.parts) > 1 {
+		names = new(devices.PartNames)
+	}
+	var sources []string
+	for _, path := range in.parts {
+		r, name, err := openParts(path, stdin)
 		if err != nil {
 			return report.Ranking{}, err
 		}
-		defer f.Close()
-		return rankReader(in, &pt, bufio.NewReaderSize(f, 1<<16), in.parts, stderr)
+		src, err := rankReader(in, &pt, bufio.NewReaderSize(r, 1<<16), name, &best, names, stderr)
+		r.Close()
+		if err != nil {
+			return report.Ranking{}, err
+		}
+		sources = append(sources, src)
 	}
-	return report.Ranking{}, errors.New("no parts library: give --parts FILE.csv or --demo")
+	return rankingOf(in, &pt, &best, strings.Join(sources, ", ")), nil
 }
 
-// rankReader ranks the library read from r at pt.
-func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io.Writer) (report.Ranking, error) {
-	best := rank.Best{N: in.top}
+// rankingOf is the report of the ranking best holds.
+func rankingOf(in *inputs, pt *stage.Point, best *rank.Best, source string) report.Ranking {
+	return report.Ranking{Point: pt, Source: source, Parts: best.Passed + best.Screened, Results: best.Results(),
+		Screened: best.Screened, All: in.all, Top: in.top}
+}
+
+// rankReader ranks the library read from r at pt into best and returns
+// its source name. With names, a part name another source held is an
+// error.
+func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, best *rank.Best, names *devices.PartNames, stderr io.Writer) (string, error) {
 	hdr, probs := in.read.Scan(r, name, func(p *devices.Part) error {
+		if names != nil {
+			if err := names.Add(p.Name, name); err != nil {
+				return err
+			}
+		}
 		d, err := fit.Prepare(p)
 		if err != nil {
 			return err
@@ -173,31 +237,47 @@ func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io
 		return nil
 	})
 	if probs.Fatal() {
-		return report.Ranking{}, probs.Fatals()
+		return "", probs.Fatals()
 	}
 	for _, w := range probs.Warnings() {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
-	return report.Ranking{Point: pt, Source: hdr.Source, Parts: best.Passed + best.Screened, Results: best.Results(),
-		Screened: best.Screened, All: in.all, Top: in.top}, nil
+	return hdr.Source, nil
 }
 
-func runExplain(args []string, stdout, stderr io.Writer) error {
+const explainSynopsis = `explain PART [every flag of rank: --parts FILE.csv | --demo | --design FILE.toml, stage, driver, thermal flags] [--format table|json]`
+
+func runExplain(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var in inputs
-	fs := newFlagSet("explain", "explain [same flags as rank] PART", stderr)
+	var dec design.Decisions
+	fs := newFlagSet("explain", explainSynopsis, stdout)
 	in.register(fs)
-	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table (text) or json")
+	in.registerOutput(fs)
+	fs.Lookup("format").Usage = "output `FORMAT`: table (text) or json"
+	registerDecisions(fs, &dec)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
 	if fs.NArg() != 1 {
-		fs.Usage()
-		return fmt.Errorf("%w: explain takes one part name", errUsage)
+		return usagef("explain takes one part name, got %d", fs.NArg())
 	}
 	if in.format == "csv" || in.format == "markdown" {
 		return fmt.Errorf("explain prints table (text) or json, not %s", in.format)
 	}
-	pt, devs, partner, _, err := prepare(&in, stderr)
+	if err := applyDesign(fs, &in, &dec); err != nil {
+		return err
+	}
+	if dec.Multi() {
+		return errors.New("explain works at one operating point: drop --weighting or the design's [[point]] tables (rank ranks over a profile)")
+	}
+	counts, auto, err := dec.ParallelCounts()
+	if err != nil {
+		return err
+	}
+	if auto {
+		return errors.New("explain takes --parallel N, not auto (rank --parallel auto finds the count; explain it with --parallel N)")
+	}
+	plan, devs, _, err := preparePlan(&in, &dec, stdin, stderr)
 	if err != nil {
 		return err
 	}
@@ -205,31 +285,43 @@ func runExplain(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	if n := counts[len(counts)-1]; n > 1 {
+		dn, err := decide.Parallel(dev, n)
+		if err != nil {
+			return err
+		}
+		dev = &dn
+	}
 	var tr evaluate.Trace
-	r := evaluate.Evaluate(pt, dev, partner, &tr)
-	return report.WriteExplain(stdout, in.format, pt, &r, &tr)
+	r := evaluate.Evaluate(plan.Point, dev, plan.Partner, &tr)
+	if err := report.WriteExplain(stdout, in.format, plan.Point, &r, &tr); err != nil {
+		return err
+	}
+	if r.Screened() {
+		return errNoPass
+	}
+	return nil
 }
 
-func runCheck(args []string, stdout, stderr io.Writer) error {
-	fs := newFlagSet("check", "check [--notes-columns] FILE.csv ...", stderr)
+func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := newFlagSet("check", "check [--notes-columns] FILE.csv ... (\"-\": standard input)", stdout)
 	var opts devices.ReadOptions
 	fs.BoolVar(&opts.UnknownAsNotes, "notes-columns", false, "accept columns swrank does not know as your own notes (default: an error naming the closest known column)")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
 	if fs.NArg() == 0 {
-		fs.Usage()
-		return fmt.Errorf("%w: check takes one or more files", errUsage)
+		return usagef("check takes one or more files")
 	}
 	fatal := 0
 	for _, path := range fs.Args() {
-		f, err := os.Open(path)
+		r, name, err := openParts(path, stdin)
 		if err != nil {
 			return err
 		}
-		lib, probs := opts.Check(f, path)
-		f.Close()
-		if err := report.WriteCheck(stdout, path, lib, probs); err != nil {
+		lib, probs := opts.Check(r, name)
+		r.Close()
+		if err := report.WriteCheck(stdout, name, lib, probs); err != nil {
 			return err
 		}
 		fatal += len(probs.Fatals())

@@ -14,14 +14,14 @@ import (
 	"swrank/rank/report"
 )
 
-const compareSynopsis = `compare --fitted PART [CANDIDATE ...] [--parts FILE.csv | --demo | --design FILE.toml] [stage, driver, thermal and output flags as for rank]`
+const compareSynopsis = `compare --fitted PART [CANDIDATE ...] [--parts FILE.csv ... | --demo | --design FILE.toml] [stage, driver, thermal and output flags as for rank]`
 
 // runCompare judges candidates against the part already fitted.
-func runCompare(args []string, stdout, stderr io.Writer) error {
+func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var in inputs
 	var dec design.Decisions
 	var fitted string
-	fs := newFlagSet("compare", compareSynopsis, stderr)
+	fs := newFlagSet("compare", compareSynopsis, stdout)
 	in.register(fs)
 	in.registerOutput(fs)
 	registerDecisions(fs, &dec)
@@ -33,8 +33,7 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if fitted == "" {
-		fs.Usage()
-		return fmt.Errorf("%w: compare needs --fitted PART", errUsage)
+		return usagef("compare needs --fitted PART")
 	}
 	if dec.Multi() {
 		return errors.New("compare works at one operating point: drop --weighting or the design's [[point]] tables (rank ranks over a profile)")
@@ -42,7 +41,7 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 	if dec.Paralleled() {
 		return errors.New("compare judges single devices: drop --parallel (rank --parallel shows paralleled parts)")
 	}
-	plan, devs, lib, err := preparePlan(&in, &dec, stderr)
+	plan, devs, lib, err := preparePlan(&in, &dec, stdin, stderr)
 	if err != nil {
 		return err
 	}
@@ -82,5 +81,11 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 		}
 		cr.Candidates = append(cr.Candidates, decide.CompareParts(&cr.Fitted, &res[i], pout))
 	}
-	return cr.Write(stdout, in.format)
+	if err := cr.Write(stdout, in.format); err != nil {
+		return err
+	}
+	if cr.Fitted.Screened() && !slices.ContainsFunc(res, func(r evaluate.Result) bool { return !r.Screened() }) {
+		return errNoPass
+	}
+	return nil
 }

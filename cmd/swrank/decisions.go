@@ -9,12 +9,13 @@ import (
 	"swrank/rank/design"
 	"swrank/rank/fit"
 	"swrank/rank/report"
+	"swrank/rank/stage"
 )
 
 // runRankDecisions is rank with several points, paralleling or valley
 // switching.
-func runRankDecisions(in *inputs, dec *design.Decisions, stdout, stderr io.Writer) error {
-	plan, devs, lib, err := preparePlan(in, dec, stderr)
+func runRankDecisions(in *inputs, dec *design.Decisions, stdin io.Reader, stdout, stderr io.Writer) error {
+	plan, devs, lib, err := preparePlan(in, dec, stdin, stderr)
 	if err != nil {
 		return err
 	}
@@ -31,7 +32,15 @@ func runRankDecisions(in *inputs, dec *design.Decisions, stdout, stderr io.Write
 	}
 	dr := report.Decisions{Plan: plan, Candidates: cs, Source: lib.source, Parts: len(devs), All: in.all, Top: in.top,
 		Parallel: len(counts) > 1, Auto: auto}
-	return dr.Write(stdout, in.format)
+	if err := dr.Write(stdout, in.format); err != nil {
+		return err
+	}
+	for i := range cs {
+		if !cs[i].Chosen.Screened() {
+			return nil
+		}
+	}
+	return errNoPass
 }
 
 // libInfo is what preparePlan loaded.
@@ -39,7 +48,7 @@ type libInfo struct{ source string }
 
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
-func preparePlan(in *inputs, dec *design.Decisions, stderr io.Writer) (*decide.Plan, []fit.Device, libInfo, error) {
+func preparePlan(in *inputs, dec *design.Decisions, stdin io.Reader, stderr io.Writer) (*decide.Plan, []fit.Device, libInfo, error) {
 	if err := report.CheckFormat(in.format); err != nil {
 		return nil, nil, libInfo{}, err
 	}
@@ -51,13 +60,13 @@ func preparePlan(in *inputs, dec *design.Decisions, stderr io.Writer) (*decide.P
 	if plan.Profile, err = dec.Profile(in.stage); err != nil {
 		return nil, nil, libInfo{}, err
 	}
-	lib, devs, err := loadLibrary(in, stderr)
+	lib, devs, err := loadLibrary(in, stdin, stderr)
 	if err != nil {
 		return nil, nil, libInfo{}, err
 	}
 	if in.partner != "" {
-		if !pt.HasSync {
-			return nil, nil, libInfo{}, errors.New("--partner needs a synchronous buck or boost stage")
+		if !pt.HasSync || pt.Stage.Topology == stage.ClassD {
+			return nil, nil, libInfo{}, errors.New("--partner needs a synchronous buck or boost stage (class D ranks the part in both places)")
 		}
 		if plan.Partner, err = findDevice(devs, in.partner); err != nil {
 			return nil, nil, libInfo{}, fmt.Errorf("--partner: %w", err)

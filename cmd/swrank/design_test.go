@@ -199,7 +199,9 @@ func TestRankDesignPoints(t *testing.T) {
 	}
 }
 
-// rank --parallel auto on hand case D of the team notes: P(N) = 1.6/N +
+// rank --parallel auto, a hand calculation from P(N) = I_rms²·R₁/N +
+// N·f·E₁ (common practice for identical paralleled devices), with I_rms
+// 20 A, R₁ 4 mΩ, E₁ 2 µJ at 200 kHz: P(N) = 1.6/N +
 // 0.4·N W → 2.0, 1.6, 1.733, 2.0 for N = 1..4, N_opt 2; and the other
 // parts by the same model (lin-a 0.8/N + 0.4·N: a tie at 1 and 2 goes to
 // 1; lin-b 1.6/N + 0.2·N: 3; lin-c 3.2/N + 0.05·N: 4, the limit).

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -55,6 +56,24 @@ func (f opt[Q]) Set(s string) error {
 	return nil
 }
 
+// list is a flag.Value that collects every value given, in order.
+type list struct{ p *[]string }
+
+func (f list) String() string {
+	if f.p == nil {
+		return ""
+	}
+	return strings.Join(*f.p, ", ")
+}
+
+func (f list) Set(s string) error {
+	if strings.TrimSpace(s) == "" {
+		return errors.New("want a file name (or - for standard input)")
+	}
+	*f.p = append(*f.p, s)
+	return nil
+}
+
 // enum is a flag.Value that parses with fn.
 type enum[T any] struct {
 	p     *T
@@ -94,7 +113,9 @@ func short[T ~float64](v T) string {
 
 // inputs are the flags shared by rank and explain.
 type inputs struct {
-	parts string
+	// parts holds the --parts sources in the order given ("-": standard
+	// input); their parts are ranked together.
+	parts []string
 	// read holds the library-reading options (--notes-columns).
 	read    devices.ReadOptions
 	demo    bool
@@ -107,7 +128,7 @@ type inputs struct {
 
 // register registers the library and operating-point flags on fs.
 func (in *inputs) register(fs *flag.FlagSet) {
-	fs.StringVar(&in.parts, "parts", "", "parts library `FILE.csv` (one row per part)")
+	fs.Var(list{&in.parts}, "parts", "parts library `FILE.csv` (one row per part; give it again to rank several libraries together; - reads standard input)")
 	fs.BoolVar(&in.demo, "demo", false, "use the built-in demo library instead of --parts")
 	fs.BoolVar(&in.read.UnknownAsNotes, "notes-columns", false, "accept columns swrank does not know as your own notes (default: an error naming the closest known column)")
 	fs.StringVar(&in.partner, "partner", "", "`PART` filling the other place (default: the ranked part itself)")

@@ -126,20 +126,20 @@ func goldenCases() []goldenCase {
 	add(formats("rank_design_stage_weighting", "rank", cat(gpStage, []string{"--weighting", "10%:0.2,50%:0.5,100%:0.3"}), "table")...)
 
 	// explain: a part at points over the topologies.
-	add(formats("explain_buck12_quartz-40", "explain", cat(gpBuck12, []string{"quartz-40"}), "table", "json")...)
+	add(formats("explain_buck12_quartz-45", "explain", cat(gpBuck12, []string{"quartz-45"}), "table", "json")...)
 	add(formats("explain_control_basalt-40", "explain", cat(gpBuckCtrl, []string{"basalt-40"}), "table")...)
 	add(formats("explain_boost_diode_granite-80", "explain", cat(gpBoostDiode, []string{"granite-80"}), "table", "json")...)
-	add(formats("explain_class_e_quartz-100", "explain", cat(gpClassE, []string{"quartz-100"}), "table", "json")...)
-	add(formats("explain_hand_a", "explain", cat(gpHandA, []string{"HAND-A"}), "table")...)
+	add(formats("explain_class_e_quartz-90", "explain", cat(gpClassE, []string{"quartz-90"}), "table", "json")...)
+	add(formats("explain_hand_a", "explain", cat(gpHandA, []string{"hand-a"}), "table")...)
 
 	// compare: the fitted part against named candidates, or against all.
-	add(formats("compare_buck12", "compare", cat(gpBuck12, []string{"--fitted", "basalt-40", "quartz-40", "slate-30-lo"}), allFormats...)...)
+	add(formats("compare_buck12", "compare", cat(gpBuck12, []string{"--fitted", "basalt-40", "quartz-45", "slate-30-lo"}), allFormats...)...)
 	add(formats("compare_buck12_all", "compare", cat(gpBuck12, []string{"--fitted", "basalt-40"}), "table")...)
 	add(formats("compare_design_stage", "compare", cat(gpStage, []string{"--fitted", "lin-b", "lin-a", "lin-c"}), "table", "json")...)
 
 	// sweep over fsw and iout, and a plot.
 	add(formats("sweep_fsw_top3", "sweep", cat(gpBuck12, []string{"--var", "fsw", "--from", "100k", "--to", "2M", "--steps", "6", "--top", "3"}), allFormats...)...)
-	add(formats("sweep_iout_components", "sweep", cat(gpBuck12, []string{"--var", "iout", "--from", "1", "--to", "20", "--steps", "5", "--components", "quartz-40", "basalt-40"}), "table", "csv")...)
+	add(formats("sweep_iout_components", "sweep", cat(gpBuck12, []string{"--var", "iout", "--from", "1", "--to", "20", "--steps", "5", "--components", "quartz-45", "basalt-40"}), "table", "csv")...)
 	add(goldenCase{name: "sweep_fsw_linear_plot",
 		args: cat([]string{"sweep"}, gpLinear, []string{"--var", "fsw", "--from", "10k", "--to", "1M", "--steps", "9", "--plot", tmpMark + "/loss.svg", "lin-a", "lin-b", "lin-c"}),
 		plot: "loss.svg"})
@@ -157,7 +157,7 @@ func goldenCases() []goldenCase {
 	add(goldenCase{name: "err_rank_no_vdrive", args: []string{"rank", "--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k"}})
 	add(goldenCase{name: "err_rank_bad_library", args: cat([]string{"rank", "--parts", cliDir + "bad_unit.csv"}, gpLibCLI[2:])})
 	add(goldenCase{name: "err_explain_unknown_part", args: cat([]string{"explain"}, gpBuck12, []string{"no-such-part"})})
-	add(goldenCase{name: "err_explain_format_csv", args: cat([]string{"explain", "--format", "csv"}, gpBuck12, []string{"quartz-40"})})
+	add(goldenCase{name: "err_explain_format_csv", args: cat([]string{"explain", "--format", "csv"}, gpBuck12, []string{"quartz-45"})})
 	add(goldenCase{name: "err_compare_points", args: cat([]string{"compare"}, gpPoints, []string{"--fitted", "lin-b", "lin-a"})})
 	add(goldenCase{name: "err_sweep_one_step", args: cat([]string{"sweep"}, gpBuck12, []string{"--steps", "1"})})
 	add(goldenCase{name: "err_unknown_command", args: []string{"frobnicate"}})

@@ -4,6 +4,7 @@
 //	swrank rank    rank the parts of a library at an operating point
 //	swrank explain show one part's whole calculation
 //	swrank check   validate a parts library and report every problem
+//	swrank parts   list a library's parts and how complete each row is
 //	swrank compare judge candidates against the part already fitted
 //	swrank sweep   sweep a variable and find where the best part changes
 //	swrank new     write a starter design file and parts library
@@ -20,6 +21,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
+
+	"swrank/devices"
 )
 
 const caution = `Caution: switching converters and RF stages can carry lethal voltages, and
@@ -30,7 +34,7 @@ codes and qualified practice, and verify every design on the bench.`
 // command is one subcommand.
 type command struct {
 	name, summary string
-	run           func(args []string, stdout, stderr io.Writer) error
+	run           func(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 }
 
 func commands() []command {
@@ -38,6 +42,7 @@ func commands() []command {
 		{"rank", "rank the parts of a library by total loss at an operating point", runRank},
 		{"explain", "show one part's whole calculation at an operating point", runExplain},
 		{"check", "validate a parts library and report every problem at once", runCheck},
+		{"parts", "list a library's parts: ratings, package, technology, how complete each row is", runParts},
 		{"compare", "judge replacement candidates against the part already fitted", runCompare},
 		{"sweep", "sweep fsw, iout, vin or vdrive and find where the best part changes", runSweep},
 		{"verify", "simulate the best-ranked parts in ngspice and set simulated losses beside the predicted", runVerify},
@@ -62,15 +67,17 @@ Commands:
 Run "swrank <command> -h" for its flags, each with its unit and default.
 Values take SI prefixes: 280m, 4.7n, 1.2k, 500k, 2M.
 
+Flags may come before or after the arguments; --parts may be given more
+than once, and "-" reads a library from standard input.
+
 Example:
 	swrank rank --demo --vin 12 --vout 1.2 --iout 10 --fsw 500k --vdrive 5
 
 %s
-`, caution)
-}
 
-// errUsage marks an error already reported with the command's usage.
-var errUsage = errors.New("usage")
+%s
+`, exitStatuses, caution)
+}
 
 // exitError carries a specific exit status.
 type exitError struct {
@@ -81,7 +88,14 @@ type exitError struct {
 func (e *exitError) Error() string { return e.err.Error() }
 func (e *exitError) Unwrap() error { return e.err }
 
+// run runs the command line args with an empty standard input.
 func run(args []string, stdout, stderr io.Writer) int {
+	return runIO(args, strings.NewReader(""), stdout, stderr)
+}
+
+// runIO runs the command line args and returns the exit status
+// (exitStatuses).
+func runIO(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if len(args) == 0 {
 		usage(stderr)
 		return 2
@@ -91,22 +105,26 @@ func run(args []string, stdout, stderr io.Writer) int {
 		usage(stdout)
 		return 0
 	}
+	var names []string
 	for _, c := range commands() {
+		names = append(names, c.name)
 		if c.name != args[0] {
 			continue
 		}
-		err := c.run(args[1:], stdout, stderr)
+		err := c.run(args[1:], stdin, stdout, stderr)
 		var ee *exitError
+		var ue *usageError
 		switch {
 		case err == nil:
 			return 0
 		case errors.Is(err, flag.ErrHelp):
 			return 0
-		case errors.Is(err, errUsage):
-			if err != errUsage {
-				fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, err)
-			}
+		case errors.As(err, &ue):
+			fmt.Fprintf(stderr, "swrank %s: %v\nsee swrank %s -h\n", c.name, ue, c.name)
 			return 2
+		case errors.Is(err, errNoPass):
+			fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, err)
+			return 3
 		case errors.As(err, &ee):
 			fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, ee.err)
 			return ee.code
@@ -114,13 +132,12 @@ func run(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, err)
 		return 1
 	}
-	fmt.Fprintf(stderr, "swrank: unknown command %q\n\n", args[0])
-	usage(stderr)
+	fmt.Fprintf(stderr, "swrank: unknown command %q%s\nsee swrank -h\n", args[0], didYouMean(devices.NearestNames(args[0], names), ""))
 	return 2
 }
 
 func main() {
-	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	os.Exit(runIO(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 }
 
 // newFlagSet makes a flag set that prints its usage with the caution.
@@ -129,19 +146,26 @@ func newFlagSet(name, synopsis string, stderr io.Writer) *flag.FlagSet {
 	fs.SetOutput(stderr)
 	fs.Usage = func() {
 		fmt.Fprintf(fs.Output(), "Usage: swrank %s\n\nFlags (values take SI prefixes: 4.7n, 500k):\n", synopsis)
-		fs.PrintDefaults()
+		printFlags(fs)
 		fmt.Fprintf(fs.Output(), "\n%s\n", caution)
 	}
 	return fs
 }
 
-// parse parses args, turning flag errors into errUsage.
-func parse(fs *flag.FlagSet, args []string) error {
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return err
+// printFlags lists the flags of fs as they are typed, "--name VALUE", each
+// with its help and its default when that is not the zero value.
+func printFlags(fs *flag.FlagSet) {
+	fs.VisitAll(func(f *flag.Flag) {
+		name, help := flag.UnquoteUsage(f)
+		if name != "" {
+			name = " " + name
 		}
-		return errUsage
-	}
-	return nil
+		fmt.Fprintf(fs.Output(), "  --%s%s\n    \t%s", f.Name, name, strings.ReplaceAll(help, "\n", "\n    \t"))
+		switch f.DefValue {
+		case "", "0", "false":
+		default:
+			fmt.Fprintf(fs.Output(), " (default %s)", f.DefValue)
+		}
+		fmt.Fprintln(fs.Output())
+	})
 }

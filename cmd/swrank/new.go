@@ -8,14 +8,13 @@ import (
 )
 
 // runNew writes the starter design file and parts library.
-func runNew(args []string, stdout, stderr io.Writer) error {
-	fs := newFlagSet("new", "new [DIR]", stderr)
+func runNew(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := newFlagSet("new", "new [DIR]", stdout)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
 	if fs.NArg() > 1 {
-		fs.Usage()
-		return fmt.Errorf("%w: new takes at most one directory", errUsage)
+		return usagef("new takes at most one directory, got %d", fs.NArg())
 	}
 	dir := "."
 	if fs.NArg() == 1 {

@@ -1,12 +1,15 @@
 package main
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
 	"swrank/devices"
+	"swrank/rank/stage"
 )
 
 // new writes a starter design and library that work together, whose rows
@@ -27,6 +30,21 @@ func TestNew(t *testing.T) {
 	}
 	if len(lib.Parts) < 3 || len(lib.Warnings) > 0 {
 		t.Errorf("starter library: %d parts, warnings %v", len(lib.Parts), lib.Warnings)
+	}
+	// From 20 V to 100 V, silicon and GaN.
+	lo, hi, techs := 1e9, 0.0, map[devices.Technology]bool{}
+	for _, p := range lib.Parts {
+		lo, hi = min(lo, float64(p.VdsMax)), max(hi, float64(p.VdsMax))
+		techs[p.Technology] = true
+	}
+	if lo > 20 || hi < 100 || !techs[devices.Silicon] || !techs[devices.GaN] {
+		t.Errorf("starter library spans %g V to %g V, technologies %v: want 20 V to 100 V, si and gan", lo, hi, techs)
+	}
+	// The design states the default ambient, so that leaving the line out
+	// changes nothing.
+	text, _ := os.ReadFile(design)
+	if want := fmt.Sprintf("ta = %q", strconv.FormatFloat(float64(stage.DefaultAmbient), 'g', -1, 64)); !strings.Contains(string(text), want) {
+		t.Errorf("starter design lacks %s", want)
 	}
 	if code, _, errOut := runSw(t, "rank", "--design", design); code != 0 {
 		t.Fatalf("rank --design starter: exit %d: %s", code, errOut)

@@ -29,11 +29,11 @@ type sweepFlags struct {
 	plot       string
 }
 
-func runSweep(args []string, stdout, stderr io.Writer) error {
+func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var in inputs
 	var dec design.Decisions
 	var sf sweepFlags
-	fs := newFlagSet("sweep", sweepSynopsis, stderr)
+	fs := newFlagSet("sweep", sweepSynopsis, stdout)
 	in.register(fs)
 	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
 	fs.IntVar(&in.top, "top", decide.DefaultSweepTop, "sweep the best `N` parts over the range (fewest screened points, then least mean loss; 0: all) unless parts are named")
@@ -72,8 +72,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return fmt.Errorf("--scale %q: want log or linear", sf.scale)
 	}
 	if sf.from == "" || sf.to == "" {
-		fs.Usage()
-		return fmt.Errorf("%w: sweep needs --from and --to", errUsage)
+		return usagef("sweep needs --from and --to")
 	}
 	if spec.Lo, err = parseIn(v, sf.from); err != nil {
 		return fmt.Errorf("--from: %w", err)
@@ -85,7 +84,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		return err
 	}
 	if sf.plot != "" {
-		if err := checkPlotPath(sf.plot, in.parts, dec.Design); err != nil {
+		if err := checkPlotPath(sf.plot, append(slices.Clone(in.parts), dec.Design)...); err != nil {
 			return err
 		}
 	}
@@ -96,7 +95,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if auto {
 		return errors.New("sweep takes --parallel N, not auto (the best count would change along the sweep)")
 	}
-	lib, devs, err := loadLibrary(&in, stderr)
+	lib, devs, err := loadLibrary(&in, stdin, stderr)
 	if err != nil {
 		return err
 	}
@@ -153,7 +152,17 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 			return err
 		}
 	}
-	return rep.Write(stdout, in.format)
+	if err := rep.Write(stdout, in.format); err != nil {
+		return err
+	}
+	for k := range sw.Devs {
+		for i := range sw.X {
+			if _, ok := sw.Total(k, i); ok {
+				return nil
+			}
+		}
+	}
+	return errNoPass
 }
 
 // parseIn reads a value of the swept variable's quantity.

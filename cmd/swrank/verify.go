@@ -14,6 +14,7 @@ import (
 	"github.com/schollz/progressbar/v3"
 	"golang.org/x/term"
 
+	"swrank/devices"
 	"swrank/rank"
 	"swrank/rank/design"
 	"swrank/rank/report"
@@ -84,7 +85,7 @@ func progress(stderr io.Writer, what string) func(done, total int) {
 	}
 }
 
-func runVerify(args []string, stdout, stderr io.Writer) error {
+func runVerify(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var in inputs
 	var dec design.Decisions
 	var sf simFlags
@@ -94,7 +95,7 @@ func runVerify(args []string, stdout, stderr io.Writer) error {
 	in.registerOutput(fs)
 	registerDecisions(fs, &dec)
 	sf.register(fs)
-	fs.StringVar(&demoModels, "demo-models", filepath.Join("testdata", "models"), "`DIR` holding the demo library's model files (--demo)")
+	fs.StringVar(&demoModels, "demo-models", "", "`DIR` holding the demo library's model files (--demo; default: the copies built into swrank)")
 	top := fs.Lookup("top")
 	top.Usage, top.DefValue = "verify the best `N` parts that have a model", fmt.Sprint(verify.DefaultTop)
 	in.top = verify.DefaultTop
@@ -111,30 +112,42 @@ func runVerify(args []string, stdout, stderr io.Writer) error {
 		return errors.New("verify simulates one operating point with one device in each place: no --weighting, --parallel or several design points")
 	}
 	if in.top <= 0 {
-		return fmt.Errorf("%w: --top must be at least 1", errUsage)
+		return usagef("--top must be at least 1")
 	}
 	r, err := sf.runner()
 	if err != nil {
 		return err
 	}
-	pt, devs, partner, lib, err := prepare(&in, stderr)
+	plan, devs, lib, err := preparePlan(&in, &dec, stdin, stderr)
 	if err != nil {
 		return err
 	}
+	pt, partner := plan.Point, plan.Partner
 	base := demoModels
+	if in.demo && base == "" {
+		dir, err := os.MkdirTemp("", "swrank-demo-models-")
+		if err != nil {
+			return fmt.Errorf("demo models: %w", err)
+		}
+		defer os.RemoveAll(dir)
+		if err := os.CopyFS(dir, devices.DemoModels()); err != nil {
+			return fmt.Errorf("demo models: %w", err)
+		}
+		base = dir
+	}
 	if !in.demo {
-		base = filepath.Dir(in.parts)
+		if len(in.parts) != 1 || in.parts[0] == "-" {
+			return usagef("verify reads its models beside one library file: give --parts FILE.csv once")
+		}
+		base = filepath.Dir(in.parts[0])
 	}
 	res := rank.Rank(pt, devs, partner, rank.Options{})
 	rep, err := verify.Run(context.Background(), pt, res, verify.Options{Top: in.top, Jobs: sf.jobs, Runner: r, Base: base,
 		Sim: spice.SimOptions{Cache: sf.cache(stderr)}, Progress: progress(stderr, "verify")})
 	if err != nil {
-		if in.demo && errors.Is(err, spice.ErrModel) && errors.Is(err, os.ErrNotExist) {
-			return fmt.Errorf("%w (the demo's models are in the repository's testdata/models: run from its root or give --demo-models DIR)", err)
-		}
 		return err
 	}
-	v := report.Verification{Report: rep, Source: lib.Source, Parts: len(lib.Parts)}
+	v := report.Verification{Report: rep, Source: lib.source, Parts: len(devs)}
 	if err := v.Write(stdout, in.format); err != nil {
 		return err
 	}

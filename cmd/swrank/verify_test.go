@@ -45,7 +45,7 @@ func TestVerifyRoundTrip(t *testing.T) {
 		{"slate-30-lo", "30", "100", "50"}, {"basalt-40", "40", "80", "40"}, {"granite-80", "80", "60", "15"},
 	}
 	for _, c := range cards {
-		b, err := os.ReadFile(filepath.Join("..", "..", "testdata", "models", c.name+".lib"))
+		b, err := os.ReadFile(filepath.Join("..", "..", "devices", "demomodels", c.name+".lib"))
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -40,9 +40,10 @@ const DefaultParallelMax = 4
 // resistance carries 1/n of the loss; a case-to-ambient resistance given
 // with the stage (a shared heatsink) carries all of it.
 //
-// Source: parallel connection of identical devices (team notes on
-// paralleling; the balance of conduction against the n-proportional
-// energies is standard practice); the switching-time scaling follows the
+// Source: parallel connection of identical devices, n of them acting as
+// one with R/n and n·Q (common practice; the balance of conduction against
+// the n-proportional energies is common practice too); the switching-time
+// scaling follows the
 // gate-charge method (Balogh 2001): t = n·Q·R/n / ΔV.
 func ParallelPart(p *devices.Part, n int) (devices.Part, error) {
 	if n < 1 || n > MaxParallel {
@@ -165,8 +166,8 @@ func BestParallel(pt *stage.Point, d, partner *fit.Device, maxN int) (ParallelCh
 // P, and clamped to [1, limit]. With B ≤ 0 more devices always help
 // (limit); with A ≤ 0 one is best.
 //
-// Source: minimising A/N + N·B (team notes on paralleling: at the optimum
-// conduction equals the N-proportional loss, standard practice).
+// Source: minimising A/N + N·B (hand calculation: at the optimum
+// conduction equals the N-proportional loss, common practice).
 func ParallelOptimum(a, b q.Power, limit int) int {
 	if limit < 1 {
 		limit = 1

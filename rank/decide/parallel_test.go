@@ -13,7 +13,8 @@ import (
 	"swrank/rank/stage"
 )
 
-// Hand case D of the team notes (re-derived: P(N) = I_rms²·R₁/N + N·f·E₁):
+// Hand calculation from P(N) = I_rms²·R₁/N + N·f·E₁ (paralleled identical
+// devices, common practice):
 // I_rms 20 A, R₁ 4 mΩ, E₁ 2 µJ, 200 kHz → P(N) = 2.0, 1.6, 1.733, 2.0 W for
 // N = 1..4 and N_opt = √(I²R₁/(f·E₁)) = 2. The stage is a custom cell with
 // no current at its edges (no overlap), so only conduction, the output
@@ -79,8 +80,8 @@ func TestParallelOptimum(t *testing.T) {
 // resistance, switch in the time one device takes with its own share: n·Q
 // through Rg,int/n is Q through Rg,int, and each device's Miller plateau
 // sits at its own share of the current. A real driver resistance slows the
-// n-fold charge (team notes on paralleling; gate-charge method, Balogh
-// 2001).
+// n-fold charge (gate-charge method, Balogh, "Fundamentals of MOSFET and
+// IGBT gate driver circuits", 2001).
 func TestParallelEdges(t *testing.T) {
 	p := testkit.LightPart()
 	d, err := fit.Prepare(&p)

@@ -150,7 +150,9 @@ func TestScaleStage(t *testing.T) {
 
 // Weighted efficiency against its closed form, and against summed watts.
 // Two parts in a custom cell with no current at the edges: P(x) = (20 A·x)²·R
-// + f·E₁ (conduction and the per-cycle energy of hand case D's model), Pout
+// + f·E₁ (conduction and the per-cycle energy of the paralleling model,
+// common practice), Pout
+
 // = 1 kW·x. Part A (R 2.5 mΩ, E₁ 2.5 µJ: P = x² + 0.5 W) loses less in
 // summed European-weighted watts (0.835 W against 0.937 W), part B (R
 // 6.25 mΩ, E₁ 0.5 µJ: P = 2.5·x² + 0.1 W) has the higher weighted

@@ -17,7 +17,7 @@ import (
 // linearParts are invented parts whose stage loss in a custom cell with no
 // current at its edges is exactly P(f) = I_rms²·R + f·E₁ at a pinned
 // junction temperature (conduction plus the per-cycle output-capacitance
-// and gate energy, hand case D's model): with I_rms = 10 A,
+// and gate energy; hand calculation from that sum): with I_rms = 10 A,
 //
 //	A: R 2 mΩ, E₁ 2 µJ     → 0.2 W + 2e-6 J·f
 //	B: R 4 mΩ, E₁ 1 µJ     → 0.4 W + 1e-6 J·f

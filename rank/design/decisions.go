@@ -62,8 +62,8 @@ type Command struct {
 	Stage *stage.Stage
 	// Parts and Demo are the library flags, set from the file's parts key
 	// ("demo", or a path relative to the design file) unless the command
-	// line set either.
-	Parts *string
+	// line set either. Parts holds one path per --parts given.
+	Parts *[]string
 	Demo  *bool
 	// AllFlags returns a new flag set of every flag of rank, bound to
 	// values of its own: the value of a key the command line overrides is
@@ -133,12 +133,12 @@ func (d *Decisions) Apply(c Command) error {
 	if !d.set["parts"] && !d.set["demo"] {
 		switch p := strings.TrimSpace(df.Parts.s); {
 		case strings.EqualFold(p, "demo"):
-			*c.Demo, *c.Parts = true, ""
+			*c.Demo, *c.Parts = true, nil
 		case p != "":
 			if !filepath.IsAbs(p) {
 				p = filepath.Join(filepath.Dir(d.Design), p)
 			}
-			*c.Parts = p
+			*c.Parts = []string{p}
 		}
 	}
 	scratch := c.AllFlags()

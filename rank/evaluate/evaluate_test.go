@@ -17,7 +17,8 @@ import (
 // (docs/second-order.md). Parts are invented; expected values are worked by
 // hand from the cited formulas, written out beside each check.
 
-// handCaseStage is hand case A's stage (team notes): synchronous buck 12 V
+// handCaseStage is the stage of the hand-calculated checks (gate-charge
+// method, Erickson & Maksimović 2001 ch. 4; Balogh 2001): synchronous buck 12 V
 // → 1.2 V at 10 A, no ripple, 500 kHz, 20 ns dead time, 5 V drive from
 // 2 Ω / 1 Ω, junction pinned at tj.
 func handCaseStage(tj q.Temperature) stage.Stage {
@@ -51,7 +52,8 @@ func hasStep(tr *Trace, dev, topic string) bool {
 	return false
 }
 
-// Common-source inductance, hand case A at 25 °C with l_cs = 1 nH. The
+// Common-source inductance, the hand-calculated buck at 25 °C with
+// l_cs = 1 nH. The
 // current intervals by hand (t = (R·Qgs2 + Lcs·I)/head, derived from the
 // gate-loop law of Balogh 2001 with the source-inductance feedback of Ren et
 // al. 2006): t_ir 1.0526 → 4.5614 ns, t_if 0.9302 → 5.5814 ns; the voltage
@@ -93,7 +95,7 @@ func TestEvaluateCommonSourceInductance(t *testing.T) {
 	}
 }
 
-// Power-loop inductance, hand case A at 25 °C with 0.5 nH (Erickson &
+// Power-loop inductance, the hand-calculated buck at 25 °C with 0.5 nH (Erickson &
 // Maksimović ch. 4 overlap with Faraday's law on the loop, as in Ren et al.
 // 2006): while the current rises in t_ir = 1.0526 ns the switch sees
 // 12 − 0.5n·10/t_ir = 7.25 V, so E_ir = ½·10·t_ir·7.25 V = 38.16 nJ
@@ -170,7 +172,7 @@ func TestEvaluateLoopInductance(t *testing.T) {
 	testkit.Near(t, "net loop energy with ripple", float64(r.Devices[0].Eloop), 0.5*0.5e-9*(11.5*11.5-8.5*8.5), 1e-6)
 }
 
-// Temperature beyond the on-resistance, hand case A pinned at 125 °C
+// Temperature beyond the on-resistance, the hand-calculated buck pinned at 125 °C
 // (common-practice coefficients, from memory: Si threshold −5 mV/K, diode
 // drop −2 mV/K, recovered charge 2× from 25 to 125 °C). Vth 1.8 → 1.3 V,
 // plateau 2.5 → 2.0 V (at the 10 A of the gate-charge data), Qgs2 still
@@ -180,7 +182,7 @@ func TestEvaluateLoopInductance(t *testing.T) {
 // than at 25 °C (3.453 and 2.530 ns). Qrr 40 nC → 0.24 W; Vsd 0.6 V →
 // dead time 0.12 W; gate charge Q(5 V) = 1n·1.3/1.8 + 1n + 2n + 1.6n·3 =
 // 8.5222 nC → 21.31 mW.
-func TestEvaluateTemperatureHandCaseA(t *testing.T) {
+func TestEvaluateTemperatureAt125C(t *testing.T) {
 	var tr Trace
 	r := evalPart(t, testkit.HandCasePart(), handCaseStage(125), &tr)
 	ct, sy := &r.Devices[0], &r.Devices[1]
@@ -286,7 +288,7 @@ func ganStage(voff q.Voltage, rsink q.Resistance, tj q.Temperature) stage.Stage 
 }
 
 // GaN reverse conduction (Lidow et al., GaN Transistors for Efficient Power
-// Conversion: third-quadrant drop ≈ Vth + |Voff| + I·R; team notes [R]).
+// Conversion: third-quadrant drop ≈ Vth + |Voff| + I·R; common practice).
 // At 25 °C, 10 A, Voff −2 V: 1.4 + 2 + 10·7 mΩ = 3.47 V, so two 10 ns dead
 // times cost 3.47·10·20n·500k = 0.347 W, against 0.8 V for a silicon body
 // diode: 4.3× as much per nanosecond. At 125 °C: Vth 1.3 V (−1 mV/K), R·

@@ -24,16 +24,19 @@ func TestEvaluateAllocations(t *testing.T) {
 	}
 }
 
-// Hand case A end to end through Evaluate, synchronous buck 12 V → 1.2 V at
+// A hand calculation end to end through Evaluate, synchronous buck 12 V → 1.2 V at
 // 10 A, no ripple, 500 kHz, 20 ns dead time, the same part in both places,
 // junction pinned at 25 °C, where the part's threshold, plateau, recovered
 // charge and diode drop are stated (so no temperature law moves them) and
 // where its 5 mΩ is given. Expected values from
-// the team notes (re-derived above from the cited methods): control switch
+// hand calculation from the gate-charge method (Erickson & Maksimović,
+// Fundamentals of Power Electronics, 2nd ed., 2001, ch. 4; Balogh 2001),
+// the √-law output charge (Erickson & Maksimović ch. 4) and Qrr·V (Graovac,
+// Pürschel & Kiep 2006): control switch
 // overlap 0.1795 W (refined variant), V·Q_oss 57.6 mW, recovery 0.1200 W,
 // conduction 0.0500 W, gate 20.00 mW in all; sync switch conduction
 // 10²·0.9·5 mΩ = 0.450 W, and its diode's share of the dead times (below).
-func TestEvaluateHandCaseA(t *testing.T) {
+func TestEvaluateSyncBuckByHand(t *testing.T) {
 	p := testkit.HandCasePart()
 	d, err := fit.Prepare(&p)
 	if err != nil {
@@ -74,7 +77,7 @@ func TestEvaluateHandCaseA(t *testing.T) {
 	}
 }
 
-// The diode's share of each 20 ns dead time of hand case A (the part in
+// The diode's share of each 20 ns dead time of the hand-worked synchronous buck (the part in
 // both places, 10 A, no ripple), a hand calculation from the RC delays of
 // the gate and the gate-charge intervals (Balogh 2001): Cgs = Qth/Vth =
 // 0.556 nF, the curve's slope above the plateau (8 − 2 − 2) nC/2.5 V =
@@ -96,7 +99,7 @@ var (
 	deadB = 20e-9 - (2*(5e-9/3.2)*math.Log(5/1.8) - dOn - 1e-9/0.95/2)
 )
 
-// TestDeadTimeDiodeShare checks the diode times and margins of hand case A,
+// TestDeadTimeDiodeShare checks the diode times and margins of that buck,
 // and that a dead time shorter than the edges need is cross-conduction.
 func TestDeadTimeDiodeShare(t *testing.T) {
 	// With crss the Cgd law is fitted through qgd at 12 V: the charge the

@@ -28,13 +28,13 @@ func rfPart(name string, rds q.Resistance, qg q.Charge, tf q.Time, coss q.Capaci
 	}
 }
 
-// Hand case C of the team notes, from the ideal class E equations (Sokal &
+// Hand calculation from the ideal class E equations (Sokal &
 // Sokal, IEEE JSSC 1975; Raab, IEEE TCAS 1977; Kazimierczuk, RF Power
 // Amplifiers, 2008): 12 V, 10 W, 6.78 MHz, r_DS 0.1 Ω, t_f 2 ns → R 8.3059 Ω,
 // C₁ 518.9 pF, V_SM 42.74 V, I_rms 1.2820 A, P_cond 0.1644 W, and turn-off
 // ≈ (ω·t_f)²/12·P_o = 6.049 mW (Kazimierczuk 2008; rank/resonant shows the
 // steady state with the fall inside it within 0.3 % of that form).
-func TestClassEHandCaseC(t *testing.T) {
+func TestClassEIdealByHand(t *testing.T) {
 	p := rfPart("case-c", 0.1, 4e-9, 1.6e-9, 10e-12)
 	d, err := fit.Prepare(&p)
 	if err != nil {
@@ -151,9 +151,10 @@ func TestRuleOfThumbSwap(t *testing.T) {
 
 // Class D below resonance is hard-switched: each transistor dissipates
 // V·Q_oss(V) per cycle (Kazimierczuk & Czarkowski, Resonant Power
-// Converters, 2nd ed., 2011, ch. 2); hand case B of the team notes:
+// Converters, 2nd ed., 2011, ch. 2); by hand with the √ law (Erickson &
+// Maksimović 2001 ch. 4):
 // 500 pF at 48 V with the √ law, 500 kHz → 2.304 µJ, 1.152 W per switch.
-func TestClassDHardSwitchedCaseB(t *testing.T) {
+func TestClassDHardSwitchedByHand(t *testing.T) {
 	p := rfPart("case-b", 0.05, 10e-9, 2e-9, 500e-12)
 	p.CapVds = q.Some[q.Voltage](48)
 	p.Qoss, p.Eoss, p.OssVds = q.Some[q.Charge](48e-9), q.Some[q.Energy](768e-9), q.Some[q.Voltage](48) // the √ law: 2·C·V, Q·V/3

@@ -44,10 +44,10 @@ func timeToReach(f func(v float64) float64, v0, v1 float64) float64 {
 	return s * h / 3
 }
 
-// The current-rise interval with common-source inductance. Hand case A of
-// the team notes (Erickson & Maksimović ch. 4; Balogh 2001): Qgs2 1 nC,
+// The current-rise interval with common-source inductance. Hand calculation
+// from the gate-charge method (Erickson & Maksimović ch. 4; Balogh 2001): Qgs2 1 nC,
 // Vth 1.8 V, Vpl 2.5 V, 5 V drive, 3 Ω on / 2 Ω off, 10 A.
-//   - Lcs = 0 gives the mean-gate-voltage intervals of the notes:
+//   - Lcs = 0 gives the mean-gate-voltage intervals of the refined method:
 //     t_ir = 1n·3/(5 − 2.15) = 1.0526 ns, t_if = 1n·2/2.15 = 0.9302 ns.
 //   - Lcs = 1 nH, by hand from t = (R·Qgs2 + Lcs·I)/head:
 //     t_ir = (3 + 10)·1e-9/2.85 = 4.5614 ns; t_if = (2 + 10)·1e-9/2.15 = 5.5814 ns.
@@ -96,8 +96,8 @@ func TestCurrentTransitionTimeHand(t *testing.T) {
 //     same in both and the absolute values differ by the known factor
 //     ((a+b)/2)·ln(a/b)/(a−b), a = Vdrv − Vth, b = Vdrv − Vpl.
 //   - Square-law channel i = k·(vg − Vth)² (Sze & Ng ch. 6): the Lcs
-//     increment of the closed form is the large-headroom limit; at hand case
-//     A's headroom it is within 5 % of the integral (4.4 % low).
+//     increment of the closed form is the large-headroom limit; at the
+//     hand-calculated buck's headroom it is within 5 % of the integral (4.4 % low).
 func TestCurrentTransitionTimeCircuit(t *testing.T) {
 	const (
 		vdrv, vth, vpl = 5.0, 1.8, 2.5
@@ -250,7 +250,7 @@ func TestDynamicRdsFactor(t *testing.T) {
 
 // The thermal loop with a temperature-dependent switching loss, by hand:
 // Ta 50 °C, Rth 40 K/W, 0.5 W fixed, 0.64 W conduction at 25 °C with the
-// linear 0.7 %/K law of the team notes' [D] check, and a switching loss
+// linear 0.7 %/K law (common practice), and a switching loss
 // 0.2 W + 4 mW/K·(T − 25 °C). P(T) = 1.34 W + 8.48 mW/K·(T − 25), so
 // Tj − 50 = 40·(1.34 + 0.00848·(Tj − 25)) → Tj = 95.12/0.6608 = 143.947 °C,
 // loop gain 40·0.00848 = 0.3392.
@@ -266,7 +266,8 @@ func TestSolveJunctionWholeLoss(t *testing.T) {
 	}
 	testkit.Near(t, "Tj", float64(s.Tj), 95.12/0.6608, 1e-6)
 	testkit.Near(t, "gain", s.Gain, 0.3392, 1e-4)
-	// Without Other it is the team notes' linear [D] check (111.01 °C).
+	// Without Other it is the linear-law hand calculation of
+	// Tj = Ta + Rth·P(Tj) (111.01 °C).
 	m.Other = nil
 	testkit.Near(t, "Tj without switching", float64(solveThermal(&m, 50, 40, 175).Tj), 111.01, 1e-4)
 }

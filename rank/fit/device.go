@@ -22,7 +22,9 @@ const (
 	alphaSiC                   = 0.95
 	defaultTjMax q.Temperature = 150
 	// Body-diode drops: silicon 0.8 V, SiC 3.5 V (common practice, from
-	// memory); GaN reverse conduction is Vth + |Voff| + I·R (team notes).
+	// memory); GaN reverse conduction is Vth + |Voff| + I·R (common
+	// practice; Lidow et al., GaN Transistors for Efficient Power
+	// Conversion, from memory).
 	vsdSi  q.Voltage = 1.0
 	vsdSiC q.Voltage = 4.5
 	// GaN's reverse-conduction drop at 0 V off and no current, taken when

@@ -8,12 +8,12 @@ import (
 	"swrank/rank/internal/testkit"
 )
 
-// Hand case A of the team notes (../shared/REFERENCES.md), re-derived from
+// Hand calculation from
 // the gate-charge method of Erickson & Maksimović, Fundamentals of Power
 // Electronics, 2nd ed., ch. 4, and Balogh 2001: 12 V, 10 A, 500 kHz,
 // Qgs2 1 nC, Qgd 2 nC, Vpl 2.5 V, Vth 1.8 V, 5 V drive, Rsrc 2 Ω, Rsnk 1 Ω,
 // Rg,int 1 Ω. Both variants to 0.1 %.
-func TestGateChargeTransitionsHandCaseA(t *testing.T) {
+func TestGateChargeTransitionsByHand(t *testing.T) {
 	loop := GateLoop{VOn: 5, VOff: 0, ROn: 2 + 1, ROff: 1 + 1}
 	cases := []struct {
 		name                   string
@@ -43,7 +43,7 @@ func TestGateChargeTransitionsHandCaseA(t *testing.T) {
 	testkit.Near(t, "E_off", float64(OverlapEnergy(12, 10, tr.Tvr, tr.Tif)), 144e-9, 1e-3)
 }
 
-// Gate-drive split of hand case A with the half-per-edge rule (Balogh 2001):
+// Gate-drive split, by hand with the half-per-edge rule (Balogh 2001):
 // P_G = Qg·V·f = 8 nC·5 V·500 kHz = 20.00 mW; driver 11.667 mW, Rg,int
 // 8.333 mW.
 func TestSplitGateEnergyHalfPerEdge(t *testing.T) {
@@ -55,7 +55,8 @@ func TestSplitGateEnergyHalfPerEdge(t *testing.T) {
 }
 
 // The stored gate energy over a piecewise-linear curve, worked by hand from
-// the definition E = ∫(v − Voff)·dQ (Balogh 2001): curve of hand case A
+// the definition E = ∫(v − Voff)·dQ (Balogh 2001): the gate curve of the
+// hand-calculated buck
 // (Qth 1 nC to 1.8 V, Qgs2 1 nC to 2.5 V, Qgd 2 nC at 2.5 V, then 1.6 nF to
 // 5 V): 1n·0.9 + 1n·2.15 + 2n·2.5 + 4n·3.75 = 23.05 nJ. A linear gate stores
 // half of Q·V: 20 nJ of 40 nJ.
@@ -72,8 +73,8 @@ func TestGateCurveStoredEnergy(t *testing.T) {
 }
 
 // Output capacitance with the √ law, Erickson & Maksimović ch. 4 (C(V) =
-// C0·√(V0/V): Q = 2·C(V)·V, E = (2/3)·C(V)·V²); hand cases A and B of the
-// team notes.
+// C0·√(V0/V): Q = 2·C(V)·V, E = (2/3)·C(V)·V²); hand calculations from
+// that law.
 func TestOssSqrtLaw(t *testing.T) {
 	// A: 400 pF at 12 V → Q_oss 9.60 nC; identical devices: V·Q_oss per
 	// hard turn-on → 57.6 mW at 500 kHz.
@@ -99,7 +100,7 @@ func TestOssSqrtLaw(t *testing.T) {
 	testkit.Near(t, "sqrt N", s.N, 0.5, 1e-9)
 }
 
-// Recovery and dead time, hand case A: Qrr 20 nC at 12 V, 500 kHz → 0.1200 W
+// Recovery and dead time, by hand: Qrr 20 nC at 12 V, 500 kHz → 0.1200 W
 // (Graovac et al. 2006); dead time 2 × 20 ns at Vsd 0.8 V and 10 A → 0.1600 W.
 func TestRecoveryAndDeadTime(t *testing.T) {
 	testkit.Near(t, "recovery", float64(RecoveryEnergy(20e-9, 12))*500e3, 0.12, 1e-9)
@@ -107,7 +108,7 @@ func TestRecoveryAndDeadTime(t *testing.T) {
 	testkit.Near(t, "conduction", float64(Conduction(q.Current(math.Sqrt(0.1*100)), 5e-3)), 0.05, 1e-9)
 }
 
-// The datasheet-time fallback (team notes, derived from the gate-charge
+// The datasheet-time fallback (hand calculation from the gate-charge
 // method): a 10-90 % time is 0.8 of the full transition; doubling the loop
 // resistance doubles the time, halving the headroom doubles it too.
 func TestScaleSwitchingTime(t *testing.T) {
@@ -126,7 +127,7 @@ func TestScaleSwitchingTime(t *testing.T) {
 	}
 }
 
-// The square-law plateau shift (team notes [R], from the long-channel
+// The square-law plateau shift (common practice, from the long-channel
 // saturation law I = k(Vgs − Vth)², Sze & Ng ch. 6): four times the current
 // doubles the overdrive.
 func TestPlateauAt(t *testing.T) {

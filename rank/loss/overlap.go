@@ -92,7 +92,7 @@ func ScaleSwitchingTime(tSpec q.Time, rSpec, rNew q.Resistance, headSpec, headNe
 // transition instead of one lumped Qgd follows Ren, Xu, Zhou, Lee,
 // "Analytical loss model of power MOSFET", IEEE Trans. Power Electronics,
 // 2006 (from memory). The two-constant construction from datasheet numbers
-// is the team's, checked against ngspice (docs/spice-crosscheck.md).
+// is swrank's own, checked against ngspice (docs/spice-crosscheck.md).
 type MillerLaw struct {
 	Vk       q.Voltage     // knee voltage, V; > 0
 	Clo, Chi q.Capacitance // below and above the knee, F; Clo ≥ Chi > 0

@@ -102,7 +102,7 @@ func LoopOvershoot(v q.Voltage, l q.Inductance, i, iTop q.Current, t q.Time, c q
 //
 // Source: as LoopOvershoot; the gate-loop feedback of a common-source
 // inductance as in Ren et al. 2006 (from memory); the parallel form is the
-// team's, checked against ngspice (docs/spice-crosscheck.md).
+// project's own, checked against ngspice (docs/spice-crosscheck.md).
 func LoopOvershootLcs(v q.Voltage, l, lcs q.Inductance, gm float64, rOff q.Resistance, ciss q.Capacitance, i, iTop q.Current, t q.Time, c q.Capacitance) q.Voltage {
 	if l <= 0 || i <= 0 {
 		return v

@@ -56,8 +56,10 @@ func TestClassDFundamental(t *testing.T) {
 
 // TestClassDHardSwitching: at resonance nothing moves the node; each
 // transistor dissipates V·Q_oss(V) per cycle (Kazimierczuk & Czarkowski
-// 2011 ch. 2; hand case B: 500 pF at 48 V, √ law → 2.304 µJ, 1.152 W at
-// 500 kHz), and for unlike parts E_S(V) + V·Q_K(V) − E_K(V) (notes [D]).
+// 2011 ch. 2; by hand with the √ law of Erickson & Maksimović 2001 ch. 4:
+// 500 pF at 48 V → 2.304 µJ, 1.152 W at 500 kHz), and for unlike parts
+// E_S(V) + V·Q_K(V) − E_K(V) (hand calculation from the energy balance of
+// the commutation).
 func TestClassDHardSwitching(t *testing.T) {
 	d := classD(t, ClassDSpec{Vin: 48, Po: 50, Fsw: 500e3, F0: 500e3, QL: 4, DeadTime: 50e-9})
 	law := SqrtQoss(500e-12, 48)
@@ -68,12 +70,12 @@ func TestClassDHardSwitching(t *testing.T) {
 	if e.ZVS || e.PartnerDiode || e.VResidual != 48 {
 		t.Errorf("at resonance: %+v, want hard switching at 48 V without diode conduction", e)
 	}
-	check(t, "E per hard turn-on", float64(e.ETurnOn), 2.304e-6, 1e-6, "hand case B; Kazimierczuk & Czarkowski ch. 2")
+	check(t, "E per hard turn-on", float64(e.ETurnOn), 2.304e-6, 1e-6, "hand calculation; Kazimierczuk & Czarkowski 2011 ch. 2")
 	l, err := ClassDLosses(d, ClassDSwitch{Qoss: law})
 	if err != nil {
 		t.Fatal(err)
 	}
-	check(t, "turn-on power per switch", float64(l.TurnOn), 1.152, 1e-6, "hand case B")
+	check(t, "turn-on power per switch", float64(l.TurnOn), 1.152, 1e-6, "hand calculation from f·V·Q_oss, Kazimierczuk & Czarkowski 2011 ch. 2")
 
 	cs, ck := 200e-12, 700e-12
 	e2, err := ClassDTurnOn(d, LinearQoss(q.Capacitance(cs)), LinearQoss(q.Capacitance(ck)))
@@ -92,7 +94,7 @@ func TestClassDHardSwitching(t *testing.T) {
 	if !eb.PartnerDiode || eb.TDiode != 50e-9 || eb.ZVS {
 		t.Errorf("below resonance: %+v, want the partner's diode for 50 ns and no ZVS (Kazimierczuk & Czarkowski ch. 2)", eb)
 	}
-	check(t, "E below resonance", float64(eb.ETurnOn), 2.304e-6, 1e-6, "V·Q_oss, hand case B")
+	check(t, "E below resonance", float64(eb.ETurnOn), 2.304e-6, 1e-6, "V·Q_oss, hand calculation with the √ law")
 }
 
 // deadTimeForZVS returns the dead time at which the edge current moves
@@ -134,8 +136,8 @@ func TestClassDZVSBoundary(t *testing.T) {
 }
 
 // TestClassDPartialZVSLinear: identical linear capacitances C: the node
-// stops at V − Q_d/(2C) and the loss is C·V_r² (derived from the notes'
-// formula E_S(V_r) + V[Q_K(V) − Q_K(V−V_r)] − [E_K(V) − E_K(V−V_r)]).
+// stops at V − Q_d/(2C) and the loss is C·V_r² (hand calculation from the
+// energy balance E_S(V_r) + V[Q_K(V) − Q_K(V−V_r)] − [E_K(V) − E_K(V−V_r)]).
 func TestClassDPartialZVSLinear(t *testing.T) {
 	const c = 1e-9
 	for _, td := range []q.Time{0, 20e-9, 60e-9} {

@@ -62,7 +62,7 @@ func TestTurnOffSteady(t *testing.T) {
 // BenchmarkClassETurnOff: the turn-off steady state runs per part
 // (its fall time) and operating point.
 func BenchmarkClassETurnOff(b *testing.B) {
-	d := caseC(b)
+	d := classE12V10W(b)
 	for i := 0; i < b.N; i++ {
 		if _, err := ClassETurnOff(d, 2e-9); err != nil {
 			b.Fatal(err)

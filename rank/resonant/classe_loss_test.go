@@ -8,7 +8,7 @@ import (
 	q "swrank/devices/quantity"
 )
 
-// designAtAngle returns the hand-case-C design and the fall time that gives
+// designAtAngle returns the 12 V, 10 W, 6.78 MHz design and the fall time that gives
 // ω·t_f = e.
 func designAtAngle(t *testing.T, coef ClassECoefficients, e float64) (ClassE, q.Time) {
 	t.Helper()
@@ -19,9 +19,10 @@ func designAtAngle(t *testing.T, coef ClassECoefficients, e float64) (ClassE, q.
 	return d, q.Time(e / (2 * math.Pi * 6.78e6))
 }
 
-// TestTurnOffSmallHandCaseC: P_tf = (ω·t_f)²/12·P_o of Kazimierczuk,
-// RF Power Amplifiers, 2008, ch. 4; hand case C gives 6.049 mW at 2 ns.
-func TestTurnOffSmallHandCaseC(t *testing.T) {
+// TestTurnOffSmall: P_tf = (ω·t_f)²/12·P_o of Kazimierczuk,
+// RF Power Amplifiers, 2008, ch. 4; by hand it gives 6.049 mW at 2 ns for
+// 12 V, 10 W, 6.78 MHz.
+func TestTurnOffSmall(t *testing.T) {
 	d, err := DesignClassE(ClassESpec{VDD: 12, F: 6.78e6, Po: 10})
 	if err != nil {
 		t.Fatal(err)
@@ -30,7 +31,7 @@ func TestTurnOffSmallHandCaseC(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	check(t, "P_tf small-t_f", float64(p), 6.049e-3, 2e-4, "hand case C; Kazimierczuk 2008 ch. 4")
+	check(t, "P_tf small-t_f", float64(p), 6.049e-3, 2e-4, "hand calculation from Kazimierczuk 2008 ch. 4")
 }
 
 // TestTurnOffLimit: the exact integral tends to the published small-t_f
@@ -85,7 +86,7 @@ func TestTurnOffClosedForm(t *testing.T) {
 }
 
 // TestTurnOffRatios: approx/exact at ω·t_f = 0.05, 0.1, 0.2 for the
-// integral over the frozen ideal waveform. The reference notes state 0.96,
+// integral over the frozen ideal waveform. A first-order guess gives 0.96,
 // 0.93, 0.87 (≈ 1/(1 + πε/4)); re-deriving from the published waveform
 // gives the opposite sign of the correction, 1.041, 1.086, 1.192
 // (≈ 1/(1 − πε/4)): just after turn-off the circuit current into the
@@ -108,8 +109,9 @@ func TestTurnOffRatios(t *testing.T) {
 		check(t, "approx/exact", float64(small/exact), tc.want, 2e-4, "derived from the Kazimierczuk 2008 waveform (notes disagree in sign)")
 		check(t, "approx/exact vs 1/(1 − πε/4)", float64(small/exact), 1/(1-math.Pi*tc.e/4), 0.01, "first-order form, derived")
 	}
-	// Hand case C at 2 ns (ε = 0.0852): 5.64 mW by the exact integral
-	// (the notes quote "about 6.45 mW", the same sign slip).
+	// 12 V, 10 W, 6.78 MHz at 2 ns (ε = 0.0852): 5.64 mW by the exact
+	// integral (a first-order estimate with the other sign of πε/4 would
+	// say about 6.45 mW, the same sign slip).
 	d, err := DesignClassE(ClassESpec{VDD: 12, F: 6.78e6, Po: 10})
 	if err != nil {
 		t.Fatal(err)
@@ -118,8 +120,8 @@ func TestTurnOffRatios(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	check(t, "P_tf exact, hand case C", float64(p), 10*idealTurnOffFraction(2*math.Pi*6.78e6*2e-9), 1e-9, "closed form J(ε), derived")
-	check(t, "P_tf exact, hand case C", float64(p), 5.640e-3, 5e-4, "closed form J(ε), derived")
+	check(t, "P_tf exact, 6.78 MHz", float64(p), 10*idealTurnOffFraction(2*math.Pi*6.78e6*2e-9), 1e-9, "closed form J(ε), hand calculation from the ideal waveform of Raab 1977")
+	check(t, "P_tf exact, 6.78 MHz", float64(p), 5.640e-3, 5e-4, "closed form J(ε), hand calculation from the ideal waveform of Raab 1977")
 }
 
 // TestTurnOffStateSpace: an independent check of ClassETurnOff at finite Q.
@@ -224,9 +226,10 @@ func TestTurnOffErrors(t *testing.T) {
 	}
 }
 
-// TestClassELossesHandCaseC: losses and efficiencies of hand case C with
-// 0.1 Ω and 2 ns; η = P_o/(P_o + ΣP) (Kazimierczuk 2008 ch. 1 definitions).
-func TestClassELossesHandCaseC(t *testing.T) {
+// TestClassELossesByHand: losses and efficiencies of the ideal 12 V, 10 W,
+// 6.78 MHz design with 0.1 Ω and 2 ns; η = P_o/(P_o + ΣP) (Kazimierczuk
+// 2008 ch. 1 definitions).
+func TestClassELossesByHand(t *testing.T) {
 	d, err := DesignClassE(ClassESpec{VDD: 12, F: 6.78e6, Po: 10})
 	if err != nil {
 		t.Fatal(err)
@@ -236,11 +239,11 @@ func TestClassELossesHandCaseC(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	check(t, "conduction", float64(l.Conduction), 0.1644, 4e-4, "hand case C")
+	check(t, "conduction", float64(l.Conduction), 0.1644, 4e-4, "hand calculation from 1.365201·r/R·P_o, Kazimierczuk 2008 ch. 4")
 	// Steady state with the fall: within 0.5 % of the small-t_f formula
-	// (6.049 mW, hand case C; agreement checked by ngspice in
+	// (6.049 mW by hand; agreement checked by ngspice in
 	// TestNgspiceClassETurnOff).
-	check(t, "turn-off", float64(l.TurnOff), 6.049e-3, 5e-3, "Kazimierczuk 2008 ch. 4; hand case C")
+	check(t, "turn-off", float64(l.TurnOff), 6.049e-3, 5e-3, "hand calculation from Kazimierczuk 2008 ch. 4")
 	// Hysteresis: 10 nJ at 400 V scaled to V_SM = 42.74 V with exponent
 	// 1.5 (assumed law), times 6.78 MHz.
 	check(t, "hysteresis", float64(l.Hysteresis), 10e-9*math.Pow(42.7441/400, 1.5)*6.78e6, 1e-4, "assumed power law (docs)")

@@ -8,7 +8,7 @@ import (
 	q "swrank/devices/quantity"
 )
 
-func caseC(t testing.TB) ClassE {
+func classE12V10W(t testing.TB) ClassE {
 	t.Helper()
 	d, err := DesignClassE(ClassESpec{VDD: 12, F: 6.78e6, Po: 10})
 	if err != nil {
@@ -19,15 +19,15 @@ func caseC(t testing.TB) ClassE {
 
 // TestShuntLinearDevice: a linear output capacitance is simply part of C₁
 // (Raab 1977; Sokal & Sokal 1975): C_ext = C₁ − C_out, V_SM = 3.562·V_DD,
-// X = 1.1525·R, f_max = P_o/(2π²·C_out·V_DD²) (hand case C: 11.727 MHz for
-// 300 pF).
+// X = 1.1525·R, f_max = P_o/(2π²·C_out·V_DD²) (by hand for 12 V, 10 W:
+// 11.727 MHz for 300 pF).
 func TestShuntLinearDevice(t *testing.T) {
-	d := caseC(t)
+	d := classE12V10W(t)
 	r, err := ClassEShunt(d, LinearQoss(300e-12))
 	if err != nil {
 		t.Fatal(err)
 	}
-	const src = "Raab 1977; hand case C"
+	const src = "hand calculation from Raab 1977"
 	check(t, "C_ext", float64(r.CExternal), float64(d.C1)-300e-12, 1e-8, src)
 	check(t, "C_dev", float64(r.CDevice), 300e-12, 1e-9, src)
 	check(t, "V_SM", float64(r.VPeak), 3.562010*12, 1e-6, src)
@@ -51,7 +51,7 @@ func TestShuntLinearDevice(t *testing.T) {
 // TestShuntDeviceTooLarge: a device capacitance above C₁ cannot hold class
 // E; f_max is below the operating frequency (Raab 1977 f_max formula).
 func TestShuntDeviceTooLarge(t *testing.T) {
-	d := caseC(t)
+	d := classE12V10W(t)
 	r, err := ClassEShunt(d, LinearQoss(600e-12))
 	if err != nil {
 		t.Fatal(err)
@@ -68,7 +68,7 @@ func TestShuntDeviceTooLarge(t *testing.T) {
 // peak charge is C₁·3.562·V_DD (this package's charge balance, docs); at
 // f_max the external capacitor goes to zero; more nonlinearity, more rise.
 func TestShuntNonlinearDevice(t *testing.T) {
-	d := caseC(t)
+	d := classE12V10W(t)
 	prev := 3.562010 * 12
 	for _, c0 := range []q.Capacitance{50e-12, 150e-12, 300e-12} {
 		law := SqrtQoss(c0, 12)
@@ -104,7 +104,7 @@ func TestShuntNonlinearDevice(t *testing.T) {
 // (q̂max = 2·atan(2/π), from Raab 1977's waveform): computed here by an
 // independent fine midpoint sum, 4.6229.
 func TestShuntPureSqrtLaw(t *testing.T) {
-	d := caseC(t)
+	d := classE12V10W(t)
 	r, err := ClassEShunt(d, SqrtQoss(100e-12, 12))
 	if err != nil {
 		t.Fatal(err)
@@ -129,7 +129,7 @@ func TestShuntPureSqrtLaw(t *testing.T) {
 }
 
 func TestShuntErrors(t *testing.T) {
-	d := caseC(t)
+	d := classE12V10W(t)
 	for _, tc := range []struct {
 		name string
 		d    ClassE
@@ -153,7 +153,7 @@ func TestShuntErrors(t *testing.T) {
 
 // BenchmarkClassEShunt: the shunt fit runs per part and operating point.
 func BenchmarkClassEShunt(b *testing.B) {
-	d := caseC(b)
+	d := classE12V10W(b)
 	law := SqrtQoss(150e-12, 12)
 	for i := 0; i < b.N; i++ {
 		if _, err := ClassEShunt(d, law); err != nil {

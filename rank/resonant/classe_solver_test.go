@@ -69,7 +69,7 @@ func TestSolverSokalFits(t *testing.T) {
 
 // TestSolverPublishedDirection: finite Q lowers the output below the ideal
 // formula, monotonically, by some 10 % at Q 5 and 38 % at Q 1.8 (Sokal, as
-// summarised in the reference notes: "10–38 % for Q_L from 5 down to 1.8").
+// Sokal & Sokal 1975, from memory: "10–38 % for Q_L from 5 down to 1.8").
 func TestSolverPublishedDirection(t *testing.T) {
 	id := IdealClassE()
 	prev := math.Inf(1)
@@ -85,9 +85,9 @@ func TestSolverPublishedDirection(t *testing.T) {
 		prev = r
 		switch ql {
 		case 5:
-			check(t, "output drop at QL 5", 1-r, 0.10, 0.1, "Sokal (reference notes: 10 %)")
+			check(t, "output drop at QL 5", 1-r, 0.10, 0.1, "Sokal & Sokal 1975, from memory: 10 %")
 		case 1.8:
-			check(t, "output drop at QL 1.8", 1-r, 0.38, 0.05, "Sokal (reference notes: 38 %)")
+			check(t, "output drop at QL 1.8", 1-r, 0.38, 0.05, "Sokal & Sokal 1975, from memory: 38 %")
 		}
 	}
 }

@@ -52,9 +52,9 @@ func TestIdealClassEConstants(t *testing.T) {
 	}
 }
 
-// TestClassEHandCaseC is hand-worked case C of the team reference notes,
-// built on the Raab 1977 / Kazimierczuk 2008 constants.
-func TestClassEHandCaseC(t *testing.T) {
+// TestClassEIdealByHand: 12 V, 10 W at 6.78 MHz, a hand calculation from
+// the ideal class E constants of Raab 1977 and Kazimierczuk 2008 ch. 4.
+func TestClassEIdealByHand(t *testing.T) {
 	d, err := DesignClassE(ClassESpec{VDD: 12, F: 6.78e6, Po: 10})
 	if err != nil {
 		t.Fatal(err)
@@ -67,7 +67,7 @@ func TestClassEHandCaseC(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	const src = "hand case C (REFERENCES), constants of Raab 1977 and Kazimierczuk 2008 ch. 4"
+	const src = "hand calculation from the constants of Raab 1977 and Kazimierczuk 2008 ch. 4"
 	for _, tc := range []struct {
 		name      string
 		got, want float64
@@ -86,18 +86,19 @@ func TestClassEHandCaseC(t *testing.T) {
 		check(t, tc.name, tc.got, tc.want, tc.rel, src)
 	}
 	// Conduction fraction P_r/P_o = (π²+28)/(2(π²+4))·r/R = 1.365201·r/R
-	// (REFERENCES [D] from Kazimierczuk 2008 ch. 4).
+	// (hand calculation from the waveforms of Kazimierczuk 2008 ch. 4).
 	check(t, "P_cond/P_o·R/r", float64(pc)/10*float64(d.R)/0.1, 1.365201, 1e-6, "Kazimierczuk 2008, ch. 4")
 }
 
-// TestClassEHandCaseE is the homework-style check of the reference notes
-// (low authority; it rounds 3.562 to 3.6), hence 2 %.
-func TestClassEHandCaseE(t *testing.T) {
+// TestClassEOneGigahertz: 4 V, 0.5 W at 1 GHz, a hand calculation from
+// the ideal class E constants (Raab 1977), checked at 2 % as a rounded
+// textbook-style figure (3.562 rounded to 3.6), from memory.
+func TestClassEOneGigahertz(t *testing.T) {
 	d, err := DesignClassE(ClassESpec{VDD: 4, F: 1e9, Po: 0.5})
 	if err != nil {
 		t.Fatal(err)
 	}
-	const src = "hand case E (REFERENCES), published homework-style check"
+	const src = "hand calculation from Raab 1977 (rounded figures, from memory)"
 	for _, tc := range []struct {
 		name      string
 		got, want float64

@@ -26,9 +26,9 @@ func TestOssEnergy(t *testing.T) {
 		want   float64
 		source string
 	}{
-		// Hand case B: C_oss(48 V) = 500 pF, √ law: Q_oss = 48 nC,
+		// By hand: C_oss(48 V) = 500 pF, √ law: Q_oss = 48 nC,
 		// E_oss = (2/3)·C·V² = 0.768 µJ (Erickson & Maksimović ch. 4).
-		{"√ law, hand case B", SqrtQoss(500e-12, 48), 48, 0.768e-6, "Erickson & Maksimović ch. 4; hand case B"},
+		{"√ law, 500 pF at 48 V", SqrtQoss(500e-12, 48), 48, 0.768e-6, "hand calculation from Erickson & Maksimović 2001 ch. 4"},
 		{"√ law at 12 V", SqrtQoss(500e-12, 48), 12, 2.0 / 3 * 500e-12 * 2 * 144, "Erickson & Maksimović ch. 4 (C(12 V) = 2·C(48 V))"},
 		{"linear", LinearQoss(100e-12), 400, 0.5 * 100e-12 * 400 * 400, "½CV²"},
 		{"junction m = 0.5", JunctionQoss(1e-9, 0.7, 0.5), 48, junction(1e-9, 0.7, 0.5, 48), "SPICE depletion law, integrated by hand"},
@@ -40,7 +40,7 @@ func TestOssEnergy(t *testing.T) {
 		}
 		check(t, tc.name, float64(e), tc.want, 1e-6, tc.source)
 	}
-	check(t, "Q_oss √ law, hand case B", float64(SqrtQoss(500e-12, 48)(48)), 48e-9, 1e-12, "Erickson & Maksimović ch. 4; hand case B")
+	check(t, "Q_oss √ law, 500 pF at 48 V", float64(SqrtQoss(500e-12, 48)(48)), 48e-9, 1e-12, "hand calculation from Erickson & Maksimović 2001 ch. 4")
 	bad := func(v q.Voltage) q.Charge { return q.Charge(math.NaN()) }
 	if _, err := OssEnergy(bad, 10); !errors.Is(err, ErrSpec) {
 		t.Errorf("NaN law: got %v, want ErrSpec", err)

@@ -28,7 +28,7 @@ func ngspiceRunner(t *testing.T) *Runner {
 
 func demoDevice(t *testing.T, name string) *Device {
 	t.Helper()
-	d, err := LoadDevice(filepath.Join("..", "..", "testdata", "models", name+".lib"), "", "")
+	d, err := LoadDevice(filepath.Join("..", "..", "devices", "demomodels", name+".lib"), "", "")
 	if err != nil {
 		t.Fatal(err)
 	}
