@@ -209,12 +209,25 @@ func prepare(p *devices.Part, low bool) (Device, error) {
 	if !p.IdPulse.OK {
 		d.Flags |= FlagIdPulseMissing
 	}
-	for _, step := range [...]func(*Device) error{
-		(*Device).fitGateLaw, (*Device).fitTempLaw, (*Device).fitOss, (*Device).fitGateCharge, (*Device).prepareSecondOrder, (*Device).fitMiller,
-	} {
-		if err := step(&d); err != nil {
-			return Device{}, err
-		}
+	// The fits in turn (called directly: through function values the
+	// device would escape to the heap, one allocation a part).
+	if err := d.fitGateLaw(); err != nil {
+		return Device{}, err
+	}
+	if err := d.fitTempLaw(); err != nil {
+		return Device{}, err
+	}
+	if err := d.fitOss(); err != nil {
+		return Device{}, err
+	}
+	if err := d.fitGateCharge(); err != nil {
+		return Device{}, err
+	}
+	if err := d.prepareSecondOrder(); err != nil {
+		return Device{}, err
+	}
+	if err := d.fitMiller(); err != nil {
+		return Device{}, err
 	}
 	d.estimate()
 	return d, nil

@@ -1,8 +1,8 @@
 package fit
 
 import (
-	"strings"
-
+	"bytes"
+	"slices"
 	"swrank/devices"
 	q "swrank/devices/quantity"
 	"swrank/rank/loss"
@@ -40,62 +40,59 @@ type PackageFamily struct {
 // PackageFamilies lists the package families, most specific first. The
 // last entry, with no Match, stands for a part whose package is not given
 // or not recognised: leaded-package values for the inductances.
-func PackageFamilies() []PackageFamily {
-	nH := func(a, b float64) [2]q.Inductance {
-		return [2]q.Inductance{q.Inductance(a * 1e-9), q.Inductance(b * 1e-9)}
-	}
-	kw := func(a, b float64) [2]q.ThermalResistance {
-		return [2]q.ThermalResistance{q.ThermalResistance(a), q.ThermalResistance(b)}
-	}
-	return []PackageFamily{
-		{"small leaded (SOT-23, SC-70)", []string{"sot23", "sot323", "sc70", "sot363"}, kw(20, 150), kw(100, 400), nH(0.5, 1.5), nH(1, 3)},
-		{"leadless 2×2 to 3.3×3.3 mm (DFN, QFN)", []string{"dfn2x2", "dfn3x3", "qfn3x3", "dfn33x33", "qfn33x33", "pqfn33", "dfn3"}, kw(1, 6), kw(40, 80), nH(0.1, 0.5), nH(0.3, 1)},
-		{"leadless 5×6 mm (DFN, QFN, power SO-8)", []string{"dfn5x6", "qfn5x6", "pqfn56", "so8fl", "powerso8", "dfn5"}, kw(0.5, 3), kw(30, 70), nH(0.2, 0.7), nH(0.5, 1.5)},
-		{"leadless 8×8 mm and larger (DFN, TOLL)", []string{"dfn8x8", "qfn8x8", "toll", "tolt", "dfn8"}, kw(0.2, 1.5), kw(25, 60), nH(0.2, 1), nH(0.5, 2)},
-		{"land-grid and chip-scale (LGA, BGA, CSP)", []string{"lga", "bga", "csp", "wlcsp"}, kw(0.3, 4), kw(30, 80), nH(0.02, 0.1), nH(0.1, 0.4)},
-		{"DPAK (TO-252)", []string{"dpak", "to252"}, kw(0.8, 4), kw(40, 90), nH(1, 2.5), nH(2, 5)},
-		{"D²PAK (TO-263)", []string{"d2pak", "to263"}, kw(0.4, 2), kw(35, 65), nH(2, 4), nH(4, 8)},
-		{"TO-247 and TO-220 with a Kelvin source (4 pins)", []string{"to2474", "to2204", "to2637"}, kw(0.2, 1.5), kw(30, 65), nH(0.2, 1), nH(6, 15)},
-		{"TO-220", []string{"to220"}, kw(0.4, 4), kw(50, 65), nH(4, 7), nH(6, 12)},
-		{"TO-247", []string{"to247"}, kw(0.2, 1.5), kw(30, 45), nH(5, 10), nH(8, 15)},
-		{"not given or not recognised", nil, kw(0, 0), kw(0, 0), nH(0, 10), nH(0, 15)},
-	}
+func PackageFamilies() []PackageFamily { return slices.Clone(packageFamilies[:]) }
+
+// packageFamilies is the table behind PackageFamilies (read-only).
+var packageFamilies = [...]PackageFamily{
+	{"small leaded (SOT-23, SC-70)", []string{"sot23", "sot323", "sc70", "sot363"}, kw(20, 150), kw(100, 400), nH(0.5, 1.5), nH(1, 3)},
+	{"leadless 2×2 to 3.3×3.3 mm (DFN, QFN)", []string{"dfn2x2", "dfn3x3", "qfn3x3", "dfn33x33", "qfn33x33", "pqfn33", "dfn3"}, kw(1, 6), kw(40, 80), nH(0.1, 0.5), nH(0.3, 1)},
+	{"leadless 5×6 mm (DFN, QFN, power SO-8)", []string{"dfn5x6", "qfn5x6", "pqfn56", "so8fl", "powerso8", "dfn5"}, kw(0.5, 3), kw(30, 70), nH(0.2, 0.7), nH(0.5, 1.5)},
+	{"leadless 8×8 mm and larger (DFN, TOLL)", []string{"dfn8x8", "qfn8x8", "toll", "tolt", "dfn8"}, kw(0.2, 1.5), kw(25, 60), nH(0.2, 1), nH(0.5, 2)},
+	{"land-grid and chip-scale (LGA, BGA, CSP)", []string{"lga", "bga", "csp", "wlcsp"}, kw(0.3, 4), kw(30, 80), nH(0.02, 0.1), nH(0.1, 0.4)},
+	{"DPAK (TO-252)", []string{"dpak", "to252"}, kw(0.8, 4), kw(40, 90), nH(1, 2.5), nH(2, 5)},
+	{"D²PAK (TO-263)", []string{"d2pak", "to263"}, kw(0.4, 2), kw(35, 65), nH(2, 4), nH(4, 8)},
+	{"TO-247 and TO-220 with a Kelvin source (4 pins)", []string{"to2474", "to2204", "to2637"}, kw(0.2, 1.5), kw(30, 65), nH(0.2, 1), nH(6, 15)},
+	{"TO-220", []string{"to220"}, kw(0.4, 4), kw(50, 65), nH(4, 7), nH(6, 12)},
+	{"TO-247", []string{"to247"}, kw(0.2, 1.5), kw(30, 45), nH(5, 10), nH(8, 15)},
+	{"not given or not recognised", nil, kw(0, 0), kw(0, 0), nH(0, 10), nH(0, 15)},
+}
+
+// nH is a range of inductances in nanohenries; kw of thermal
+// resistances in K/W.
+func nH(a, b float64) [2]q.Inductance {
+	return [2]q.Inductance{q.Inductance(a * 1e-9), q.Inductance(b * 1e-9)}
+}
+func kw(a, b float64) [2]q.ThermalResistance {
+	return [2]q.ThermalResistance{q.ThermalResistance(a), q.ThermalResistance(b)}
 }
 
 // FamilyOf returns the package family of package name pkg (the last,
 // unrecognised family when no fragment matches) and whether it was
-// recognised.
+// recognised. It allocates nothing (it runs for every part of a library).
 func FamilyOf(pkg string) (PackageFamily, bool) {
-	key := strings.Map(func(r rune) rune {
-		switch r {
-		case ' ', '-', '.', '_', '/':
-			return -1
+	var buf [64]byte
+	key := buf[:0]
+	for i := 0; i < len(pkg) && len(key) < len(buf); i++ {
+		c := pkg[i]
+		switch {
+		case c == ' ' || c == '-' || c == '.' || c == '_' || c == '/':
+			continue
+		case 'A' <= c && c <= 'Z':
+			c += 'a' - 'A'
 		}
-		return r
-	}, strings.ToLower(pkg))
-	fams := PackageFamilies()
-	if key != "" {
-		for _, f := range fams[:len(fams)-1] {
-			for _, m := range f.Match {
-				if strings.Contains(key, m) {
-					return f, true
+		key = append(key, c)
+	}
+	if len(key) > 0 {
+		for i := range packageFamilies[:len(packageFamilies)-1] {
+			for _, m := range packageFamilies[i].Match {
+				if bytes.Contains(key, []byte(m)) {
+					return packageFamilies[i], true
 				}
 			}
 		}
 	}
-	return fams[len(fams)-1], false
+	return packageFamilies[len(packageFamilies)-1], false
 }
-
-// Some estimates have no unfavourable end: a value that makes the edges
-// slower costs switching loss but lowers the overshoot and the dv/dt that
-// the screens judge. Those are bracketed: Prepare fits the part twice,
-// with each such estimate at the end of its range that costs more loss
-// (Device) and at the other end (Device.Alt), and the evaluation keeps the
-// worse of the two results. The bracketed estimates are the internal gate
-// resistance, the gate-charge curve (qgs, qgd, v_plateau), the
-// common-source inductance, the Miller charge below its test voltage (no
-// crss), a one-point output-capacitance law and the threshold's
-// temperature coefficient.
 
 // Technology estimates (common practice, from memory of datasheets).
 const (

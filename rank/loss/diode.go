@@ -4,6 +4,7 @@ import (
 	"math"
 
 	q "swrank/devices/quantity"
+	"swrank/rank/numeric"
 )
 
 // DeadTimeEnergy is the body-diode (reverse) conduction energy per cycle in
@@ -93,27 +94,24 @@ func RecoveredCharge(tau q.Time, iF q.Current, didt q.Slew) q.Charge {
 // FitRecoveryLifetime returns the lifetime τ for which RecoveredCharge
 // gives qrr at the datasheet's test current iF and rate didt (the charge
 // grows with τ without bound, so any qrr > 0 has one), and false for
-// non-positive inputs or a lifetime beyond 1 s.
+// non-positive inputs. The charge is below both of its limits, τ·iF and
+// didt·τ², so τ lies above the larger of qrr/iF and √(qrr/didt): the root
+// is bracketed from there (numeric.FindRoot, to 1e-9 relative).
 func FitRecoveryLifetime(qrr q.Charge, iF q.Current, didt q.Slew) (q.Time, bool) {
 	if qrr <= 0 || iF <= 0 || didt <= 0 {
 		return 0, false
 	}
-	// The charge rises monotonically with τ from 0; bracket then bisect on
-	// the logarithm of τ (to 1e-9 relative).
-	lo, hi := 1e-15, 1e-9
-	for float64(RecoveredCharge(q.Time(hi), iF, didt)) < float64(qrr) {
-		hi *= 10
-		if hi > 1 {
+	lo := math.Max(float64(qrr)/float64(iF), math.Sqrt(float64(qrr)/float64(didt)))
+	g := func(t float64) float64 { return float64(RecoveredCharge(q.Time(t), iF, didt)) - float64(qrr) }
+	hi := 2 * lo
+	for g(hi) < 0 {
+		if hi *= 2; hi > 1 {
 			return 0, false
 		}
 	}
-	for hi/lo > 1+1e-9 {
-		mid := math.Sqrt(lo * hi)
-		if float64(RecoveredCharge(q.Time(mid), iF, didt)) < float64(qrr) {
-			lo = mid
-		} else {
-			hi = mid
-		}
+	r, err := numeric.FindRoot(g, lo, hi, 1e-9, 0)
+	if err != nil {
+		return 0, false
 	}
-	return q.Time(math.Sqrt(lo * hi)), true
+	return q.Time(r.X), true
 }
