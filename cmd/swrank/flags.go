@@ -178,6 +178,8 @@ func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 	fs.Var(qty[q.Resistance]{&s.SyncDriver.RgExt}, "sync-rg-ext", "the synchronous switch's external gate resistor, `OHM` (with --sync-vdrive; default 0)")
 	fs.Var(qty[q.Temperature]{&s.Ambient}, "ta", "ambient temperature, `DEGC` (default "+short(stage.DefaultAmbient)+")")
 	fs.Var(opt[q.ThermalResistance]{&s.RthCA}, "rth-ca", "case-to-ambient thermal resistance added to a part's rth_jc, `K/W`")
+	fs.Var(opt[q.ThermalResistance]{&s.RthJCBlank}, "rth-jc-blank", "junction-to-case resistance for parts that leave rth_jc blank, `K/W` (default: the top of the package family's range)")
+	fs.Var(opt[q.ThermalResistance]{&s.RthJABlank}, "rth-ja-blank", "junction-to-ambient resistance for parts that leave rth_ja blank, `K/W` (default: the top of the package family's range)")
 	fs.Var(opt[q.Temperature]{&s.TjFixed}, "tj", "pin every junction at this temperature instead of solving it, `DEGC`")
 	fs.Var(qty[q.Ratio]{&s.Derate}, "derate", "fraction of vds_max the drain voltage may reach, `FRACTION` (default "+short(stage.DefaultDerate)+")")
 	fs.BoolVar(&s.Strict, "strict", false, "set aside every part whose result rests on an estimated value (a blank library cell)")

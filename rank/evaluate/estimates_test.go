@@ -69,6 +69,13 @@ func TestEstimatesUsedAndFlagged(t *testing.T) {
 				t.Errorf("no overshoot with an estimated loop: %v", r.Devices[0].Vpeak)
 			}
 		}},
+		{"no thermal data, the user's value for blank cells", func(p *devices.Part, s *stage.Stage) {
+			p.RthJA, p.RthJC, p.Package = q.Opt[q.ThermalResistance]{}, q.Opt[q.ThermalResistance]{}, ""
+			s.RthJABlank = q.Some[q.ThermalResistance](33)
+		}, func(t *testing.T, r *Result) {
+			testkit.Near(t, "Rth", float64(r.Devices[0].Rth), 33, 1e-12)
+			wantFlags(t, r, fit.FlagRthJAEstimated)
+		}},
 		{"strict: a result on estimates is set aside", func(p *devices.Part, s *stage.Stage) {
 			p.RgInt = q.Opt[q.Resistance]{}
 			s.Strict = true

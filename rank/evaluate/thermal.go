@@ -15,17 +15,24 @@ import (
 // junction is then taken at tj_max (junction).
 func rth(d *fit.Device, s *stage.Stage) (q.ThermalResistance, fit.Flags) {
 	p := d.Part
+	jc, ja := d.RthJC, d.RthJA
+	if !p.RthJC.OK && s.RthJCBlank.OK {
+		jc = s.RthJCBlank // the user's value for a blank rth_jc
+	}
+	if !p.RthJA.OK && s.RthJABlank.OK {
+		ja = s.RthJABlank
+	}
 	switch {
-	case s.RthCA.OK && d.RthJC.OK:
+	case s.RthCA.OK && jc.OK:
 		if !p.RthJC.OK {
-			return d.RthJC.V + s.RthCA.V, fit.FlagRthJCEstimated
+			return jc.V + s.RthCA.V, fit.FlagRthJCEstimated
 		}
-		return d.RthJC.V + s.RthCA.V, 0
-	case d.RthJA.OK:
+		return jc.V + s.RthCA.V, 0
+	case ja.OK:
 		if !p.RthJA.OK {
-			return d.RthJA.V, fit.FlagRthJAEstimated
+			return ja.V, fit.FlagRthJAEstimated
 		}
-		return d.RthJA.V, 0
+		return ja.V, 0
 	}
 	return 0, fit.FlagNoRth
 }

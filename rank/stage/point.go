@@ -354,6 +354,9 @@ func (s *Stage) fillCommon(bad complaint) {
 	if s.RthCA.OK && s.RthCA.V < 0 {
 		bad("rth-ca: must be ≥ 0 K/W")
 	}
+	if s.RthJCBlank.OK && !(s.RthJCBlank.V > 0) || s.RthJABlank.OK && !(s.RthJABlank.V > 0) {
+		bad("rth-jc-blank, rth-ja-blank: must be > 0 K/W")
+	}
 	if s.Derate == 0 {
 		s.Derate = DefaultDerate
 	}

@@ -197,6 +197,12 @@ type Stage struct {
 	// interface), K/W. When given it is added to a part's junction-to-case
 	// value and overrides its junction-to-ambient value.
 	RthCA q.Opt[q.ThermalResistance]
+	// RthJCBlank and RthJABlank are the junction-to-case and
+	// junction-to-ambient resistances taken for a part that leaves its own
+	// blank, K/W, > 0, in place of its package family's estimate (the
+	// user's own layout and parts; flagged as estimates all the same).
+	// Not given: the family's estimate (docs/library.md).
+	RthJCBlank, RthJABlank q.Opt[q.ThermalResistance]
 	// TjFixed pins the junction temperature of every device (no thermal
 	// solve), °C.
 	TjFixed q.Opt[q.Temperature]
