@@ -115,7 +115,7 @@ func Parallel(d *fit.Device, n int) (fit.Device, error) {
 	return fit.Prepare(pp)
 }
 
-// ParallelChoice is the outcome of BestParallel for one part.
+// ParallelChoice is the outcome of bestParallel for one part.
 type ParallelChoice struct {
 	N       int             // the chosen number of devices in each place the part fills
 	Dev     *fit.Device     // the paralleled device (the part itself when N = 1)
@@ -125,11 +125,11 @@ type ParallelChoice struct {
 	Passing []bool          // whether each count passes every screen
 }
 
-// BestParallel evaluates part d with 1 to maxN paralleled devices in each
+// bestParallel evaluates part d with 1 to maxN paralleled devices in each
 // place it fills (a named partner is not paralleled) and picks the count
 // with the least total stage loss among those that pass every screen, or
 // the least loss overall when none passes. Ties go to the smaller count.
-func BestParallel(pt *stage.Point, d, partner *fit.Device, maxN int) (ParallelChoice, error) {
+func bestParallel(pt *stage.Point, d, partner *fit.Device, maxN int) (ParallelChoice, error) {
 	if maxN < 1 || maxN > MaxParallel {
 		return ParallelChoice{}, fmt.Errorf("parallel limit %d outside 1 to %d", maxN, MaxParallel)
 	}
@@ -159,7 +159,7 @@ func BestParallel(pt *stage.Point, d, partner *fit.Device, maxN int) (ParallelCh
 	return c, nil
 }
 
-// ParallelOptimum is the count that minimises P(N) = A/N + N·B + P0, the
+// parallelOptimum is the count that minimises P(N) = A/N + N·B + P0, the
 // loss of N paralleled devices whose conduction at one device is A and whose
 // N-proportional (gate and output-capacitance) loss per device is B:
 // N* = √(A/B), rounded to whichever neighbouring integer gives the lower
@@ -168,7 +168,7 @@ func BestParallel(pt *stage.Point, d, partner *fit.Device, maxN int) (ParallelCh
 //
 // Source: minimising A/N + N·B (hand calculation: at the optimum
 // conduction equals the N-proportional loss, common practice).
-func ParallelOptimum(a, b q.Power, limit int) int {
+func parallelOptimum(a, b q.Power, limit int) int {
 	if limit < 1 {
 		limit = 1
 	}

@@ -32,7 +32,7 @@ func TestParallelHandCaseD(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := []float64{2.0, 1.6, 1.6/3 + 1.2, 2.0}
-	c, err := BestParallel(&pt, &d, nil, 4)
+	c, err := bestParallel(&pt, &d, nil, 4)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -45,8 +45,8 @@ func TestParallelHandCaseD(t *testing.T) {
 	if c.N != 2 {
 		t.Errorf("best N = %d, want 2", c.N)
 	}
-	if got := ParallelOptimum(1.6, 0.4, 10); got != 2 {
-		t.Errorf("ParallelOptimum(1.6 W, 0.4 W) = %d, want 2", got)
+	if got := parallelOptimum(1.6, 0.4, 10); got != 2 {
+		t.Errorf("parallelOptimum(1.6 W, 0.4 W) = %d, want 2", got)
 	}
 	testkit.Within(t, "single", float64(c.Single.Losses.Total()), 2.0, 1e-9)
 	if !strings.HasSuffix(c.Dev.Part.Name, "×2") {
@@ -54,7 +54,7 @@ func TestParallelHandCaseD(t *testing.T) {
 	}
 }
 
-// ParallelOptimum against the closed form N* = √(A/B) and brute force.
+// parallelOptimum against the closed form N* = √(A/B) and brute force.
 func TestParallelOptimum(t *testing.T) {
 	tests := []struct {
 		a, b  float64
@@ -70,8 +70,8 @@ func TestParallelOptimum(t *testing.T) {
 				bestN, bestP = n, p
 			}
 		}
-		if got := ParallelOptimum(q.Power(tc.a), q.Power(tc.b), tc.limit); got != bestN {
-			t.Errorf("ParallelOptimum(%g, %g, %d) = %d, want %d", tc.a, tc.b, tc.limit, got, bestN)
+		if got := parallelOptimum(q.Power(tc.a), q.Power(tc.b), tc.limit); got != bestN {
+			t.Errorf("parallelOptimum(%g, %g, %d) = %d, want %d", tc.a, tc.b, tc.limit, got, bestN)
 		}
 	}
 }

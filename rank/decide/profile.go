@@ -124,9 +124,9 @@ func parseFraction(s string) (float64, error) {
 	return v * scale, nil
 }
 
-// CustomWeighting makes a weighting from loads and weights (any positive
+// customWeighting makes a weighting from loads and weights (any positive
 // weights; they are scaled to sum to 1).
-func CustomWeighting(name string, pts []WeightPoint) (Weighting, error) {
+func customWeighting(name string, pts []WeightPoint) (Weighting, error) {
 	w := Weighting{Name: name, Title: "custom weighting " + name, Source: "given by the user", Points: slices.Clone(pts)}
 	if err := w.normalize(); err != nil {
 		return Weighting{}, fmt.Errorf("weighting %s: %w", name, err)
@@ -350,11 +350,11 @@ func EvaluateProfile(pr *Profile, dev, partner *fit.Device) WeightedResult {
 	return w
 }
 
-// RankProfile evaluates every device over the profile and returns the
+// rankProfile evaluates every device over the profile and returns the
 // results in rank order: parts that pass every screen at every point by
 // decreasing weighted efficiency, then the screened ones; ties by name.
 // The order does not depend on opt.Workers.
-func RankProfile(pr *Profile, devs []fit.Device, partner *fit.Device, opt rank.Options) []WeightedResult {
+func rankProfile(pr *Profile, devs []fit.Device, partner *fit.Device, opt rank.Options) []WeightedResult {
 	out := make([]WeightedResult, len(devs))
 	const chunk = 256
 	rank.ForChunks(len(devs), opt.WorkerCount(len(devs), chunk), chunk, func(lo, hi int) {
@@ -362,13 +362,13 @@ func RankProfile(pr *Profile, devs []fit.Device, partner *fit.Device, opt rank.O
 			out[i] = EvaluateProfile(pr, &devs[i], partner)
 		}
 	})
-	slices.SortStableFunc(out, CompareWeighted)
+	slices.SortStableFunc(out, compareWeighted)
 	return out
 }
 
-// CompareWeighted orders weighted results: passing before screened, then by
+// compareWeighted orders weighted results: passing before screened, then by
 // decreasing weighted efficiency, then by part name.
-func CompareWeighted(a, b WeightedResult) int {
+func compareWeighted(a, b WeightedResult) int {
 	if sa, sb := a.Screened(), b.Screened(); sa != sb {
 		if sa {
 			return 1

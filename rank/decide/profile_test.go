@@ -183,7 +183,7 @@ func TestWeightedEfficiency(t *testing.T) {
 		func(x float64) float64 { return 2.5*x*x + 0.1 },
 	}
 	for workers := 1; workers <= 2; workers++ {
-		res := RankProfile(&pr, devs, nil, rank.Options{Workers: workers})
+		res := rankProfile(&pr, devs, nil, rank.Options{Workers: workers})
 		if res[0].Dev.Part.Name != "part-b" {
 			t.Errorf("first %s, want part-b", res[0].Dev.Part.Name)
 		}

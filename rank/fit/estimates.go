@@ -2,7 +2,6 @@ package fit
 
 import (
 	"bytes"
-	"slices"
 	"swrank/devices"
 	q "swrank/devices/quantity"
 	"swrank/rank/loss"
@@ -37,12 +36,10 @@ type PackageFamily struct {
 	Lcs, Lloop [2]q.Inductance
 }
 
-// PackageFamilies lists the package families, most specific first. The
-// last entry, with no Match, stands for a part whose package is not given
-// or not recognised: leaded-package values for the inductances.
-func PackageFamilies() []PackageFamily { return slices.Clone(packageFamilies[:]) }
-
-// packageFamilies is the table behind PackageFamilies (read-only).
+// packageFamilies lists the package families, most specific first
+// (read-only). The last entry, with no Match, stands for a part whose
+// package is not given or not recognised: leaded-package values for the
+// inductances. docs/library.md prints the table.
 var packageFamilies = [...]PackageFamily{
 	{"small leaded (SOT-23, SC-70)", []string{"sot23", "sot323", "sc70", "sot363"}, kw(20, 150), kw(100, 400), nH(0.5, 1.5), nH(1, 3)},
 	{"leadless 2×2 to 3.3×3.3 mm (DFN, QFN)", []string{"dfn2x2", "dfn3x3", "qfn3x3", "dfn33x33", "qfn33x33", "pqfn33", "dfn3"}, kw(1, 6), kw(40, 80), nH(0.1, 0.5), nH(0.3, 1)},

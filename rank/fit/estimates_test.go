@@ -1,4 +1,4 @@
-package fit_test
+package fit
 
 import (
 	"bytes"
@@ -8,7 +8,6 @@ import (
 
 	"swrank/devices"
 	"swrank/devices/synth"
-	"swrank/rank/fit"
 )
 
 // The package families' estimates are documented (docs/library.md, a
@@ -21,7 +20,7 @@ func TestPackageFamilies(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, f := range fit.PackageFamilies() {
+	for _, f := range packageFamilies {
 		if !strings.Contains(string(doc), "| "+f.Name+" |") {
 			t.Errorf("family %q is not in docs/library.md", f.Name)
 		}
@@ -39,7 +38,7 @@ func TestPackageFamilies(t *testing.T) {
 		{"", "not given or not recognised", false},
 		{"mystery can", "not given or not recognised", false},
 	} {
-		f, ok := fit.FamilyOf(c.pkg)
+		f, ok := FamilyOf(c.pkg)
 		if f.Name != c.family || ok != c.known {
 			t.Errorf("FamilyOf(%q) = %q, %v; want %q, %v", c.pkg, f.Name, ok, c.family, c.known)
 		}
@@ -54,7 +53,7 @@ func TestPackageFamilies(t *testing.T) {
 	}
 	in := func(v, lo, hi float64) bool { return v >= lo*(1-1e-3) && v <= hi*(1+1e-3) }
 	for _, p := range lib.Parts {
-		f, ok := fit.FamilyOf(p.Package)
+		f, ok := FamilyOf(p.Package)
 		if !ok {
 			t.Errorf("%s: package %q not recognised", p.Name, p.Package)
 			continue
@@ -77,7 +76,7 @@ func TestPackageFamilies(t *testing.T) {
 
 // Every flag has its code and sentence.
 func TestFlagTexts(t *testing.T) {
-	for f := fit.Flags(1); f != 0; f <<= 1 {
+	for f := Flags(1); f != 0; f <<= 1 {
 		if f.Codes() == "" && len(f.Sentences()) == 0 {
 			break // past the last flag
 		}
