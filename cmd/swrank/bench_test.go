@@ -109,7 +109,7 @@ func BenchmarkEndToEnd(b *testing.B) {
 				if err != nil {
 					b.Fatal(err)
 				}
-				if err := rep.Write(io.Discard, "table"); err != nil {
+				if err := writeReport(io.Discard, rep.Report(), &in); err != nil {
 					b.Fatal(err)
 				}
 				t2 := time.Now()

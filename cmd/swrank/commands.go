@@ -65,7 +65,7 @@ func findDevice(devs []fit.Device, name string) (*fit.Device, error) {
 
 // prepare parses the shared inputs and resolves the operating point.
 func prepare(in *inputs, stderr io.Writer) (*stage.Point, []fit.Device, *fit.Device, *devices.Library, error) {
-	if err := report.CheckFormat(in.format); err != nil {
+	if err := checkFormat(in.format); err != nil {
 		return nil, nil, nil, nil, err
 	}
 	pt, err := in.stage.Resolve()
@@ -114,30 +114,35 @@ func runRank(args []string, stdout, stderr io.Writer) error {
 		}
 		res := rank.Rank(pt, devs, partner, rank.Options{})
 		rep := report.Ranking{Point: pt, Source: lib.Source, Parts: len(lib.Parts), Results: res, All: in.all, Top: in.top}
-		return writeRanking(stdout, in.format, &rep, partner)
+		return writeRanking(stdout, &in, &rep, partner)
 	}
 	rep, err := rankStream(&in, stderr)
 	if err != nil {
 		return err
 	}
-	return writeRanking(stdout, in.format, &rep, nil)
+	return writeRanking(stdout, &in, &rep, nil)
 }
 
 // writeRanking writes a plain ranking with the worst case of its leaders
 // and the price-loss front, when the library gives maximum values or
 // prices.
-func writeRanking(w io.Writer, format string, rep *report.Ranking, partner *fit.Device) error {
-	cs, err := decide.Leaders(rep.Point, partner, rep.Shown())
+func writeRanking(w io.Writer, in *inputs, rep *report.Ranking, partner *fit.Device) error {
+	pass := rep.Passing()
+	if in.top > 0 && len(pass) > in.top {
+		pass = pass[:in.top]
+	}
+	cs, err := decide.Leaders(rep.Point, partner, pass)
 	if err != nil {
 		return err
 	}
-	return rep.WriteWithLeaders(w, format, cs)
+	rep.Leaders = cs
+	return writeReport(w, rep.Report(), in)
 }
 
 // rankStream ranks a library without holding it: each part is read,
 // prepared, evaluated and offered to a rank.Best that keeps the leaders.
 func rankStream(in *inputs, stderr io.Writer) (report.Ranking, error) {
-	if err := report.CheckFormat(in.format); err != nil {
+	if err := checkFormat(in.format); err != nil {
 		return report.Ranking{}, err
 	}
 	pt, err := in.stage.Resolve()
@@ -186,7 +191,7 @@ func runExplain(args []string, stdout, stderr io.Writer) error {
 	var in inputs
 	fs := newFlagSet("explain", "explain [same flags as rank] PART", stderr)
 	in.register(fs)
-	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table (text) or json")
+	fs.StringVar(&in.format, "format", defaultFormat, "output `FORMAT`: table (text) or json")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -207,7 +212,7 @@ func runExplain(args []string, stdout, stderr io.Writer) error {
 	}
 	var tr evaluate.Trace
 	r := evaluate.Evaluate(pt, dev, partner, &tr)
-	return report.WriteExplain(stdout, in.format, pt, &r, &tr)
+	return writeReport(stdout, report.Explain(pt, &r, &tr), &in)
 }
 
 func runCheck(args []string, stdout, stderr io.Writer) error {
@@ -229,7 +234,7 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		}
 		lib, probs := opts.Check(f, path)
 		f.Close()
-		if err := report.WriteCheck(stdout, path, lib, probs); err != nil {
+		if err := writeReport(stdout, report.Check(path, lib, probs), &inputs{format: defaultFormat}); err != nil {
 			return err
 		}
 		fatal += len(probs.Fatals())

@@ -82,5 +82,5 @@ func runCompare(args []string, stdout, stderr io.Writer) error {
 		}
 		cr.Candidates = append(cr.Candidates, decide.CompareParts(&cr.Fitted, &res[i], pout))
 	}
-	return cr.Write(stdout, in.format)
+	return writeReport(stdout, cr.Report(), &in)
 }

@@ -30,8 +30,8 @@ func runRankDecisions(in *inputs, dec *design.Decisions, stdout, stderr io.Write
 		return err
 	}
 	dr := report.Decisions{Plan: plan, Candidates: cs, Source: lib.source, Parts: len(devs), All: in.all, Top: in.top,
-		Parallel: len(counts) > 1, Auto: auto}
-	return dr.Write(stdout, in.format)
+		Parallel: len(counts) > 1, Auto: auto, Counts: counts}
+	return writeReport(stdout, dr.Report(), in)
 }
 
 // libInfo is what preparePlan loaded.
@@ -40,7 +40,7 @@ type libInfo struct{ source string }
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
 func preparePlan(in *inputs, dec *design.Decisions, stderr io.Writer) (*decide.Plan, []fit.Device, libInfo, error) {
-	if err := report.CheckFormat(in.format); err != nil {
+	if err := checkFormat(in.format); err != nil {
 		return nil, nil, libInfo{}, err
 	}
 	pt, err := in.stage.ResolveLight(dec.LightLoad())
