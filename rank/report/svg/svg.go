@@ -177,7 +177,8 @@ func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
 // ticks places at least MinTicks labelled ticks on an axis, labelled with
 // an SI prefix and the unit: steps of 1, 2, 2.5 or 5 × 10ⁿ on a linear
-// axis; decades, then 1-2-5, then every integer multiple on a log axis.
+// axis; decades, then 1-2-5, then every integer multiple on a log axis
+// (linear steps when even those are too few).
 type ticks struct {
 	log  bool
 	unit string
@@ -195,6 +196,10 @@ func (t ticks) Ticks(lo, hi float64) []plot.Tick {
 			if len(vs) >= MinTicks {
 				break
 			}
+		}
+		if len(vs) < MinTicks {
+			// Less than a decade: plain steps read better.
+			vs = linearTicks(lo, hi)
 		}
 	} else {
 		vs = linearTicks(lo, hi)

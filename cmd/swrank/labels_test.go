@@ -1,0 +1,100 @@
+package main
+
+import (
+	"strings"
+	"testing"
+	"unicode/utf8"
+)
+
+// The labels a reader tripped on, each through the command line: what the
+// output must say and what it must not.
+func TestLabels(t *testing.T) {
+	buck := []string{"--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k", "--vdrive", "5"}
+	cases := []struct {
+		name    string
+		args    []string
+		want    []string
+		notWant []string
+	}{
+		{"the hottest junction is a result, not the limit", args([]string{"rank"}, buck, []string{"--parallel", "2"}),
+			[]string{"Tj °C"}, []string{"Tj max"}},
+		{"a partner is named once, not joined to every part", args([]string{"rank", "--position", "control", "--partner", "slate-25-sync"}, buck),
+			[]string{"the other place holds slate-25-sync in every row"}, []string{" + slate-25-sync"}},
+		{"one part is a part", []string{"rank", "--parts", cliDir + "hand_a.csv", "--topology", "custom", "--vblock", "12", "--ion", "10",
+			"--ioff", "10", "--irms", "5", "--fsw", "500k", "--vdrive", "5"},
+			[]string{": 1 part\n"}, []string{"1 parts"}},
+		{"a tiny share prints as 0, not in picowatts", args([]string{"rank", "--wide", "--all"}, buck), nil, []string{" pW"}},
+		{"the derating limit is named with its value", args([]string{"rank"}, buck),
+			[]string{"exceeds the derating limit 24.0 V (80 % of vds_max 30.0 V, --derate)", "voltage derating limit:"}, nil},
+		{"class D has its own columns", []string{"rank", "--demo", "--topology", "class-d", "--vin", "48", "--pout", "50", "--fsw", "1M",
+			"--f0", "900k", "--ql", "5", "--dead-time", "40n", "--vdrive", "5"},
+			[]string{"soft turn-on"}, []string{"C to add", "f limit", "shunt"}},
+		{"class E has its own columns", []string{"rank", "--demo", "--topology", "class-e", "--vin", "12", "--pout", "10", "--fsw", "6.78M",
+			"--ql", "10", "--vdrive", "5"},
+			[]string{"peak V", "C to add"}, []string{"soft turn-on"}},
+		{"the weights are said to be scaled", args([]string{"rank", "--weighting", "10%:2,50%:5,100%:3"}, buck),
+			[]string{"scaled to sum to 1", "weight 0.2:", "weight 0.5:"}, nil},
+		{"a default ambient says so", args([]string{"rank"}, buck), []string{"ambient 25.0 °C (the default; --ta sets it)"}, nil},
+		{"a given ambient is the one used", args([]string{"rank", "--ta", "40"}, buck), []string{"ambient 40.0 °C"}, []string{"(the default; --ta"}},
+		{"the default dead time says it can be set", args([]string{"rank"}, buck), []string{"dead time 20.0 ns (the default", "--dead-time sets it"}, nil},
+		{"a given dead time is not called the default", args([]string{"rank", "--dead-time", "5n"}, buck), []string{"dead time 5.00 ns"}, []string{"--dead-time sets it"}},
+		{"a runaway junction has no temperature in explain", args([]string{"explain"}, buck, []string{"pebble-30"}),
+			[]string{"Tj, runaway", "Tj none: runaway"}, []string{"Tj 0 °C", "0.000 °C"}},
+		{"an overshoot past vds_max is an avalanche, not a number", args([]string{"explain"}, buck, []string{"pebble-30"}),
+			[]string{"the part would avalanche"}, []string{"50.5 V"}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			code, out, e := runCLI(t, c.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, e)
+			}
+			for _, w := range c.want {
+				if !strings.Contains(out, w) {
+					t.Errorf("lacks %q:\n%s", w, out)
+				}
+			}
+			for _, w := range c.notWant {
+				if strings.Contains(out, w) {
+					t.Errorf("holds %q:\n%s", w, out)
+				}
+			}
+		})
+	}
+}
+
+// The README's examples print at most 100 columns when the output is not
+// a terminal (the width the table falls back to). The examples are the
+// README's, with the demo library where it names a library of the
+// reader's own and a demo part for its partner.
+func TestREADMEExamplesFitWidth(t *testing.T) {
+	examples := [][]string{
+		{"rank", "--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k", "--vdrive", "5"},
+		{"rank", "--demo", "--vin", "48", "--vout", "12", "--iout", "8", "--fsw", "200k", "--vdrive", "10", "--position", "control",
+			"--partner", "slate-25-sync", "--rth-ca", "20"},
+		{"rank", "--demo", "--topology", "boost", "--rectifier", "diode", "--vin", "12", "--vout", "36", "--iout", "2", "--fsw", "300k",
+			"--diode-vf", "0.45", "--diode-cj", "150p", "--vdrive", "10"},
+		{"rank", "--demo", "--topology", "custom", "--vblock", "60", "--ion", "4", "--ioff", "6", "--irms", "3", "--fsw", "1M", "--vdrive", "5"},
+		{"rank", "--demo", "--topology", "class-e", "--vin", "12", "--pout", "10", "--fsw", "6.78M", "--ql", "10", "--vdrive", "5"},
+		{"rank", "--demo", "--topology", "class-d", "--vin", "48", "--pout", "50", "--fsw", "1M", "--f0", "900k", "--ql", "5",
+			"--dead-time", "40n", "--vdrive", "5"},
+		{"rank", "--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k", "--vdrive", "5", "--weighting", "euro"},
+		{"compare", "--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k", "--vdrive", "5", "--fitted", "slate-30-lo"},
+		{"sweep", "--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--vdrive", "5", "--var", "fsw", "--from", "100k", "--to", "5M", "--top", "4"},
+		{"rank", "--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k", "--vdrive", "5", "--parallel", "auto"},
+		{"explain", "--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k", "--vdrive", "5", "quartz-40"},
+	}
+	for _, a := range examples {
+		t.Run(strings.Join(a, " "), func(t *testing.T) {
+			code, out, e := runCLI(t, a...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, e)
+			}
+			for i, l := range strings.Split(out, "\n") {
+				if n := utf8.RuneCountInString(l); n > 100 {
+					t.Errorf("line %d is %d columns: %q", i+1, n, l)
+				}
+			}
+		})
+	}
+}
