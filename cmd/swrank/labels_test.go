@@ -1,9 +1,14 @@
 package main
 
 import (
+	"encoding/csv"
+	"encoding/json"
+	"strconv"
 	"strings"
 	"testing"
 	"unicode/utf8"
+
+	"swrank/rank/report"
 )
 
 // The labels a reader tripped on, each through the command line: what the
@@ -94,6 +99,62 @@ func TestREADMEExamplesFitWidth(t *testing.T) {
 				if n := utf8.RuneCountInString(l); n > 100 {
 					t.Errorf("line %d is %d columns: %q", i+1, n, l)
 				}
+			}
+		})
+	}
+}
+
+// Every command's CSV holds plain numbers in its number columns (or an
+// empty cell for unknown), never text such as "118 mW", and its JSON
+// carries the schema version; the same quantity has the same name in every
+// command.
+func TestMachineFormatsPlain(t *testing.T) {
+	buck := []string{"--demo", "--vin", "12", "--vout", "1.2", "--iout", "10", "--fsw", "500k", "--vdrive", "5"}
+	cases := []struct {
+		name string
+		args []string
+	}{
+		{"rank", args([]string{"rank"}, buck)},
+		{"rank, the decision path", args([]string{"rank", "--parallel", "2"}, buck)},
+		{"rank over a profile", args([]string{"rank", "--weighting", "euro"}, buck)},
+		{"compare", args([]string{"compare", "--fitted", "basalt-40"}, buck)},
+		{"sweep", args([]string{"sweep", "--var", "fsw", "--from", "100k", "--to", "1M", "--steps", "4"}, buck)},
+		{"sweep with components", args([]string{"sweep", "--components", "--var", "iout", "--from", "2", "--to", "10", "--steps", "3"}, buck)},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			code, out, e := runCLI(t, append(c.args, "--format", "csv")...)
+			if code != 0 {
+				t.Fatalf("csv: exit %d: %s", code, e)
+			}
+			rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+			if err != nil || len(rows) < 2 {
+				t.Fatalf("csv: %v\n%s", err, out)
+			}
+			for j, h := range rows[0] {
+				f, ok := report.FieldOf(h)
+				if !ok {
+					t.Errorf("column %q is not a documented field", h)
+					continue
+				}
+				if f.Kind != report.KindNumber {
+					continue
+				}
+				for i, r := range rows[1:] {
+					if _, err := strconv.ParseFloat(r[j], 64); r[j] != "" && err != nil {
+						t.Errorf("row %d, %s: %q is not a plain number", i+1, h, r[j])
+					}
+				}
+			}
+			code, out, e = runCLI(t, append(c.args, "--format", "json")...)
+			var doc struct {
+				Version int `json:"schema_version"`
+			}
+			if code != 0 || json.Unmarshal([]byte(out), &doc) != nil || doc.Version != report.SchemaVersion {
+				t.Errorf("json: exit %d, version %d: %s", code, doc.Version, e)
+			}
+			if strings.Contains(out, "NaN") || strings.Contains(out, "Inf") {
+				t.Errorf("json holds a value that is not a number")
 			}
 		})
 	}

@@ -148,6 +148,14 @@ func (p *printer) grid(g report.Grid, fit bool) {
 	if n == 0 {
 		return
 	}
+	if hasGroups(g.Groups) {
+		for j := range g.Heads {
+			// Under its group's name, a group's sum is its sum.
+			if g.Groups[j] != "" && g.Heads[j] == g.Groups[j] {
+				g.Heads[j] = "sum"
+			}
+		}
+	}
 	w := make([]int, n)
 	for j, h := range g.Heads {
 		w[j] = utf8.RuneCountInString(h)
@@ -168,6 +176,7 @@ func (p *printer) grid(g report.Grid, fit bool) {
 		w[part] = max(8, w[part]-(total()-p.width))
 	}
 	if hasGroups(g.Groups) {
+		widenGroups(g.Groups, w)
 		p.line(groupLine(g.Groups, w))
 	}
 	p.line(row(g.Heads, w, g.Numeric))
@@ -197,6 +206,22 @@ func hasGroups(gs []string) bool {
 		}
 	}
 	return false
+}
+
+// widenGroups widens the last column of each run of one group so that
+// the group's name fits above the run.
+func widenGroups(groups []string, w []int) {
+	for j := 0; j < len(groups); {
+		k, span := j, w[j]
+		for k+1 < len(groups) && groups[k+1] == groups[j] {
+			k++
+			span += len(gap) + w[k]
+		}
+		if n := utf8.RuneCountInString(groups[j]); groups[j] != "" && n > span {
+			w[k] += n - span
+		}
+		j = k + 1
+	}
 }
 
 // groupLine names each run of columns of one loss group above them.
