@@ -148,13 +148,26 @@ func (p *printer) grid(g report.Grid, fit bool) {
 	if n == 0 {
 		return
 	}
-	if hasGroups(g.Groups) {
-		for j := range g.Heads {
-			// Under its group's name, a group's sum is its sum.
-			if g.Groups[j] != "" && g.Heads[j] == g.Groups[j] {
-				g.Heads[j] = "sum"
+	// A group of one column needs no name above it (its heading is the
+	// group's name); in a group of more, the group's sum is its "sum".
+	g.Groups = append([]string(nil), g.Groups...)
+	for j := 0; j < n; {
+		k := j
+		for k+1 < n && g.Groups[k+1] == g.Groups[j] {
+			k++
+		}
+		if g.Groups[j] != "" {
+			if k == j {
+				g.Heads[j], g.Groups[j] = g.Groups[j], ""
+			} else {
+				for i := j; i <= k; i++ {
+					if g.Heads[i] == g.Groups[i] {
+						g.Heads[i] = "sum"
+					}
+				}
 			}
 		}
+		j = k + 1
 	}
 	w := make([]int, n)
 	for j, h := range g.Heads {
