@@ -134,8 +134,12 @@ func (p *printer) table(t *report.Table, opt Options) {
 	if len(g.Notes) > 0 {
 		p.line("")
 		p.line("notes:")
+		cw := 0
+		for _, n := range g.Notes {
+			cw = max(cw, utf8.RuneCountInString(n.Code))
+		}
 		for i, n := range g.Notes {
-			head := fmt.Sprintf("%3d  %-10s ", i+1, n.Code)
+			head := fmt.Sprintf("%3d  %-*s  ", i+1, cw, n.Code)
 			p.wrap(n.Text, head, strings.Repeat(" ", utf8.RuneCountInString(head)))
 		}
 	}
