@@ -15,6 +15,10 @@ type Options struct {
 	// runtime.GOMAXPROCS(0); 1 evaluates on the calling goroutine. The
 	// result does not depend on it.
 	Workers int
+	// Progress, when not nil, is called as work finishes with the number
+	// of parts just done (from the worker goroutines: it must be safe for
+	// concurrent use). It does not change the result.
+	Progress func(parts int)
 }
 
 // WorkerCount is the number of goroutines for n parts handed out in chunks of

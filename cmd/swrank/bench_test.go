@@ -112,7 +112,7 @@ func BenchmarkEndToEnd(b *testing.B) {
 					b.Fatal(err)
 				}
 				rep := rankingOf(&in, &pt, &best, src)
-				if err := rep.Write(io.Discard, "table"); err != nil {
+				if err := writeReport(io.Discard, rep.Report(), &in); err != nil {
 					b.Fatal(err)
 				}
 				t2 := time.Now()

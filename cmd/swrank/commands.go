@@ -141,7 +141,7 @@ func runRank(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 		res := rank.Rank(plan.Point, devs, plan.Partner, rank.Options{})
 		rep := report.Ranking{Point: plan.Point, Source: lib.source, Parts: len(devs), Results: res, All: in.all, Top: in.top}
-		if err := writeRanking(stdout, in.format, &rep, plan.Partner); err != nil {
+		if err := writeRanking(stdout, &in, &rep, plan.Partner); err != nil {
 			return err
 		}
 		if len(res) == 0 || res[0].Screened() { // passing parts rank first
@@ -153,7 +153,7 @@ func runRank(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if err := writeRanking(stdout, in.format, &rep, nil); err != nil {
+	if err := writeRanking(stdout, &in, &rep, nil); err != nil {
 		return err
 	}
 	if rep.Parts == rep.Screened {
@@ -165,19 +165,24 @@ func runRank(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 // writeRanking writes a plain ranking with the worst case of its leaders
 // and the price-loss front, when the library gives maximum values or
 // prices.
-func writeRanking(w io.Writer, format string, rep *report.Ranking, partner *fit.Device) error {
-	cs, err := decide.Leaders(rep.Point, partner, rep.Shown())
+func writeRanking(w io.Writer, in *inputs, rep *report.Ranking, partner *fit.Device) error {
+	pass := rep.Passing()
+	if in.top > 0 && len(pass) > in.top {
+		pass = pass[:in.top]
+	}
+	cs, err := decide.Leaders(rep.Point, partner, pass)
 	if err != nil {
 		return err
 	}
-	return rep.WriteWithLeaders(w, format, cs)
+	rep.Leaders = cs
+	return writeReport(w, rep.Report(), in)
 }
 
 // rankStream ranks a library without holding it: each part is read,
 // prepared, evaluated and offered to a rank.Best that keeps the leaders.
 // Several --parts sources are read in turn into the same ranking.
 func rankStream(in *inputs, stdin io.Reader, stderr io.Writer) (report.Ranking, error) {
-	if err := report.CheckFormat(in.format); err != nil {
+	if err := checkFormat(in.format); err != nil {
 		return report.Ranking{}, err
 	}
 	if err := in.checkSources(); err != nil {
@@ -294,7 +299,7 @@ func runExplain(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	}
 	var tr evaluate.Trace
 	r := evaluate.Evaluate(plan.Point, dev, plan.Partner, &tr)
-	if err := report.WriteExplain(stdout, in.format, plan.Point, &r, &tr); err != nil {
+	if err := writeReport(stdout, report.Explain(plan.Point, &r, &tr), &in); err != nil {
 		return err
 	}
 	if r.Screened() {
@@ -321,7 +326,7 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 		lib, probs := opts.Check(r, name)
 		r.Close()
-		if err := report.WriteCheck(stdout, name, lib, probs); err != nil {
+		if err := writeReport(stdout, report.Check(name, lib, probs), &inputs{format: defaultFormat}); err != nil {
 			return err
 		}
 		fatal += len(probs.Fatals())

@@ -81,7 +81,7 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 		}
 		cr.Candidates = append(cr.Candidates, decide.CompareParts(&cr.Fitted, &res[i], pout))
 	}
-	if err := cr.Write(stdout, in.format); err != nil {
+	if err := writeReport(stdout, cr.Report(), &in); err != nil {
 		return err
 	}
 	if cr.Fitted.Screened() && !slices.ContainsFunc(res, func(r evaluate.Result) bool { return !r.Screened() }) {

@@ -7,19 +7,13 @@ import (
 )
 
 type compareOut struct {
-	Fitted struct {
-		Part   string  `json:"part"`
-		TotalW float64 `json:"total_w"`
-	} `json:"fitted"`
-	Candidates []struct {
-		Candidate string  `json:"candidate"`
-		TotalW    float64 `json:"total_w"`
-		Deltas    []struct {
-			Component string   `json:"component"`
-			DeltaW    float64  `json:"delta_w"`
-			DeltaRel  *float64 `json:"delta_rel"`
-		} `json:"deltas"`
-		EffDelta       *float64 `json:"eff_delta"`
+	Rows []struct {
+		Part           string   `json:"part"`
+		Status         string   `json:"status"`
+		TotalW         float64  `json:"total_w"`
+		DeltaW         *float64 `json:"total_delta_w"`
+		DeltaPct       *float64 `json:"total_delta_pct"`
+		EffDelta       *float64 `json:"eff_delta_pts"`
 		Decides        string   `json:"decided_by"`
 		NewScreens     []string `json:"new_screens"`
 		PackageDiffers bool     `json:"package_differs"`
@@ -39,7 +33,11 @@ func TestCompare(t *testing.T) {
 		"--pout", "1k", "--fsw", "100k", "--vdrive", "10", "--tj", "25", "--fitted", "lin-b"}
 	var c compareOut
 	decoded(t, &c, append(base, "--format", "json", "lin-a", "lin-c", "low-volt")...)
-	closeTo(t, "fitted total", c.Fitted.TotalW, 0.5, 1e-9)
+	if len(c.Rows) == 0 || c.Rows[0].Status != "fit" || c.Rows[0].Part != "lin-b" {
+		t.Fatalf("the fitted part first: %+v", c.Rows)
+	}
+	closeTo(t, "fitted total", c.Rows[0].TotalW, 0.5, 1e-9)
+	cands := c.Rows[1:]
 	want := map[string]struct {
 		total, delta float64
 		decides      string
@@ -49,43 +47,46 @@ func TestCompare(t *testing.T) {
 		"lin-c":    {0.825, 0.325, "conduction", []string{"worse by 325 mW (65.0 %)", "decided by conduction (+400 mW)"}},
 		"low-volt": {0.4, -0.1, "conduction", []string{"fails voltage margin", "package PKG-B instead of PKG-A"}},
 	}
-	if len(c.Candidates) != 3 {
-		t.Fatalf("%d candidates", len(c.Candidates))
+	if len(cands) != 3 {
+		t.Fatalf("%d candidates", len(cands))
 	}
 	// Passing candidates first, by loss: lin-a, lin-c, then low-volt (screened).
-	if c.Candidates[0].Candidate != "lin-a" || c.Candidates[1].Candidate != "lin-c" || c.Candidates[2].Candidate != "low-volt" {
-		t.Errorf("order %s, %s, %s", c.Candidates[0].Candidate, c.Candidates[1].Candidate, c.Candidates[2].Candidate)
+	if cands[0].Part != "lin-a" || cands[1].Part != "lin-c" || cands[2].Part != "low-volt" {
+		t.Errorf("order %s, %s, %s", cands[0].Part, cands[1].Part, cands[2].Part)
 	}
-	for _, x := range c.Candidates {
-		w := want[x.Candidate]
-		closeTo(t, x.Candidate+" total", x.TotalW, w.total, 1e-9)
-		total := x.Deltas[len(x.Deltas)-1]
-		if total.Component != "total" {
-			t.Fatalf("last delta %q", total.Component)
+	for _, x := range cands {
+		w := want[x.Part]
+		closeTo(t, x.Part+" total", x.TotalW, w.total, 1e-9)
+		if x.Status == "out" {
+			// Set aside: nothing is diffed against it.
+			if x.DeltaW != nil || x.EffDelta != nil {
+				t.Errorf("%s set aside, yet diffed: %+v", x.Part, x)
+			}
+		} else {
+			closeTo(t, x.Part+" Δ total", *x.DeltaW, w.delta, 1e-9)
+			closeTo(t, x.Part+" Δ total %", *x.DeltaPct, 100*w.delta/0.5, 1e-9)
+			// Efficiency change in points: 100·(1000/(1000 + P) − 1000/1000.5).
+			closeTo(t, x.Part+" Δ efficiency", *x.EffDelta, 100*(1000/(1000+w.total)-1000/1000.5), 1e-6)
 		}
-		closeTo(t, x.Candidate+" Δ total", total.DeltaW, w.delta, 1e-9)
-		closeTo(t, x.Candidate+" Δ total relative", *total.DeltaRel, w.delta/0.5, 1e-9)
 		if x.Decides != w.decides {
-			t.Errorf("%s decided by %q", x.Candidate, x.Decides)
+			t.Errorf("%s decided by %q", x.Part, x.Decides)
 		}
 		for _, v := range w.verdict {
 			if !strings.Contains(x.Verdict, v) {
-				t.Errorf("%s verdict %q lacks %q", x.Candidate, x.Verdict, v)
+				t.Errorf("%s verdict %q lacks %q", x.Part, x.Verdict, v)
 			}
 		}
-		// Efficiency change: 1000/(1000 + P) − 1000/1000.5.
-		closeTo(t, x.Candidate+" Δ efficiency", *x.EffDelta, 1000/(1000+w.total)-1000/1000.5, 1e-6)
 	}
-	if c.Candidates[2].PackageDiffers != true || len(c.Candidates[2].NewScreens) != 1 || c.Candidates[2].NewScreens[0] != "voltage margin" {
-		t.Errorf("low-volt: %+v", c.Candidates[2])
+	if cands[2].PackageDiffers != true || len(cands[2].NewScreens) != 1 || cands[2].NewScreens[0] != "voltage margin" {
+		t.Errorf("low-volt: %+v", cands[2])
 	}
 
 	// Every other part when no candidate is named; the same figures in the
 	// table, CSV and Markdown forms.
 	var all compareOut
 	decoded(t, &all, append(base, "--format", "json")...)
-	if len(all.Candidates) != 4 {
-		t.Errorf("all candidates: %d, want 4", len(all.Candidates))
+	if len(all.Rows) != 5 {
+		t.Errorf("all candidates: %d rows, want the fitted part and 4", len(all.Rows))
 	}
 	code, out, errOut := runSw(t, append(base, "lin-a")...)
 	if code != 0 || !strings.Contains(out, "lin-a: better by 100") || !strings.Contains(out, "fitted lin-b: total 500 mW") {
@@ -93,14 +94,14 @@ func TestCompare(t *testing.T) {
 	}
 	code, out, _ = runSw(t, append(base, "--format", "csv", "lin-a")...)
 	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
-	if code != 0 || err != nil || len(rows) != 2 || rows[1][0] != "lin-a" {
+	if code != 0 || err != nil || len(rows) != 3 || rows[2][0] != "lin-a" {
 		t.Fatalf("csv: exit %d, %v, %q", code, err, out)
 	}
 	hdr := rows[0]
 	for i, h := range hdr {
 		if h == "total_delta_w" {
-			if rows[1][i] != "-0.1" {
-				t.Errorf("csv total_delta_w %q", rows[1][i])
+			if rows[2][i] != "-0.1" {
+				t.Errorf("csv total_delta_w %q", rows[2][i])
 			}
 		}
 	}

@@ -31,8 +31,8 @@ func runRankDecisions(in *inputs, dec *design.Decisions, stdin io.Reader, stdout
 		return err
 	}
 	dr := report.Decisions{Plan: plan, Candidates: cs, Source: lib.source, Parts: len(devs), All: in.all, Top: in.top,
-		Parallel: len(counts) > 1, Auto: auto}
-	if err := dr.Write(stdout, in.format); err != nil {
+		Parallel: len(counts) > 1, Auto: auto, Counts: counts}
+	if err := writeReport(stdout, dr.Report(), in); err != nil {
 		return err
 	}
 	for i := range cs {
@@ -49,7 +49,7 @@ type libInfo struct{ source string }
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
 func preparePlan(in *inputs, dec *design.Decisions, stdin io.Reader, stderr io.Writer) (*decide.Plan, []fit.Device, libInfo, error) {
-	if err := report.CheckFormat(in.format); err != nil {
+	if err := checkFormat(in.format); err != nil {
 		return nil, nil, libInfo{}, err
 	}
 	pt, err := in.stage.ResolveLight(dec.LightLoad())

@@ -15,46 +15,43 @@ import (
 // 3.25 W): the front is lin-c, lin-b, lin-a.
 func TestRankDecorations(t *testing.T) {
 	var j struct {
-		Worst []struct {
+		Spread []struct {
+			Leader string  `json:"part"`
+			Runner string  `json:"runner_up"`
+			Lead   float64 `json:"lead"`
+			Width  float64 `json:"spread"`
+			Clear  bool    `json:"clear"`
+		} `json:"leader_spread"`
+		Results []struct {
 			Part   string   `json:"part"`
 			TotalW float64  `json:"total_w"`
 			WorstW *float64 `json:"worst_total_w"`
-		} `json:"worst_case"`
-		Spread struct {
-			Leader string  `json:"leader"`
-			Runner string  `json:"runner_up"`
-			Lead   float64 `json:"lead"`
-			Width  float64 `json:"leader_spread"`
-			Clear  bool    `json:"clear"`
-		} `json:"worst_case_spread"`
-		Front []struct {
-			Part  string  `json:"part"`
-			Price float64 `json:"price"`
-			Loss  float64 `json:"loss"`
-		} `json:"price_front"`
-		Results []struct {
-			Part string `json:"part"`
+			Price  *float64 `json:"price"`
+			Front  bool     `json:"price_front"`
 		} `json:"results"`
 	}
 	decoded(t, &j, "rank", "--design", decisionsDir+"/stage.toml", "--format", "json")
-	if len(j.Results) == 0 || j.Worst[0].Part != "lin-a" || j.Worst[0].WorstW == nil {
-		t.Fatalf("worst case %+v", j.Worst)
+	if len(j.Results) == 0 || j.Results[0].Part != "lin-a" || j.Results[0].WorstW == nil {
+		t.Fatalf("worst case %+v", j.Results)
 	}
-	closeTo(t, "lin-a worst", *j.Worst[0].WorstW, 1.4, 1e-9)
-	if j.Spread.Leader != "lin-a" || j.Spread.Runner != "lin-b" || !j.Spread.Clear {
-		t.Errorf("spread %+v", j.Spread)
+	closeTo(t, "lin-a worst", *j.Results[0].WorstW, 1.4, 1e-9)
+	if len(j.Spread) != 1 || j.Spread[0].Leader != "lin-a" || j.Spread[0].Runner != "lin-b" || !j.Spread[0].Clear {
+		t.Fatalf("spread %+v", j.Spread)
 	}
-	closeTo(t, "lead", j.Spread.Lead, 0.6, 1e-9)
-	closeTo(t, "spread", j.Spread.Width, 0.2, 1e-9)
+	closeTo(t, "lead", j.Spread[0].Lead, 0.6, 1e-9)
+	closeTo(t, "spread", j.Spread[0].Width, 0.2, 1e-9)
 	var front []string
-	for _, f := range j.Front {
-		front = append(front, f.Part)
+	for _, r := range j.Results {
+		if r.Front {
+			front = append(front, r.Part)
+		}
 	}
-	if strings.Join(front, ",") != "lin-c,lin-b,lin-a" {
+	if strings.Join(front, ",") != "lin-a,lin-b,lin-c" {
 		t.Errorf("front %v", front)
 	}
 	code, out, _ := runSw(t, "rank", "--design", decisionsDir+"/stage.toml")
-	if code != 0 || !strings.Contains(out, "a clear choice") || !strings.Contains(out, "- lin-b: price 1.00, loss 1.80 W") {
+	if code != 0 || !strings.Contains(out, "a clear choice") || !strings.Contains(out, "- lin-b: price 1.00, loss 1.80 W") ||
+		!strings.Contains(out, "parts no other part beats on both") {
 		t.Errorf("table:\n%s", out)
 	}
 	code, out, _ = runSw(t, "rank", "--design", decisionsDir+"/stage.toml", "--format", "csv")

@@ -119,23 +119,25 @@ func TestDesignErrors(t *testing.T) {
 }
 
 type weightedRank struct {
-	Profile struct {
-		Names   []string  `json:"names"`
-		Weights []float64 `json:"weights"`
+	Profile []struct {
+		Point  string  `json:"point"`
+		Weight float64 `json:"weight"`
 	} `json:"profile"`
 	Results []struct {
 		Part         string  `json:"part"`
 		N            int     `json:"n"`
 		TotalW       float64 `json:"total_w"`
 		SingleTotalW float64 `json:"single_total_w"`
-		EffWeighted  float64 `json:"eff_weighted"`
-		LossFraction float64 `json:"loss_fraction_weighted"`
-		Screened     bool    `json:"screened"`
+		EffWeighted  float64 `json:"eff_weighted_pct"`
+		SetAside     bool    `json:"set_aside"`
 		Points       []struct {
 			TotalW float64 `json:"total_w"`
-			Eff    float64 `json:"eff"`
+			Eff    float64 `json:"eff_pct"`
 		} `json:"points"`
-		Tried []float64 `json:"tried"`
+		Tried []struct {
+			N      int     `json:"n"`
+			TotalW float64 `json:"total_w"`
+		} `json:"tried"`
 	} `json:"results"`
 }
 
@@ -156,7 +158,7 @@ func TestRankWeighting(t *testing.T) {
 	decoded(t, &r, append([]string{"rank", "--format", "json", "--weighting", "euro"}, linearFlags...)...)
 	loads := []float64{0.05, 0.10, 0.20, 0.30, 0.50, 1}
 	weights := []float64{0.03, 0.06, 0.13, 0.10, 0.48, 0.20}
-	prev := 2.0
+	prev := 200.0
 	n := 0
 	for _, res := range r.Results {
 		f, ok := linearLoss[res.Part]
@@ -169,7 +171,7 @@ func TestRankWeighting(t *testing.T) {
 			want += weights[i] * 1000 * x / (1000*x + f(x))
 			closeTo(t, res.Part+" point loss", res.Points[i].TotalW, f(x), 1e-9)
 		}
-		closeTo(t, res.Part+" weighted efficiency", res.EffWeighted, want, 1e-12)
+		closeTo(t, res.Part+" weighted efficiency", res.EffWeighted, 100*want, 1e-12)
 		if res.EffWeighted > prev {
 			t.Errorf("%s out of order", res.Part)
 		}
@@ -185,17 +187,17 @@ func TestRankWeighting(t *testing.T) {
 func TestRankDesignPoints(t *testing.T) {
 	var r weightedRank
 	decoded(t, &r, "rank", "--format", "json", "--design", decisionsDir+"/points.toml")
-	if strings.Join(r.Profile.Names, ",") != "full,light" {
-		t.Fatalf("points %v", r.Profile.Names)
+	if len(r.Profile) != 2 || r.Profile[0].Point != "full" || r.Profile[1].Point != "light" {
+		t.Fatalf("points %+v", r.Profile)
 	}
-	closeTo(t, "full weight", r.Profile.Weights[0], 0.75, 1e-12)
-	closeTo(t, "light weight", r.Profile.Weights[1], 0.25, 1e-12)
+	closeTo(t, "full weight", r.Profile[0].Weight, 0.75, 1e-12)
+	closeTo(t, "light weight", r.Profile[1].Weight, 0.25, 1e-12)
 	for _, res := range r.Results {
 		if res.Part != "lin-a" {
 			continue
 		}
 		// lin-a: full 0.8 + 0.4 = 1.2 W of 1 kW, light 4·2 mΩ + 0.4 = 0.408 W of 100 W.
-		closeTo(t, "lin-a weighted", res.EffWeighted, 0.75*1000/1001.2+0.25*100/100.408, 1e-12)
+		closeTo(t, "lin-a weighted", res.EffWeighted, 100*(0.75*1000/1001.2+0.25*100/100.408), 1e-12)
 	}
 }
 
@@ -221,7 +223,10 @@ func TestRankParallelAuto(t *testing.T) {
 		}
 		if strings.HasPrefix(res.Part, "case-d") {
 			for i, w := range []float64{2.0, 1.6, 1.6/3 + 1.2, 2.0} {
-				closeTo(t, "case-d P(N)", res.Tried[i], w, 1e-9)
+				if res.Tried[i].N != i+1 {
+					t.Errorf("case-d count %d: %d", i, res.Tried[i].N)
+				}
+				closeTo(t, "case-d P(N)", res.Tried[i].TotalW, w, 1e-9)
 			}
 			closeTo(t, "case-d total", res.TotalW, 1.6, 1e-9)
 			closeTo(t, "case-d single", res.SingleTotalW, 2.0, 1e-9)

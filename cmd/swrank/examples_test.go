@@ -135,17 +135,12 @@ func TestDocExamples(t *testing.T) {
 		t.Run(filepath.Base(doc), func(t *testing.T) {
 			t.Chdir(t.TempDir())
 			for _, ex := range exs {
-				args := make([]string, len(ex.args))
-				for i, a := range ex.args {
+				for _, a := range ex.args {
 					if strings.Contains(a, "...") {
 						t.Errorf("%s: placeholder %q: write a command that runs", ex.where, a)
 					}
-					// A path into the repository is read from the clone.
-					if p := filepath.Join(root, a); !filepath.IsAbs(a) && strings.Contains(a, "/") && fileExists(p) {
-						a = p
-					}
-					args[i] = a
 				}
+				args := exampleArgs(root, ex)
 				var out, errb bytes.Buffer
 				if code := runIO(args, strings.NewReader(""), &out, &errb); code != ex.code {
 					t.Errorf("%s: swrank %s: exit %d, want %d\n%s", ex.where, strings.Join(ex.args, " "), code, ex.code, errb.String())
@@ -156,6 +151,19 @@ func TestDocExamples(t *testing.T) {
 	if total < 10 {
 		t.Errorf("found %d examples in the documentation; the extraction is broken", total)
 	}
+}
+
+// exampleArgs returns the arguments of ex with each path into the
+// repository made absolute under root, so that it is read from the clone.
+func exampleArgs(root string, ex example) []string {
+	args := make([]string, len(ex.args))
+	for i, a := range ex.args {
+		if p := filepath.Join(root, a); !filepath.IsAbs(a) && strings.Contains(a, "/") && fileExists(p) {
+			a = p
+		}
+		args[i] = a
+	}
+	return args
 }
 
 func fileExists(p string) bool {

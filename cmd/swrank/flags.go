@@ -13,7 +13,6 @@ import (
 	q "swrank/devices/quantity"
 	"swrank/rank/decide"
 	"swrank/rank/design"
-	"swrank/rank/report"
 	"swrank/rank/resonant"
 	"swrank/rank/stage"
 )
@@ -124,6 +123,7 @@ type inputs struct {
 	format  string
 	all     bool
 	top     int
+	view    view
 }
 
 // register registers the library and operating-point flags on fs.
@@ -187,9 +187,10 @@ func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 
 // outputFlags registers the output flags on fs.
 func (in *inputs) registerOutput(fs *flag.FlagSet) {
-	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
-	fs.BoolVar(&in.all, "all", false, "show screened parts in the table too")
-	fs.IntVar(&in.top, "top", 0, "show only the best `N` parts (0: all)")
+	fs.StringVar(&in.format, "format", defaultFormat, "output `FORMAT`: table, csv, json or markdown")
+	fs.BoolVar(&in.all, "all", false, "list every part: the whole ranking in the table (default: the best 20 and a count of the rest) and the parts set aside as rows")
+	fs.IntVar(&in.top, "top", 0, "rank only the best `N` parts (0: all)")
+	in.view.register(fs)
 }
 
 // registerDecisions registers the flags of the decision features (design

@@ -13,7 +13,7 @@ func runParts(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := newFlagSet("parts", "parts LIB.csv ... (\"-\": standard input; or --demo) [--format table|csv|json|markdown]", stdout)
 	fs.BoolVar(&in.demo, "demo", false, "list the built-in demo library")
 	fs.BoolVar(&in.read.UnknownAsNotes, "notes-columns", false, "accept columns swrank does not know as your own notes (default: an error naming the closest known column)")
-	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
+	fs.StringVar(&in.format, "format", defaultFormat, "output `FORMAT`: table, csv, json or markdown")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -21,7 +21,7 @@ func runParts(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if len(in.parts) == 0 && !in.demo {
 		return usagef("parts takes one or more library files (- for standard input), or --demo")
 	}
-	if err := report.CheckFormat(in.format); err != nil {
+	if err := checkFormat(in.format); err != nil {
 		return usagef("%v", err)
 	}
 	lib, devs, err := loadLibrary(&in, stdin, stderr)
@@ -29,5 +29,5 @@ func runParts(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	rep := report.PartsList{Source: lib.Source, Devices: devs}
-	return rep.Write(stdout, in.format)
+	return writeReport(stdout, rep.Report(), &in)
 }

@@ -18,7 +18,7 @@ func TestParts(t *testing.T) {
 		code int
 		want []string // in stdout, or in stderr when code != 0
 	}{
-		{"demo table", []string{"parts", "--demo"}, 0, []string{"library demo: 23 parts", "slate-30-lo", "DFN 5x6", "100 A", "est."}},
+		{"demo table", []string{"parts", "--demo"}, 0, []string{"library demo: 23 parts", "slate-30-lo", "DFN 5x6", "100 A", "est:"}},
 		{"two files csv", []string{"parts", cli + "lib.csv", cli + "hand_a.csv", "--format", "csv"}, 0,
 			[]string{"part,technology,package,vds_max_v,id_max_a,estimated,estimates\n", "low-r,si,box-8,30,80,", "hand-a,si,"}},
 		{"markdown", []string{"parts", "--format", "markdown", cli + "lib.csv"}, 0, []string{"| small-q"}},

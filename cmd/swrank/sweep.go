@@ -7,6 +7,7 @@ import (
 	"io"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 
 	q "swrank/devices/quantity"
@@ -15,6 +16,7 @@ import (
 	"swrank/rank/design"
 	"swrank/rank/fit"
 	"swrank/rank/report"
+	"swrank/rank/report/svg"
 )
 
 const sweepSynopsis = `sweep --var fsw|iout|vin|vdrive --from X --to Y [--steps N] [--scale log|linear] [--top N | PART ...] [--components] [--plot FILE.svg|png] [stage flags as for rank]`
@@ -27,6 +29,7 @@ type sweepFlags struct {
 	scale      string
 	components bool
 	plot       string
+	logY       bool
 }
 
 func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
@@ -35,7 +38,8 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var sf sweepFlags
 	fs := newFlagSet("sweep", sweepSynopsis, stdout)
 	in.register(fs)
-	fs.StringVar(&in.format, "format", report.DefaultFormat, "output `FORMAT`: table, csv, json or markdown")
+	fs.StringVar(&in.format, "format", defaultFormat, "output `FORMAT`: table, csv, json or markdown")
+	in.view.register(fs)
 	fs.IntVar(&in.top, "top", decide.DefaultSweepTop, "sweep the best `N` parts over the range (fewest screened points, then least mean loss; 0: all) unless parts are named")
 	registerDecisions(fs, &dec)
 	fs.StringVar(&sf.variable, "var", decide.SweepFsw.String(), "the `VARIABLE` swept: fsw (Hz), iout (A), vin (V; custom stage: the blocking voltage) or vdrive (V)")
@@ -45,6 +49,7 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs.StringVar(&sf.scale, "scale", "", "grid steps, `KIND`: log (equal ratios; the default for fsw) or linear (the default otherwise)")
 	fs.BoolVar(&sf.components, "components", false, "show each loss component per part and point (one row per part and point)")
 	fs.StringVar(&sf.plot, "plot", "", "also draw loss against the swept variable to `FILE.svg` or FILE.png (replaced atomically)")
+	fs.BoolVar(&sf.logY, "log-y", false, "plot the loss on a log scale")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -54,7 +59,7 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if dec.Multi() {
 		return errors.New("sweep works at one operating point: drop --weighting or the design's [[point]] tables")
 	}
-	if err := report.CheckFormat(in.format); err != nil {
+	if err := checkFormat(in.format); err != nil {
 		return err
 	}
 	v, err := decide.ParseSweepVar(sf.variable)
@@ -131,7 +136,9 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 			ptrs[i] = &dn
 		}
 	}
-	sw, err := decide.Sweep(in.stage, dec.LightLoad(), spec, ptrs, partner, rank.Options{})
+	bar := newProgress(stderr, len(ptrs), "sweeping "+strconv.Itoa(len(ptrs))+" parts")
+	sw, err := decide.Sweep(in.stage, dec.LightLoad(), spec, ptrs, partner, rank.Options{Progress: bar.add})
+	bar.finish()
 	if err != nil {
 		return err
 	}
@@ -146,13 +153,23 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	rep := report.Sweep{Result: sw, Set: set, Crossovers: cs, Components: sf.components, Source: lib.Source, Parts: len(devs)}
+	index := map[string]int{}
+	for i := range devs {
+		index[devs[i].Part.Name] = i
+	}
+	for _, d := range ptrs {
+		if _, ok := index[d.Part.Name]; !ok {
+			index[d.Part.Name] = index[strings.TrimSpace(strings.Split(d.Part.Name, " ×")[0])]
+		}
+	}
+	sr := report.Sweep{Result: sw, Set: set, Crossovers: cs, Components: sf.components, Source: lib.Source, Parts: len(devs), Index: index}
+	rep := sr.Report()
 	if sf.plot != "" {
-		if err := writePlot(sf.plot, &rep); err != nil {
+		if err := writePlot(sf.plot, rep.Plot, sf.logY); err != nil {
 			return err
 		}
 	}
-	if err := rep.Write(stdout, in.format); err != nil {
+	if err := writeReport(stdout, rep, &in); err != nil {
 		return err
 	}
 	for k := range sw.Devs {
@@ -202,13 +219,13 @@ func checkPlotPath(plot string, others ...string) error {
 
 // writePlot draws the sweep to path (.svg or .png), atomically: the image
 // goes to a temporary file in the same directory, renamed into place.
-func writePlot(path string, rep *report.Sweep) error {
+func writePlot(path string, pl *report.Plot, logY bool) error {
 	format := strings.TrimPrefix(strings.ToLower(filepath.Ext(path)), ".")
 	if format != "svg" && format != "png" {
 		return fmt.Errorf("--plot %q: the file must end in .svg or .png", path)
 	}
 	var buf bytes.Buffer
-	if err := rep.Plot(&buf, format); err != nil {
+	if err := svg.Write(&buf, pl, format, svg.Options{LogY: logY}); err != nil {
 		return err
 	}
 	return design.WriteAtomic(path, buf.Bytes(), false)

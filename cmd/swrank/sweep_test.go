@@ -13,21 +13,18 @@ import (
 )
 
 type sweepOut struct {
-	Variable string   `json:"variable"`
-	Scale    string   `json:"scale"`
-	Parts    []string `json:"parts"`
-	Points   []struct {
-		X     float64 `json:"x"`
-		Best  string  `json:"best"`
-		Parts []struct {
-			Part   string  `json:"part"`
-			TotalW float64 `json:"total_w"`
-		} `json:"parts"`
-	} `json:"points"`
+	Variable string `json:"variable"`
+	Scale    string `json:"scale"`
+	Grid     []struct {
+		X      float64 `json:"fsw_hz"`
+		Part   string  `json:"part"`
+		TotalW float64 `json:"total_w"`
+		Best   bool    `json:"best"`
+	} `json:"grid"`
 	Crossovers []struct {
 		X    float64 `json:"x"`
-		From string  `json:"from"`
-		To   string  `json:"to"`
+		From string  `json:"from_part"`
+		To   string  `json:"to_part"`
 		Kind string  `json:"kind"`
 	} `json:"crossovers"`
 }
@@ -45,7 +42,7 @@ func TestSweepCrossovers(t *testing.T) {
 	for _, steps := range []string{"3", "25"} {
 		var s sweepOut
 		decoded(t, &s, append(sweepBase, "--steps", steps, "--format", "json", "lin-a", "lin-b", "lin-c")...)
-		if s.Scale != "log" || s.Variable != "fsw" || len(s.Parts) != 3 {
+		if s.Scale != "log" || s.Variable != "fsw" || len(s.Grid) == 0 || len(s.Grid)%3 != 0 {
 			t.Fatalf("sweep %+v", s)
 		}
 		if len(s.Crossovers) != 2 {
@@ -60,16 +57,14 @@ func TestSweepCrossovers(t *testing.T) {
 				t.Errorf("%s steps, crossover %d: %+v, want %s → %s at %.9g Hz", steps, i, c, w.from, w.to, w.x)
 			}
 		}
-		for _, p := range s.Points {
-			for _, l := range p.Parts {
-				a := map[string][2]float64{"lin-a": {0.2, 2e-6}, "lin-b": {0.4, 1e-6}, "lin-c": {0.8, 0.25e-6}}[l.Part]
-				closeTo(t, l.Part+" loss", l.TotalW, a[0]+a[1]*p.X, 1e-9)
-			}
+		for _, l := range s.Grid {
+			a := map[string][2]float64{"lin-a": {0.2, 2e-6}, "lin-b": {0.4, 1e-6}, "lin-c": {0.8, 0.25e-6}}[l.Part]
+			closeTo(t, l.Part+" loss", l.TotalW, a[0]+a[1]*l.X, 1e-9)
 		}
 	}
 	// The table and CSV forms, and --components.
 	code, out, errOut := runSw(t, append(sweepBase, "--steps", "5", "lin-a", "lin-b", "lin-c")...)
-	if code != 0 || !strings.Contains(out, "at 200.0 kHz: lin-a → lin-b (equal loss") {
+	if code != 0 || !strings.Contains(out, "at 200 kHz: lin-a → lin-b (equal loss") {
 		t.Errorf("table: exit %d %s\n%s", code, errOut, out)
 	}
 	code, out, _ = runSw(t, append(sweepBase, "--steps", "5", "--format", "csv", "--components", "lin-a", "lin-b")...)
@@ -80,8 +75,12 @@ func TestSweepCrossovers(t *testing.T) {
 	// The best parts by default (--top), and errors.
 	var top sweepOut
 	decoded(t, &top, append(sweepBase, "--steps", "5", "--top", "2", "--format", "json")...)
-	if len(top.Parts) != 2 {
-		t.Errorf("--top 2: parts %v", top.Parts)
+	parts := map[string]bool{}
+	for _, g := range top.Grid {
+		parts[g.Part] = true
+	}
+	if len(parts) != 2 {
+		t.Errorf("--top 2: parts %v", parts)
 	}
 	for _, bad := range [][]string{
 		{"--steps", "1"}, {"--var", "temperature"}, {"--scale", "cubic"}, {"--from", "2M"}, {"--parallel", "auto"}, {"--plot", "x.pdf"},
@@ -139,7 +138,7 @@ func TestSweepPlot(t *testing.T) {
 		t.Errorf("root element %q", root)
 	}
 	all := strings.Join(texts, "\n")
-	for _, want := range []string{"lin-a", "lin-b", "lin-c", "switching frequency (Hz)", "total stage loss (W)", "crossover", "200.0 kHz", "100 kHz"} {
+	for _, want := range []string{"lin-a", "lin-b", "lin-c", "switching frequency (Hz)", "total stage loss (W)", "crossover", "200 kHz", "100 kHz"} {
 		if !strings.Contains(all, want) {
 			t.Errorf("the SVG's text lacks %q:\n%s", want, all)
 		}

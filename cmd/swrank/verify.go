@@ -11,7 +11,6 @@ import (
 	"runtime"
 	"time"
 
-	"github.com/schollz/progressbar/v3"
 	"golang.org/x/term"
 
 	"swrank/devices"
@@ -68,20 +67,24 @@ func (s *simFlags) cache(stderr io.Writer) *spice.Cache {
 	return &spice.Cache{Dir: dir}
 }
 
-// progress returns a progress callback drawing a bar on stderr when
-// stderr is a terminal, else nil.
-func progress(stderr io.Writer, what string) func(done, total int) {
-	f, ok := stderr.(*os.File)
-	if !ok || !term.IsTerminal(int(f.Fd())) {
+// simProgress returns a callback for verify.Options.Progress that draws
+// a progress bar on stderr (progress) when stderr is a terminal, else nil.
+// The callback is called with the parts done so far, one call at a time.
+func simProgress(stderr io.Writer, what string) func(done, total int) {
+	if f, ok := stderr.(*os.File); !ok || !term.IsTerminal(int(f.Fd())) {
 		return nil
 	}
-	var bar *progressbar.ProgressBar
+	var bar *progress
+	last := 0
 	return func(done, total int) {
 		if bar == nil {
-			bar = progressbar.NewOptions(total, progressbar.OptionSetWriter(f), progressbar.OptionSetDescription(what),
-				progressbar.OptionClearOnFinish())
+			bar = newProgress(stderr, total, what)
 		}
-		bar.Set(done)
+		bar.add(done - last)
+		last = done
+		if done >= total {
+			bar.finish()
+		}
 	}
 }
 
@@ -143,12 +146,12 @@ func runVerify(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	res := rank.Rank(pt, devs, partner, rank.Options{})
 	rep, err := verify.Run(context.Background(), pt, res, verify.Options{Top: in.top, Jobs: sf.jobs, Runner: r, Base: base,
-		Sim: spice.SimOptions{Cache: sf.cache(stderr)}, Progress: progress(stderr, "verify")})
+		Sim: spice.SimOptions{Cache: sf.cache(stderr)}, Progress: simProgress(stderr, "verify")})
 	if err != nil {
 		return err
 	}
-	v := report.Verification{Report: rep, Source: lib.source, Parts: len(devs)}
-	if err := v.Write(stdout, in.format); err != nil {
+	v := report.Verification{Result: rep, Source: lib.source, Parts: len(devs)}
+	if err := writeReport(stdout, v.Report(), &in); err != nil {
 		return err
 	}
 	failed := 0

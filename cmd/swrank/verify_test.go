@@ -82,7 +82,7 @@ func TestVerifyRoundTrip(t *testing.T) {
 		t.Fatalf("%d CSV rows:\n%s", len(rows), out.String())
 	}
 	for _, r := range rows[1:] {
-		if !strings.Contains(r, ",no,") {
+		if !strings.Contains(r, ",false,") { // flagged: false
 			t.Errorf("share outside its margin: %s", r)
 		}
 	}

@@ -231,6 +231,9 @@ func Sweep(base stage.Stage, ll stage.LightLoad, spec SweepSpec, devs []*fit.Dev
 				r.pass[k*m+i] = !res.Screened()
 			}
 		}
+		if opt.Progress != nil {
+			opt.Progress(hi - lo)
+		}
 	}
 	rank.ForChunks(n, r.workers, 16, eval)
 	return r, nil

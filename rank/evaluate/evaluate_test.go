@@ -151,7 +151,7 @@ func TestEvaluateLoopInductance(t *testing.T) {
 			if got := sy.Screens&ScreenVoltage != 0; got != c.screenedSync {
 				t.Errorf("sync voltage screen %v, want %v", got, c.screenedSync)
 			}
-			if ct.Flags&fit.FlagLoopL == 0 || !hasStep(&tr, "control", "loop inductance") || !hasStep(&tr, "sync", "loop overshoot") {
+			if ct.Flags&fit.FlagLoopL == 0 || !hasStep(&tr, "control", "power-path inductance") || !hasStep(&tr, "sync", "overshoot from the power path") {
 				t.Errorf("loop inductance not reported")
 			}
 		})

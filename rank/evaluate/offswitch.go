@@ -49,8 +49,8 @@ func offSwitchChecks(sy, ct *DeviceResult, pt *stage.Point, oss *ossMemo, tr *Tr
 				sy.Screens |= ScreenVoltage
 			}
 			if tr != nil {
-				tr.add(sy.Role.String(), "loop overshoot", "V peak = V + min(L·I_on/t_ir of the control switch's turn-on, I_on·√(L/C_oss(V))): the recovered current interrupted at the same rate, at most ringing whole into the output capacitance",
-					T("L loop", l), T("I on (control)", ct.Stress.IOn), T("t_ir (control)", tRise), T("C_oss(V)", coss), T("V peak", sy.Vpeak))
+				tr.add(sy.Role.String(), "overshoot from the power path", "V peak = V + min(L·I_on/t of the control switch's current take-over, I_on·√(L/C_oss(V))): the recovered current interrupted at the same rate, at most ringing whole into the output capacitance",
+					T("L power path", l), T("I on (control)", ct.Stress.IOn), T("current takes over (control)", tRise), T("C_oss(V)", coss), peakTerm(sy.Vpeak, d.Part.VdsMax))
 			}
 		}
 	}

@@ -24,18 +24,19 @@ func (r *Result) Reasons() []string {
 		add := func(format string, a ...any) { out = append(out, who+": "+fmt.Sprintf(format, a...)) }
 		if s&ScreenVoltage != 0 {
 			v := max(d.Vpeak, d.Stress.V)
-			if r.RF.VPeak > 0 {
-				add("peak switch voltage %s (with this part's own output capacitance in the resonant stage) exceeds %.0f %% of vds_max %s",
-					r.RF.VPeak, 100*float64(r.Derate), p.VdsMax)
-			} else if v > d.Stress.V {
-				est := ""
-				if d.Flags&(fit.FlagLloopEstimated|fit.FlagLcsEstimated) != 0 {
-					est = "; the package inductance is estimated: give l_loop and l_cs to judge it"
-				}
-				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %.0f %% of vds_max %s%s",
-					v, d.Stress.V, 100*float64(r.Derate), p.VdsMax, est)
-			} else {
-				add("drain voltage %s exceeds %.0f %% of vds_max %s", v, 100*float64(r.Derate), p.VdsMax)
+			limit := fmt.Sprintf("the derating limit %s (%.0f %% of vds_max %s, --derate)", q.Voltage(r.Derate)*p.VdsMax, 100*float64(r.Derate), p.VdsMax)
+			switch {
+			case r.RF.VPeak > 0:
+				add("peak switch voltage %s (with this part's own output capacitance in the resonant stage) exceeds %s", r.RF.VPeak, limit)
+			case v > d.Stress.V && v > p.VdsMax:
+				// The overshoot the loop inductance would make is not
+				// reachable: the part breaks down first.
+				add("the turn-off overshoot on %s blocked would drive the drain past vds_max %s: the part would avalanche%s",
+					d.Stress.V, p.VdsMax, estimatedL(d))
+			case v > d.Stress.V:
+				add("peak drain voltage %s (%s blocked plus the loop-inductance overshoot) exceeds %s%s", v, d.Stress.V, limit, estimatedL(d))
+			default:
+				add("drain voltage %s exceeds %s", v, limit)
 			}
 		}
 		if s&ScreenPeakCurrent != 0 {
@@ -109,4 +110,13 @@ func (r *Result) Reasons() []string {
 		out = append(out, fmt.Sprintf("%s: strict ranking: its result rests on %d estimated values (%s)", r.Dev.Part.Name, r.Flags.Estimates(), (r.Flags&fit.EstimateFlags).Codes()))
 	}
 	return out
+}
+
+// estimatedL is the advice added to an overshoot when the package
+// inductances behind it are estimated ("" otherwise).
+func estimatedL(d *DeviceResult) string {
+	if d.Flags&(fit.FlagLloopEstimated|fit.FlagLcsEstimated) != 0 {
+		return "; the package inductance is estimated: give l_loop and l_cs to judge it"
+	}
+	return ""
 }

@@ -36,22 +36,22 @@ type Screens uint32
 
 // The screens.
 const (
-	ScreenVoltage        Screens = 1 << iota // peak drain voltage above derate × vds_max
-	ScreenPeakCurrent                        // peak drain current above id_pulse
-	ScreenRmsCurrent                         // rms current above the derated continuous rating
-	ScreenGateMax                            // on drive above vgs_max
-	ScreenGateMin                            // off drive below vgs_min
-	ScreenBelowThreshold                     // on drive at or below the threshold
-	ScreenBelowPlateau                       // on drive at or below the plateau at the working current
-	ScreenTjMax                              // junction temperature above tj_max
-	ScreenRunaway                            // no steady junction temperature
-	ScreenNoOutputCap                        // no usable output-capacitance data for the position
-	ScreenFalseTurnOn                        // the off switch's gate reaches its hot threshold (dv/dt bounce or off level)
-	ScreenShuntTooSmall                      // class E: the part's output capacitance alone exceeds the shunt the design needs
-	ScreenTooSlow                            // class E: the current fall takes too large a part of the period
-	ScreenImplausible                        // the result is not physical: a loss above the power the stage processes, or a negative or non-finite share
-	ScreenEstimated                          // strict ranking: the result rests on estimated values
-	ScreenCrossConduction                    // a dead time too short for the gates: both channels conduct at once
+	ScreenVoltage         Screens = 1 << iota // peak drain voltage above derate × vds_max
+	ScreenPeakCurrent                         // peak drain current above id_pulse
+	ScreenRmsCurrent                          // rms current above the derated continuous rating
+	ScreenGateMax                             // on drive above vgs_max
+	ScreenGateMin                             // off drive below vgs_min
+	ScreenBelowThreshold                      // on drive at or below the threshold
+	ScreenBelowPlateau                        // on drive at or below the plateau at the working current
+	ScreenTjMax                               // junction temperature above tj_max
+	ScreenRunaway                             // no steady junction temperature
+	ScreenNoOutputCap                         // no usable output-capacitance data for the position
+	ScreenFalseTurnOn                         // the off switch's gate reaches its hot threshold (dv/dt bounce or off level)
+	ScreenShuntTooSmall                       // class E: the part's output capacitance alone exceeds the shunt the design needs
+	ScreenTooSlow                             // class E: the current fall takes too large a part of the period
+	ScreenImplausible                         // the result is not physical: a loss above the power the stage processes, or a negative or non-finite share
+	ScreenEstimated                           // strict ranking: the result rests on estimated values
+	ScreenCrossConduction                     // a dead time too short for the gates: both channels conduct at once
 )
 
 // stageScreens applies the screens of the whole result: a result that is

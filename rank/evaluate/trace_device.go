@@ -1,6 +1,8 @@
 package evaluate
 
 import (
+	"math"
+
 	q "swrank/devices/quantity"
 	"swrank/rank/fit"
 )
@@ -15,40 +17,40 @@ func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *temp
 	}
 	hist = append(hist, T("Ta", s.Ambient), T("Rth", out.Rth), T("P fixed", fixed),
 		T("P edges+dead+gate at Tj", a.p), T("P conduction at Tj", out.Losses.Conduction),
-		N("loop gain", out.Thermal.Gain), N("steps", float64(out.Thermal.Iterations)), T("Tj", out.Thermal.Tj))
+		N("loop gain", out.Thermal.Gain), N("steps", float64(out.Thermal.Iterations)), tjTerm(out))
 	tr.add(name, "thermal", "Tj = Ta + Rth·P(Tj), P(Tj) the whole device loss (conduction, edges, dead time, gate), fixed point from Ta ("+out.Thermal.Status.String()+")", hist...)
 	terms := []Term{T("Tj", tj), N("Vth tempco (V/K)", d.VthTC), T("Vth 25 °C", d.Vth), T("Vth at Tj", a.vth),
-		T("Vpl spec 25 °C", d.VplSpec), T("Vpl on at Tj", a.vplOn), T("Vpl off at Tj", a.vplOff)}
+		T("gate shelf, datasheet 25 °C", d.VplSpec), T("gate shelf at turn-on, Tj", a.vplOn), T("gate shelf at turn-off, Tj", a.vplOff)}
 	if m.dead {
 		terms = append(terms, N("Vsd tempco (V/K)", d.VsdTC))
 	}
-	tr.add(name, "temperature", "Vth(Tj) = Vth(25 °C) + k·(Tj − 25 °C); the plateau moves with it (lower plateau: faster turn-on, slower turn-off)", terms...)
+	tr.add(name, "temperature", "Vth(Tj) = Vth(25 °C) + k·(Tj − 25 °C); the gate shelf (where the gate holds while the drain swings) moves with it (a lower shelf: faster turn-on, slower turn-off)", terms...)
 	tr.add(name, "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f over the curve at Tj, split per edge by the loop resistances",
 		T("Qg moved", a.qg), T("Von", drv.VOn), T("Voff", drv.VOff), T("E stored in gate", a.stored),
-		T("R src (effective)", m.rdOn), T("R snk (effective)", m.rdOff), T("Rg ext", drv.RgExt), T("Rg int", d.RgInt),
+		T("driver pull-up R (effective)", m.rdOn), T("driver pull-down R (effective)", m.rdOff), T("Rg ext", drv.RgExt), T("Rg int", d.RgInt),
 		T("E gate/cycle", a.egate), T("driver", out.Losses.GateDriver), T("Rg ext", out.Losses.GateRext),
 		T("Rg int", out.Losses.GateRint), T("quiescent", out.Losses.DriverQuiescent))
 	if m.hard && m.driveOK {
 		if d.Method == fit.MethodGateCharge {
-			tr.add(name, "transitions", "gate-charge method at Tj: t = Q / I_gate, I_gate = (V_drive − V_gate)/R_loop (at the mean gate voltage (Vth+Vpl)/2 while the current moves)",
+			tr.add(name, "transitions", "gate-charge method at Tj: each edge interval lasts t = Q / I_gate, I_gate = (V_drive − V_gate)/R_gate path (at the mean gate voltage (Vth+V_shelf)/2 while the current moves)",
 				T("Qgd at V", d.MillerChargeAt(st.V)), T("Vth", a.vth),
-				T("Vpl on", a.vplOn), T("Vpl off", a.vplOff), T("R loop on", m.rOn), T("R loop off", m.rOff),
-				T("t_ir", a.trans.Tir), T("t_vf", a.trans.Tvf), T("t_vr", a.trans.Tvr), T("t_if", a.trans.Tif))
+				T("gate shelf at turn-on", a.vplOn), T("gate shelf at turn-off", a.vplOff), T("gate path R, charging", m.rOn), T("gate path R, discharging", m.rOff),
+				T("on: current takes over", a.trans.Tir), T("on: drain swings down", a.trans.Tvf), T("off: drain swings up", a.trans.Tvr), T("off: current lets go", a.trans.Tif))
 		} else {
 			tr.add(name, "transitions", "datasheet times at Tj: t = t_10-90/0.8 · (R_loop/R_test) · (headroom_test/headroom)",
 				T("tr", d.Part.Tr.V), T("tf", d.Part.Tf.V), T("R test", d.TswR),
-				T("headroom on", drv.VOn-a.vplOn), T("headroom off", a.vplOff-drv.VOff),
-				T("t on", a.trans.Tvf), T("t off", a.trans.Tvr))
+				T("drive above the shelf, on", drv.VOn-a.vplOn), T("shelf above the off level", a.vplOff-drv.VOff),
+				T("on: drain swings down", a.trans.Tvf), T("off: drain swings up", a.trans.Tvr))
 		}
 		if m.lcs > 0 {
-			tr.add(name, "common-source inductance", "t = (R·Qgs2 + Lcs·I)/(V_drive − V_gate,mean): Lcs·di/dt is taken out of the gate loop while the current moves",
-				T("Lcs", m.lcs), T("t_ir without", a.tir0), T("t_ir with", a.trans.Tir), T("t_if without", a.tif0), T("t_if with", a.trans.Tif),
+			tr.add(name, "common-source inductance", "t = (R·Qgs2 + Lcs·I)/(V_drive − V_gate,mean): Lcs·di/dt is taken out of the gate path's drive while the current moves",
+				T("Lcs", m.lcs), T("current takes over, without", a.tir0), T("current takes over, with", a.trans.Tir), T("current lets go, without", a.tif0), T("current lets go, with", a.trans.Tif),
 				T("ΔE on", a.elcsOn), T("ΔE off", a.elcsOff))
 		}
 		if m.lloop > 0 {
-			tr.add(name, "loop inductance", "turn-on: the switch sees V − L·di/dt while the current rises; turn-off: V + L·di/dt while it falls (+½·L·I²); peak = V + L·I_off/t_fall",
-				T("L loop (layout + packages)", m.lloop), T("layout", s.LoopInductance), T("own package", d.Lloop),
-				T("I off", st.IOff), T("t fall", a.tFall), T("V peak", a.vpeak),
+			tr.add(name, "power-path inductance", "turn-on: the switch sees V − L·di/dt while the current rises; turn-off: V + L·di/dt while it falls (+½·L·I²); peak = V + L·I_off/t_fall",
+				T("L power path (layout + packages)", m.lloop), T("layout", s.LoopInductance), T("own package", d.Lloop),
+				T("I off", st.IOff), T("t fall", a.tFall), peakTerm(a.vpeak, d.Part.VdsMax),
 				T("½·L·I_off²", q.Energy(0.5*float64(m.lloop)*float64(st.IOff)*float64(st.IOff))),
 				T("net ΔE per cycle", a.eloop))
 		}
@@ -70,4 +72,23 @@ func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *temp
 		T("Rds", out.Rds), T("P", out.Losses.Conduction))
 	tr.add(name, "off-state margin", "margin = Vth(Tj) − Voff (static; the dv/dt bounce of the synchronous switch follows)",
 		T("Vth at Tj", a.vth), T("Voff", drv.VOff), T("margin", a.vth-drv.VOff))
+}
+
+// tjTerm is the solved junction temperature, or a term with no value
+// (printed "none") when no steady temperature exists (runaway).
+func tjTerm(out *DeviceResult) Term {
+	if !out.Thermal.Found {
+		return Term{Name: "Tj, runaway", Value: math.NaN(), Kind: q.Temperature(0).Kind()}
+	}
+	return T("Tj", out.Thermal.Tj)
+}
+
+// peakTerm is the peak drain voltage, or, when the overshoot would pass
+// vds_max, the breakdown voltage the part would avalanche at instead of a
+// number it cannot reach.
+func peakTerm(vpeak, vdsMax q.Voltage) Term {
+	if vpeak > vdsMax {
+		return T("V peak: past vds_max, the part would avalanche near", vdsMax)
+	}
+	return T("V peak", vpeak)
 }

@@ -1,27 +1,27 @@
-// Package report writes what swrank computes, in each output format of its
-// commands. It formats and computes nothing else: percentages and sums for
-// display at most.
+// Package report is the one report model of every swrank command: rank
+// on both its paths (a plain ranking, and the decision path with worst
+// case, price, load profiles and paralleling), compare, sweep, explain,
+// check, verify and parts each build one Report, and one renderer per
+// format draws it, each in a package of its own below this one:
 //
-// It takes the results of the rank packages as they are:
+//   - report/table: the text table for a terminal (a compact default set
+//     of columns, --wide and --columns for more, numbered notes);
+//   - report/markdown: the same tables in Markdown's pipe syntax;
+//   - report/csv: one row per part (or per part and point), plain numbers
+//     with the unit in the header;
+//   - report/json: the whole document, with a schema version;
+//   - report/svg: the plots of a sweep (SVG or PNG).
 //
-//   - Ranking: a plain ranking, evaluate.Result in rank order at one
-//     stage.Point (from rank.Rank or rank.Best), with decide.Leaders for
-//     the worst case of the leading parts and the price-loss front;
-//   - Decisions: the decision path of rank, decide.Candidate at a
-//     decide.Plan (a point or a load profile, paralleled counts);
-//   - Comparison: decide.Comparison of candidates against the part
-//     already fitted;
-//   - Sweep: a decide.SweepResult with its crossovers, also drawn as a
-//     plot (Sweep.Plot);
-//   - WriteExplain: one evaluate.Result with the evaluate.Trace of the
-//     same evaluation;
-//   - WriteCheck: the devices.ProblemList of a parts library.
+// Field names are defined once, in Fields (fields.go), with their unit and
+// meaning; docs/output.md lists them and a test keeps the two in step.
+// Every number is held in SI units (watts, kelvin steps, degrees Celsius
+// for temperatures); formatting for a reader is the renderers' job, with
+// the helpers of format.go shared between them.
 //
-// and gives text to an io.Writer in the format asked for: table (text, in
-// table.go with the text around the tables in text.go), csv (csv.go),
-// json (json.go, json_decide.go), markdown (markdown.go), and SVG or PNG
-// for a plot (svg.go). CheckFormat tells the format names.
-//
-// report may import every rank package; only the command (cmd/swrank)
-// imports it.
+// The builders (Ranking.Report, Decisions.Report, Comparison.Report,
+// Sweep.Report, Explain, Check, Verification.Report, PartsList.Report)
+// take the results of the rank packages as they are and compute nothing
+// but sums and percentages for display.
+// report may import every rank package; its renderers import it; only the
+// command (cmd/swrank) imports the renderers.
 package report

@@ -1,23 +1,18 @@
 package report
 
 import (
-	"encoding/json"
-	"fmt"
-	"io"
-	"strconv"
-
-	q "swrank/devices/quantity"
 	"swrank/rank/fit"
 )
 
-// PartsList is the report of "swrank parts": each part of a library with
-// its ratings, package and technology, and how complete its row is.
+// PartsList is what swrank parts lists: each part of a library with its
+// ratings, package and technology, and how complete its row is.
 type PartsList struct {
 	Source  string       // the library's name (its path, "stdin" or "demo")
 	Devices []fit.Device // the parts, prepared, in file order
 }
 
-// PartsListJSON is one part in the JSON form of a PartsList.
+// PartsListJSON is one part of the list as the JSON document's "parts"
+// array holds it (the fields of the same names).
 type PartsListJSON struct {
 	Part       string  `json:"part"`
 	Technology string  `json:"technology"`
@@ -28,58 +23,31 @@ type PartsListJSON struct {
 	Estimates  string  `json:"estimates"` // their flag codes, comma-separated
 }
 
-// rows returns one PartsListJSON per part.
-func (r *PartsList) rows() []PartsListJSON {
-	out := make([]PartsListJSON, len(r.Devices))
+// partsColumns are the list's columns, in every format.
+var partsColumns = []string{"part", "technology", "package", "vds_max_v", "id_max_a", "estimated", "estimates"}
+
+// Report builds the list's report: one row per part, and a line saying
+// what the count of estimates means.
+func (r *PartsList) Report() *Report {
+	rep := &Report{Command: "parts", Library: r.Source, Parts: len(r.Devices)}
+	rep.About = []string{"library " + r.Source + ": " + Plural(len(r.Devices), "part", "parts")}
+	t := Table{Name: "parts", Compact: partsColumns, Fit: "estimates"}
 	for i := range r.Devices {
 		d := &r.Devices[i]
 		est := d.Flags & fit.EstimateFlags
-		out[i] = PartsListJSON{Part: d.Part.Name, Technology: d.Part.Technology.String(), Package: d.Part.Package,
-			VdsMaxV: float64(d.Part.VdsMax), IdMaxA: float64(d.Part.IdMax), Estimated: est.Estimates(), Estimates: est.Codes()}
+		var row Row
+		row.Set("part", Text(d.Part.Name))
+		row.Set("technology", Text(d.Part.Technology.String()))
+		row.Set("package", Text(d.Part.Package))
+		row.Set("vds_max_v", Num(float64(d.Part.VdsMax)))
+		row.Set("id_max_a", Num(float64(d.Part.IdMax)))
+		row.Set("estimated", Num(float64(est.Estimates())))
+		row.Set("estimates", Text(est.Codes()))
+		t.Rows = append(t.Rows, row)
 	}
-	return out
-}
-
-// Write writes the list as table, csv, json or markdown.
-func (r *PartsList) Write(w io.Writer, format string) error {
-	if err := CheckFormat(format); err != nil {
-		return err
-	}
-	rows := r.rows()
-	switch format {
-	case "json":
-		e := json.NewEncoder(w)
-		e.SetIndent("", "  ")
-		return e.Encode(struct {
-			Source string          `json:"source"`
-			Parts  []PartsListJSON `json:"parts"`
-		}{r.Source, rows})
-	case "csv":
-		c := newSafeCSV(w)
-		all := [][]string{{"part", "technology", "package", "vds_max_v", "id_max_a", "estimated", "estimates"}}
-		for _, p := range rows {
-			all = append(all, []string{p.Part, p.Technology, p.Package, strconv.FormatFloat(p.VdsMaxV, 'g', -1, 64),
-				strconv.FormatFloat(p.IdMaxA, 'g', -1, 64), strconv.Itoa(p.Estimated), p.Estimates})
-		}
-		return c.WriteAll(all)
-	}
-	md := format == "markdown"
-	if !md {
-		if _, err := fmt.Fprintf(w, "library %s: %d parts\n\n", r.Source, len(rows)); err != nil {
-			return err
-		}
-	}
-	cells := make([][]string, len(rows))
-	for i, p := range rows {
-		cells[i] = []string{p.Part, p.Technology, p.Package, q.Format(q.Voltage(p.VdsMaxV), 3), q.Format(q.Current(p.IdMaxA), 3),
-			strconv.Itoa(p.Estimated), p.Estimates}
-	}
-	if err := writeTable(w, []string{"part", "tech", "package", "vds max", "id max", "est.", "estimated values"}, cells, md); err != nil {
-		return err
-	}
-	if md {
-		return nil
-	}
-	_, err := fmt.Fprintln(w, "\nest.: blank values the models estimate for this part (its row is complete at 0); \"swrank rank -h\" and docs/library.md say what each needs")
-	return err
+	rep.Tables = []Table{t}
+	rep.Sections = []Section{{Key: "legend", Lines: []string{
+		"est: blank values the models estimate for this part (0: its row is complete); estimated values: their codes, " +
+			"cut to the width (--format csv or json lists them whole); \"swrank rank -h\" and docs/library.md say what each needs"}}}
+	return rep
 }

@@ -2,224 +2,161 @@ package report
 
 import (
 	"fmt"
-	"io"
+	"slices"
 	"strings"
-
-	"github.com/olekukonko/tablewriter"
-	"github.com/olekukonko/tablewriter/tw"
 
 	q "swrank/devices/quantity"
 	"swrank/rank/verify"
 )
 
-// Verification is the report of swrank verify: the shortlist's predicted
-// and simulated loss shares side by side.
+// Verification is what swrank verify found: the shortlist's predicted and
+// simulated loss shares side by side.
 type Verification struct {
-	Report *verify.Report
-	Source string // the library's name
-	Parts  int    // parts in the library
+	Result *verify.Report // the simulations and their comparison
+	Source string         // the library's name
+	Parts  int            // parts in the library
 }
 
-// Write writes the verification in format: table (the default for any
-// other name), csv, json or markdown.
-func (v *Verification) Write(w io.Writer, format string) error {
-	switch strings.ToLower(format) {
-	case "csv":
-		return v.csv(w)
-	case "json":
-		return v.json(w)
-	case "markdown":
-		return v.table(w, true)
-	}
-	return v.table(w, false)
-}
+// verifyColumns are the columns of the shares table in the text formats.
+var verifyColumns = []string{"rank", "part", "share", "predicted_w", "simulated_w", "difference_pct", "margin_pct", "flag"}
 
-// diffCells returns the relative difference, the margin and the flag mark
-// of a share.
-func diffCells(p *verify.Part, s verify.Share) (string, string, string) {
-	d, ok := s.Diff()
-	diff := "–"
-	if ok {
-		diff = fmt.Sprintf("%+.1f %%", 100*d)
-	}
-	mark := ""
-	for _, f := range p.Flagged {
-		if f == s.Name {
-			mark = "outside margin"
-		}
-	}
-	return diff, fmt.Sprintf("%.0f %%", 100*verify.Margin(s.Name)), mark
-}
-
-func (v *Verification) table(w io.Writer, markdown bool) error {
-	r := v.Report
-	describePoint(w, r.Point, v.Source, v.Parts)
-	fmt.Fprintf(w, "simulated in ngspice at %d °C; predicted under the same conditions (Tj %d °C, no package or layout inductance)\n\n",
-		verify.SimTemperature, verify.SimTemperature)
-	h := []string{"#", "part", "share", "predicted", "simulated", "difference", "margin", "flag"}
-	align := []tw.Align{tw.AlignRight, tw.AlignLeft, tw.AlignLeft, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignRight, tw.AlignLeft}
-	opts := withMarkdown([]tablewriter.Option{
-		tablewriter.WithHeaderAutoFormat(tw.Off),
-		tablewriter.WithHeader(h),
-		tablewriter.WithRowAlignmentConfig(tw.CellAlignment{PerColumn: align}),
-	}, markdown)
-	t := tablewriter.NewTable(w, opts...)
+// Report builds verify's report: one row per share of each verified part
+// (predicted, simulated, their difference, the margin and whether the
+// share is outside it), a machine-only table of each part's simulation,
+// and sections saying how each part was simulated, which shares are
+// flagged and their largest cause, whether the simulated order agrees and
+// where the margins come from.
+func (v *Verification) Report() *Report {
+	r := v.Result
+	rep := &Report{Command: "verify", Library: v.Source, Parts: v.Parts}
+	pointRecords(rep, r.Point)
+	rep.About = append(aboutPoint(r.Point, v.Source, v.Parts),
+		fmt.Sprintf("simulated in ngspice at %d °C; predicted under the same conditions (Tj %d °C, no package or layout inductance)",
+			verify.SimTemperature, verify.SimTemperature))
+	rep.Meta.Set("sim_temperature_c", Num(verify.SimTemperature))
+	rep.Meta.Set("predicted_order", List(r.PredictedOrder))
+	rep.Meta.Set("simulated_order", List(r.SimulatedOrder))
+	rep.Meta.Set("order_agrees", Bool(r.OrderAgrees))
+	shares := Table{Name: "shares", Compact: verifyColumns}
+	sims := Table{Name: "simulations", MachineOnly: true}
+	var lines, failed []string
 	for i := range r.Parts {
 		p := &r.Parts[i]
-		for j, s := range p.Shares {
-			rank, name := "", ""
-			if j == 0 {
-				rank, name = fmt.Sprint(p.Rank), p.Name
+		simulated := p.Err == nil && p.Sim != nil
+		for _, s := range p.Shares {
+			var row Row
+			row.Set("rank", Num(float64(p.Rank)))
+			row.Set("part", Text(p.Name))
+			row.Set("share", Text(s.Name))
+			row.Set("predicted_w", Num(s.Predicted))
+			row.Set("simulated_w", Unknown())
+			row.Set("difference_pct", Unknown())
+			row.Set("margin_pct", Num(100*verify.Margin(s.Name)))
+			row.Set("flagged", Unknown())
+			row.Set("flag", Text("not simulated"))
+			if simulated {
+				row.Set("simulated_w", Num(s.Simulated))
+				if d, ok := s.Diff(); ok {
+					row.Set("difference_pct", Num(100*d))
+				}
+				flagged := slices.Contains(p.Flagged, s.Name)
+				row.Set("flagged", Bool(flagged))
+				row.Set("flag", Text("within margin"))
+				if flagged {
+					row.Set("flag", Text("outside margin"))
+				}
 			}
-			row := []string{rank, name, s.Name, watts(s.Predicted), "–", "–", "", ""}
-			if p.Err == nil && p.Sim != nil {
-				row[4] = watts(s.Simulated)
-				row[5], row[6], row[7] = diffCells(p, s)
-			} else {
-				row[6] = fmt.Sprintf("%.0f %%", 100*verify.Margin(s.Name))
-				row[7] = "not simulated"
-			}
-			if err := t.Append(row); err != nil {
-				return err
-			}
+			row.Set("error", errText(p.Err))
+			shares.Rows = append(shares.Rows, row)
 		}
-	}
-	if err := t.Render(); err != nil {
-		return err
-	}
-	fmt.Fprintln(w)
-	for i := range r.Parts {
-		p := &r.Parts[i]
-		switch {
-		case p.Err != nil:
-			fmt.Fprintf(w, "- %s: simulation failed: %v\n", p.Name, p.Err)
-			continue
-		case p.Sim == nil:
-			continue
+		sims.Rows = append(sims.Rows, simRow(p))
+		if p.Err != nil {
+			failed = append(failed, fmt.Sprintf("%s: simulation failed: %v", p.Name, p.Err))
 		}
-		how := fmt.Sprintf("steady state after %d periods (last two periods within %.2g %%), %d run(s)", p.Sim.Periods, 100*p.Sim.PSS, p.Sim.Runs)
-		if p.Sim.Relaxed {
-			how += ", ten times looser tolerances (the time step stalled with the tight ones)"
-		}
-		if p.Sim.Cached {
-			how += ", from the cache"
-		}
-		if p.Sim.ILMean != 0 {
-			how += fmt.Sprintf(", inductor %s mean", q.Format(q.Current(p.Sim.ILMean), 4))
-		}
-		if p.Sim.Rectifier != 0 {
-			how += fmt.Sprintf(", rectifier diode %s", watts(p.Sim.Rectifier))
-		}
-		if p.Sim.Kept != "" {
-			how += "; deck kept in " + p.Sim.Kept
-		}
-		fmt.Fprintf(w, "- %s: %s\n", p.Name, how)
-		if len(p.Flagged) > 0 {
-			fmt.Fprintf(w, "  outside the margin: %s; the largest difference is in %s\n", strings.Join(p.Flagged, ", "), p.Cause)
-		}
+		lines = append(lines, simLines(p)...)
 	}
 	for _, s := range r.Skipped {
-		fmt.Fprintf(w, "- skipped %s\n", s)
+		lines = append(lines, "skipped "+s)
+	}
+	rep.Tables = []Table{shares, sims}
+	if len(lines) > 0 {
+		rep.Sections = append(rep.Sections, Section{Key: "simulation_lines", Title: "simulations:", Lines: lines})
+	}
+	if len(failed) > 0 {
+		rep.Sections = append(rep.Sections, Section{Key: "failures", Title: "not simulated:", Lines: failed, Verbatim: true})
 	}
 	if len(r.SimulatedOrder) > 1 {
-		if r.OrderAgrees {
-			fmt.Fprintf(w, "\norder of the shortlist: the simulation agrees (%s)\n", strings.Join(r.SimulatedOrder, ", "))
-		} else {
-			fmt.Fprintf(w, "\norder of the shortlist: the simulation differs: predicted %s; simulated %s\n",
+		order := fmt.Sprintf("order of the shortlist: the simulation agrees (%s)", strings.Join(r.SimulatedOrder, ", "))
+		if !r.OrderAgrees {
+			order = fmt.Sprintf("order of the shortlist: the simulation differs: predicted %s; simulated %s",
 				strings.Join(r.PredictedOrder, ", "), strings.Join(r.SimulatedOrder, ", "))
 		}
+		rep.Sections = append(rep.Sections, Section{Key: "order", Lines: []string{order}})
 	}
-	fmt.Fprintf(w, "margins: from the cross-check against ngspice (docs/spice-crosscheck.md); shares under %.0f %% of the simulated total are not flagged\n",
-		100*verify.Floor)
-	return nil
+	rep.Sections = append(rep.Sections, Section{Key: "margins", Lines: []string{fmt.Sprintf(
+		"margins: from the cross-check against ngspice (docs/spice-crosscheck.md); shares under %.0f %% of the simulated total are not flagged",
+		100*verify.Floor)}})
+	return rep
 }
 
-func (v *Verification) csv(w io.Writer) error {
-	rows := [][]string{{"rank", "part", "share", "predicted_w", "simulated_w", "difference", "margin", "flagged", "error"}}
-	for i := range v.Report.Parts {
-		p := &v.Report.Parts[i]
-		for _, s := range p.Shares {
-			row := []string{fmt.Sprint(p.Rank), p.Name, s.Name, num(s.Predicted), "", "", num(verify.Margin(s.Name)), "", ""}
-			if p.Err != nil || p.Sim == nil {
-				row[8] = fmt.Sprint(p.Err)
-			} else {
-				row[4] = num(s.Simulated)
-				if d, ok := s.Diff(); ok {
-					row[5] = num(d)
-				}
-				row[7] = "no"
-				for _, f := range p.Flagged {
-					if f == s.Name {
-						row[7] = "yes"
-					}
-				}
-			}
-			rows = append(rows, row)
-		}
+// simRow is one part's simulation as numbers: how long it ran to steady
+// state, from the cache or not, the rectifier's loss, the flagged shares'
+// largest cause, or the error.
+func simRow(p *verify.Part) Row {
+	var row Row
+	row.Set("rank", Num(float64(p.Rank)))
+	row.Set("part", Text(p.Name))
+	row.Set("periods", Unknown())
+	row.Set("steady_state_pct", Unknown())
+	row.Set("runs", Unknown())
+	row.Set("cached", Unknown())
+	row.Set("rectifier_w", Unknown())
+	if p.Err == nil && p.Sim != nil {
+		row.Set("periods", Num(float64(p.Sim.Periods)))
+		row.Set("steady_state_pct", Num(100*p.Sim.PSS))
+		row.Set("runs", Num(float64(p.Sim.Runs)))
+		row.Set("cached", Bool(p.Sim.Cached))
+		row.Set("rectifier_w", Num(p.Sim.Rectifier))
 	}
-	return newSafeCSV(w).WriteAll(rows)
+	row.Set("cause", Text(p.Cause))
+	row.Set("error", errText(p.Err))
+	return row
 }
 
-// JSONVerifyShare is one share of one verified part, W.
-type JSONVerifyShare struct {
-	Share      string   `json:"share"`
-	Predicted  float64  `json:"predicted_w"`
-	Simulated  *float64 `json:"simulated_w,omitempty"`
-	Difference *float64 `json:"difference,omitempty"` // (predicted − simulated)/simulated
-	Margin     float64  `json:"margin"`
-	Flagged    bool     `json:"flagged"`
-}
-
-// JSONVerifyPart is one verified part.
-type JSONVerifyPart struct {
-	Rank      int               `json:"rank"`
-	Part      string            `json:"part"`
-	Shares    []JSONVerifyShare `json:"shares"`
-	Cause     string            `json:"cause,omitempty"`
-	Error     string            `json:"error,omitempty"`
-	Periods   int               `json:"periods,omitempty"`
-	PSS       float64           `json:"steady_state_difference,omitempty"`
-	Cached    bool              `json:"cached,omitempty"`
-	Rectifier float64           `json:"rectifier_w,omitempty"`
-}
-
-// JSONVerify is the JSON document of verify.
-type JSONVerify struct {
-	OperatingPoint JSONPoint        `json:"operating_point"`
-	SimTemperature float64          `json:"sim_temperature_c"`
-	Parts          []JSONVerifyPart `json:"parts"`
-	Skipped        []string         `json:"skipped,omitempty"`
-	PredictedOrder []string         `json:"predicted_order"`
-	SimulatedOrder []string         `json:"simulated_order"`
-	OrderAgrees    bool             `json:"order_agrees"`
-}
-
-func (v *Verification) json(w io.Writer) error {
-	r := v.Report
-	doc := JSONVerify{OperatingPoint: pointJSON(r.Point), SimTemperature: verify.SimTemperature, Skipped: r.Skipped,
-		PredictedOrder: r.PredictedOrder, SimulatedOrder: r.SimulatedOrder, OrderAgrees: r.OrderAgrees}
-	for i := range r.Parts {
-		p := &r.Parts[i]
-		jp := JSONVerifyPart{Rank: p.Rank, Part: p.Name, Cause: p.Cause}
-		if p.Err != nil {
-			jp.Error = p.Err.Error()
-		} else if p.Sim != nil {
-			jp.Periods, jp.PSS, jp.Cached, jp.Rectifier = p.Sim.Periods, p.Sim.PSS, p.Sim.Cached, p.Sim.Rectifier
-		}
-		for _, s := range p.Shares {
-			js := JSONVerifyShare{Share: s.Name, Predicted: s.Predicted, Margin: verify.Margin(s.Name)}
-			if p.Err == nil && p.Sim != nil {
-				js.Simulated = ptr(s.Simulated)
-				if d, ok := s.Diff(); ok {
-					js.Difference = ptr(d)
-				}
-				for _, f := range p.Flagged {
-					js.Flagged = js.Flagged || f == s.Name
-				}
-			}
-			jp.Shares = append(jp.Shares, js)
-		}
-		doc.Parts = append(doc.Parts, jp)
+// simLines say how one part was simulated and which of its shares are
+// outside their margins (none for a part not simulated).
+func simLines(p *verify.Part) []string {
+	if p.Err != nil || p.Sim == nil {
+		return nil
 	}
-	return writeJSON(w, doc)
+	how := fmt.Sprintf("steady state after %d periods (last two periods within %.2g %%), %s", p.Sim.Periods, 100*p.Sim.PSS,
+		Plural(p.Sim.Runs, "run", "runs"))
+	if p.Sim.Relaxed {
+		how += ", ten times looser tolerances (the time step stalled with the tight ones)"
+	}
+	if p.Sim.Cached {
+		how += ", from the cache"
+	}
+	if p.Sim.ILMean != 0 {
+		how += fmt.Sprintf(", inductor %s mean", q.Format(q.Current(p.Sim.ILMean), 4))
+	}
+	if p.Sim.Rectifier != 0 {
+		how += ", rectifier diode " + SI(p.Sim.Rectifier, "W")
+	}
+	if p.Sim.Kept != "" {
+		how += "; deck kept in " + p.Sim.Kept
+	}
+	out := []string{p.Name + ": " + how}
+	if len(p.Flagged) > 0 {
+		out = append(out, fmt.Sprintf("%s: outside the margin: %s; the largest difference is in %s", p.Name, strings.Join(p.Flagged, ", "), p.Cause))
+	}
+	return out
+}
+
+// errText is an error's message as a text cell (unknown for none).
+func errText(err error) Cell {
+	if err == nil {
+		return Unknown()
+	}
+	return Text(err.Error())
 }

@@ -101,6 +101,15 @@ type Point struct {
 	RF RFPoint
 	// Notes are what Resolve assumed or noticed, for the user.
 	Notes []string
+	// Defaulted says which values Resolve filled with their defaults
+	// because the stage left them unset, so that a report can say so.
+	Defaulted Defaulted
+}
+
+// Defaulted lists the stage values taken at their defaults.
+type Defaulted struct {
+	Ambient  bool // Ambient is DefaultAmbient because none was given
+	DeadTime bool // no dead time was given: DefaultDeadTime where the stage has one
 }
 
 // Resolve checks the stage, fills its defaults and computes the switch
@@ -122,6 +131,7 @@ func (s Stage) Resolve() (Point, error) { return s.ResolveLight(LightLoad{}) }
 // a current that crosses zero as well.
 func (s Stage) ResolveLight(ll LightLoad) (Point, error) {
 	var pt Point
+	pt.Defaulted = Defaulted{Ambient: s.Ambient == 0, DeadTime: !s.DeadTime.OK}
 	if err := s.fill(&pt); err != nil {
 		return Point{}, err
 	}

@@ -1,0 +1,97 @@
+// Package markdown draws a report.Report's tables in Markdown's pipe
+// syntax, for pasting into a design review: the same columns as the text
+// table (compact, wide or chosen), the notes as a numbered list and the
+// sections as bullet lists. The lines about the operating point come
+// first as a bullet list.
+package markdown
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"swrank/rank/report"
+)
+
+// Options choose what the tables show (as for the text table).
+type Options struct {
+	Wide    bool     // the wide column set
+	Columns []string // the columns shown, in order (overrides Wide)
+	All     bool     // every row of a ranked table
+}
+
+// Write draws rep to w in Markdown.
+func Write(w io.Writer, rep *report.Report, opt Options) error {
+	var b strings.Builder
+	for _, l := range rep.About {
+		if strings.TrimSpace(l) != "" {
+			b.WriteString("- " + escape(strings.TrimSpace(l)) + "\n")
+		}
+	}
+	for i := range rep.Tables {
+		t := &rep.Tables[i]
+		if t.MachineOnly {
+			continue
+		}
+		limit := report.DefaultLimit
+		if opt.All {
+			limit = 0
+		}
+		rows, more := t.Shown(limit)
+		g := report.TextGrid(t, t.Select(opt.Wide, opt.Columns, rows), rows)
+		if b.Len() > 0 {
+			b.WriteString("\n")
+		}
+		writeGrid(&b, g)
+		if more > 0 {
+			fmt.Fprintf(&b, "\n… and %s ranked below these %d.\n", report.Plural(more, "part", "parts more"), len(rows))
+		}
+		if len(g.Notes) > 0 {
+			b.WriteString("\nNotes:\n\n")
+			for k, n := range g.Notes {
+				fmt.Fprintf(&b, "%d. `%s` %s\n", k+1, n.Code, escape(n.Text))
+			}
+		}
+	}
+	for _, s := range rep.Sections {
+		b.WriteString("\n")
+		if s.Title != "" {
+			b.WriteString(escape(s.Title) + "\n\n")
+		}
+		for _, l := range s.Lines {
+			b.WriteString("- " + escape(l) + "\n")
+		}
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// writeGrid writes one pipe table.
+func writeGrid(b *strings.Builder, g report.Grid) {
+	cells := func(cs []string) {
+		b.WriteString("|")
+		for _, c := range cs {
+			b.WriteString(" " + escape(c) + " |")
+		}
+		b.WriteString("\n")
+	}
+	cells(g.Heads)
+	b.WriteString("|")
+	for _, n := range g.Numeric {
+		if n {
+			b.WriteString("--:|")
+		} else {
+			b.WriteString(":--|")
+		}
+	}
+	b.WriteString("\n")
+	for _, r := range g.Cells {
+		cells(r)
+	}
+}
+
+// escape keeps a cell's pipes and a line's leading markup from being read
+// as Markdown.
+func escape(s string) string {
+	return strings.ReplaceAll(s, "|", `\|`)
+}
