@@ -39,6 +39,7 @@ func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []fit.Device, 
 	if err != nil {
 		return nil, nil, err
 	}
+	noteDialect(stderr, lib.Source, lib.Dialect)
 	for _, w := range lib.Warnings {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
@@ -175,6 +176,7 @@ func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io
 	if probs.Fatal() {
 		return report.Ranking{}, probs.Fatals()
 	}
+	noteDialect(stderr, hdr.Source, hdr.Dialect)
 	for _, w := range probs.Warnings() {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
@@ -229,6 +231,7 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		}
 		lib, probs := opts.Check(f, path)
 		f.Close()
+		noteDialect(stderr, path, lib.Dialect)
 		if err := report.WriteCheck(stdout, path, lib, probs); err != nil {
 			return err
 		}
@@ -238,4 +241,12 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		return &exitError{code: 1, err: fmt.Errorf("%d fatal problems", fatal)}
 	}
 	return nil
+}
+
+// noteDialect says on stderr, in one line, which dialect a library was
+// read in when it is not plain comma-separated CSV.
+func noteDialect(stderr io.Writer, source string, d devices.Dialect) {
+	if !d.Plain() {
+		fmt.Fprintf(stderr, "swrank: %s: read as %s\n", devices.Printable(source), d)
+	}
 }
