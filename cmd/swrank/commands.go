@@ -3,11 +3,12 @@ package main
 import (
 	"bufio"
 	"bytes"
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
 	"os"
-	"strings"
+	"slices"
 
 	"swrank/devices"
 	"swrank/rank"
@@ -21,72 +22,39 @@ import (
 
 const rankSynopsis = `rank [--parts FILE.csv | --demo] [--topology buck|boost|custom] [stage flags] --vdrive V [driver, thermal and output flags]`
 
-// loadLibrary reads the parts library named by the flags and prepares
-// every part for evaluation. Warnings go to stderr.
-func loadLibrary(in *inputs, stderr io.Writer) (*devices.Library, []fit.Device, error) {
-	var lib *devices.Library
-	var err error
-	switch {
-	case in.demo && in.parts != "":
-		return nil, nil, errors.New("give --parts or --demo, not both")
-	case in.demo:
-		lib, err = devices.Demo()
-	case in.parts != "":
-		lib, err = in.read.Load(in.parts)
-	default:
-		return nil, nil, errors.New("no parts library: give --parts FILE.csv or --demo")
-	}
-	if err != nil {
-		return nil, nil, err
-	}
-	noteDialect(stderr, lib.Source, lib.Dialect)
-	for _, w := range lib.Warnings {
-		fmt.Fprintf(stderr, "swrank: %v\n", w)
-	}
-	devs := make([]fit.Device, len(lib.Parts))
-	for i := range lib.Parts {
-		d, err := fit.Prepare(&lib.Parts[i])
-		if err != nil {
-			return nil, nil, fmt.Errorf("%s: %w", lib.Source, err)
-		}
-		devs[i] = d
-	}
-	return lib, devs, nil
-}
-
-// findDevice returns the device named name (case-insensitive).
-func findDevice(devs []fit.Device, name string) (*fit.Device, error) {
-	for i := range devs {
-		if strings.EqualFold(devs[i].Part.Name, name) {
-			return &devs[i], nil
-		}
-	}
-	return nil, fmt.Errorf("no part named %q in the library", name)
+// prepared is the shared inputs resolved: the operating point and the
+// library read and prepared.
+type prepared struct {
+	pt      *stage.Point
+	devs    []fit.Device
+	partner *fit.Device // --partner, or nil
+	lib     *devices.Library
+	aside   []rank.SetAside // the parts that could not be prepared
 }
 
 // prepare parses the shared inputs and resolves the operating point.
-func prepare(in *inputs, stderr io.Writer) (*stage.Point, []fit.Device, *fit.Device, *devices.Library, error) {
+func prepare(in *inputs, stderr io.Writer) (*prepared, error) {
 	if err := report.CheckFormat(in.format); err != nil {
-		return nil, nil, nil, nil, err
+		return nil, err
 	}
 	pt, err := in.stage.Resolve()
 	if err != nil {
-		return nil, nil, nil, nil, fmt.Errorf("operating point: %w", err)
+		return nil, fmt.Errorf("operating point: %w", err)
 	}
-	lib, devs, err := loadLibrary(in, stderr)
+	lib, devs, aside, err := loadLibrary(in, stderr)
 	if err != nil {
-		return nil, nil, nil, nil, err
+		return nil, err
 	}
 	var partner *fit.Device
 	if in.partner != "" {
 		if !pt.HasSync || pt.Stage.Topology == stage.ClassD {
-			return nil, nil, nil, nil, errors.New("--partner needs a synchronous buck or boost stage (class D ranks the part in both places)")
+			return nil, errors.New("--partner needs a synchronous buck or boost stage (class D ranks the part in both places)")
 		}
-		if partner, err = findDevice(devs, in.partner); err != nil {
-			return nil, nil, nil, nil, fmt.Errorf("--partner: %w", err)
+		if partner, err = findDevice(devs, aside, in.partner); err != nil {
+			return nil, fmt.Errorf("--partner: %w", err)
 		}
 	}
-	return &pt, devs, partner, lib, nil
+	return &prepared{pt: &pt, devs: devs, partner: partner, lib: lib, aside: aside}, nil
 }
 
 func runRank(args []string, stdout, stderr io.Writer) error {
@@ -109,13 +77,13 @@ func runRank(args []string, stdout, stderr io.Writer) error {
 		return runRankDecisions(&in, &dec, stdout, stderr)
 	}
 	if in.partner != "" {
-		pt, devs, partner, lib, err := prepare(&in, stderr)
+		p, err := prepare(&in, stderr)
 		if err != nil {
 			return err
 		}
-		res := rank.Rank(pt, devs, partner, rank.Options{})
-		rep := report.Ranking{Point: pt, Source: lib.Source, Parts: len(lib.Parts), Results: res, All: in.all, Top: in.top}
-		return writeRanking(stdout, in.format, &rep, partner)
+		res := rank.Rank(p.pt, p.devs, p.partner, rank.Options{})
+		rep := report.Ranking{Point: p.pt, Source: p.lib.Source, Parts: len(p.lib.Parts), Results: res, SetAside: p.aside, All: in.all, Top: in.top}
+		return writeRanking(stdout, in.format, &rep, p.partner)
 	}
 	rep, err := rankStream(&in, stderr)
 	if err != nil {
@@ -128,11 +96,7 @@ func runRank(args []string, stdout, stderr io.Writer) error {
 // and the price-loss front, when the library gives maximum values or
 // prices.
 func writeRanking(w io.Writer, format string, rep *report.Ranking, partner *fit.Device) error {
-	cs, err := decide.Leaders(rep.Point, partner, rep.Shown())
-	if err != nil {
-		return err
-	}
-	return rep.WriteWithLeaders(w, format, cs)
+	return rep.WriteWithLeaders(w, format, decide.Leaders(rep.Point, partner, rep.Shown()))
 }
 
 // rankStream ranks a library without holding it: each part is read,
@@ -164,10 +128,13 @@ func rankStream(in *inputs, stderr io.Writer) (report.Ranking, error) {
 // rankReader ranks the library read from r at pt.
 func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io.Writer) (report.Ranking, error) {
 	best := rank.Best{N: in.top}
+	var aside []rank.SetAside
 	hdr, probs := in.read.Scan(r, name, func(p *devices.Part) error {
 		d, err := fit.Prepare(p)
 		if err != nil {
-			return err
+			// This part costs only itself.
+			aside = append(aside, rank.SetAside{Part: p.Name, Line: p.Line, Reason: err.Error()})
+			return nil
 		}
 		res := evaluate.Evaluate(pt, &d, nil, nil)
 		best.Offer(&res)
@@ -180,7 +147,7 @@ func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, stderr io
 	for _, w := range probs.Warnings() {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
-	return report.Ranking{Point: pt, Source: hdr.Source, Parts: best.Passed + best.Screened, Results: best.Results(),
+	return report.Ranking{Point: pt, Source: hdr.Source, Parts: best.Passed + best.Screened + len(aside), Results: best.Results(), SetAside: aside,
 		Screened: best.Screened, All: in.all, Top: in.top}, nil
 }
 
@@ -199,17 +166,17 @@ func runExplain(args []string, stdout, stderr io.Writer) error {
 	if in.format == "csv" || in.format == "markdown" {
 		return fmt.Errorf("explain prints table (text) or json, not %s", in.format)
 	}
-	pt, devs, partner, _, err := prepare(&in, stderr)
+	p, err := prepare(&in, stderr)
 	if err != nil {
 		return err
 	}
-	dev, err := findDevice(devs, fs.Arg(0))
+	dev, err := findDevice(p.devs, p.aside, fs.Arg(0))
 	if err != nil {
 		return err
 	}
 	var tr evaluate.Trace
-	r := evaluate.Evaluate(pt, dev, partner, &tr)
-	return report.WriteExplain(stdout, in.format, pt, &r, &tr)
+	r := evaluate.Evaluate(p.pt, dev, p.partner, &tr)
+	return report.WriteExplain(stdout, in.format, p.pt, &r, &tr)
 }
 
 func runCheck(args []string, stdout, stderr io.Writer) error {
@@ -232,6 +199,8 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		lib, probs := opts.Check(f, path)
 		f.Close()
 		noteDialect(stderr, path, lib.Dialect)
+		probs = append(probs, setAsideProblems(path, lib)...)
+		slices.SortStableFunc(probs, func(a, b *devices.Problem) int { return cmp.Compare(a.Line, b.Line) })
 		if err := report.WriteCheck(stdout, path, lib, probs); err != nil {
 			return err
 		}
@@ -241,12 +210,4 @@ func runCheck(args []string, stdout, stderr io.Writer) error {
 		return &exitError{code: 1, err: fmt.Errorf("%d fatal problems", fatal)}
 	}
 	return nil
-}
-
-// noteDialect says on stderr, in one line, which dialect a library was
-// read in when it is not plain comma-separated CSV.
-func noteDialect(stderr io.Writer, source string, d devices.Dialect) {
-	if !d.Plain() {
-		fmt.Fprintf(stderr, "swrank: %s: read as %s\n", devices.Printable(source), d)
-	}
 }

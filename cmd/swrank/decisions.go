@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 
+	"swrank/rank"
 	"swrank/rank/decide"
 	"swrank/rank/design"
 	"swrank/rank/fit"
@@ -22,20 +23,18 @@ func runRankDecisions(in *inputs, dec *design.Decisions, stdout, stderr io.Write
 	if err != nil {
 		return err
 	}
-	cs, err := decide.EvaluateAll(plan, devs, counts, auto)
-	if err != nil {
-		return err
-	}
-	if err := decide.AddWorst(plan, cs); err != nil {
-		return err
-	}
-	dr := report.Decisions{Plan: plan, Candidates: cs, Source: lib.source, Parts: len(devs), All: in.all, Top: in.top,
+	cs := decide.EvaluateAll(plan, devs, counts, auto)
+	decide.AddWorst(plan, cs)
+	dr := report.Decisions{Plan: plan, Candidates: cs, SetAside: lib.aside, Source: lib.source, Parts: len(devs) + len(lib.aside), All: in.all, Top: in.top,
 		Parallel: len(counts) > 1, Auto: auto}
 	return dr.Write(stdout, in.format)
 }
 
 // libInfo is what preparePlan loaded.
-type libInfo struct{ source string }
+type libInfo struct {
+	source string
+	aside  []rank.SetAside // the parts that could not be prepared
+}
 
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
@@ -51,7 +50,7 @@ func preparePlan(in *inputs, dec *design.Decisions, stderr io.Writer) (*decide.P
 	if plan.Profile, err = dec.Profile(in.stage); err != nil {
 		return nil, nil, libInfo{}, err
 	}
-	lib, devs, err := loadLibrary(in, stderr)
+	lib, devs, aside, err := loadLibrary(in, stderr)
 	if err != nil {
 		return nil, nil, libInfo{}, err
 	}
@@ -59,9 +58,9 @@ func preparePlan(in *inputs, dec *design.Decisions, stderr io.Writer) (*decide.P
 		if !pt.HasSync {
 			return nil, nil, libInfo{}, errors.New("--partner needs a synchronous buck or boost stage")
 		}
-		if plan.Partner, err = findDevice(devs, in.partner); err != nil {
+		if plan.Partner, err = findDevice(devs, aside, in.partner); err != nil {
 			return nil, nil, libInfo{}, fmt.Errorf("--partner: %w", err)
 		}
 	}
-	return plan, devs, libInfo{source: lib.Source}, nil
+	return plan, devs, libInfo{source: lib.Source, aside: aside}, nil
 }

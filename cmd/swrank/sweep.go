@@ -96,13 +96,14 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if auto {
 		return errors.New("sweep takes --parallel N, not auto (the best count would change along the sweep)")
 	}
-	lib, devs, err := loadLibrary(&in, stderr)
+	lib, devs, aside, err := loadLibrary(&in, stderr)
 	if err != nil {
 		return err
 	}
+	warnSetAside(stderr, lib.Source, aside)
 	var partner *fit.Device
 	if in.partner != "" {
-		if partner, err = findDevice(devs, in.partner); err != nil {
+		if partner, err = findDevice(devs, aside, in.partner); err != nil {
 			return fmt.Errorf("--partner: %w", err)
 		}
 	}
@@ -110,7 +111,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	var ptrs []*fit.Device
 	if fs.NArg() > 0 {
 		for _, name := range fs.Args() {
-			d, err := findDevice(devs, name)
+			d, err := findDevice(devs, aside, name)
 			if err != nil {
 				return err
 			}
@@ -124,12 +125,18 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 		}
 	}
 	if n := counts[len(counts)-1]; n > 1 {
-		for i, d := range ptrs {
+		kept := ptrs[:0]
+		for _, d := range ptrs {
 			dn, err := decide.Parallel(d, n)
 			if err != nil {
-				return err
+				// This copy costs only itself.
+				warnSetAside(stderr, lib.Source, []rank.SetAside{{Part: d.Part.Name, Line: d.Part.Line, Reason: fmt.Sprintf("%d in parallel: %v", n, err)}})
+				continue
 			}
-			ptrs[i] = &dn
+			kept = append(kept, &dn)
+		}
+		if ptrs = kept; len(ptrs) == 0 {
+			return errors.New("no part to sweep: every paralleled copy was set aside")
 		}
 	}
 	sw, err := decide.Sweep(in.stage, dec.LightLoad(), spec, ptrs, partner, rank.Options{})
@@ -147,7 +154,7 @@ func runSweep(args []string, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	rep := report.Sweep{Result: sw, Set: set, Crossovers: cs, Components: sf.components, Source: lib.Source, Parts: len(devs)}
+	rep := report.Sweep{Result: sw, Set: set, Crossovers: cs, Components: sf.components, Source: lib.Source, Parts: len(lib.Parts)}
 	if sf.plot != "" {
 		if err := writePlot(sf.plot, &rep); err != nil {
 			return err

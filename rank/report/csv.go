@@ -40,10 +40,10 @@ type safeCSV struct{ *csv.Writer }
 
 func newSafeCSV(w io.Writer) safeCSV { return safeCSV{csv.NewWriter(w)} }
 
-// Write neutralises and writes one record.
+// Write neutralises, escapes (csvText) and writes one record.
 func (c safeCSV) Write(row []string) error {
 	for j := range row {
-		row[j] = safeCell(row[j])
+		row[j] = csvText(row[j])
 	}
 	return c.Writer.Write(row)
 }
@@ -99,6 +99,13 @@ func (r *Ranking) csv(w io.Writer) error {
 			return err
 		}
 	}
+	for _, a := range r.SetAside {
+		row := make([]string, len(csvHeader))
+		row[0], row[1], row[len(row)-2], row[len(row)-1] = "x", a.Part, "true", "not evaluated: "+a.Reason
+		if err := cw.Write(row); err != nil {
+			return err
+		}
+	}
 	cw.Flush()
 	return cw.Error()
 }
@@ -118,11 +125,11 @@ func (r *Ranking) csvWithLeaders(w io.Writer, cs []decide.Candidate, front []int
 	col := slices.Index(rows[0], "part")
 	onFront := map[string]bool{}
 	for _, i := range front {
-		onFront[cs[i].Name()] = true
+		onFront[csvText(cs[i].Name())] = true
 	}
-	byName := map[string]*decide.Candidate{}
+	byName := map[string]*decide.Candidate{} // by the name as the CSV cell writes it
 	for i := range cs {
-		byName[cs[i].Name()] = &cs[i]
+		byName[csvText(cs[i].Name())] = &cs[i]
 	}
 	rows[0] = append(rows[0], "worst_total_w", "price", "price_front")
 	for i := 1; i < len(rows); i++ {
@@ -135,7 +142,7 @@ func (r *Ranking) csvWithLeaders(w io.Writer, cs []decide.Candidate, front []int
 				if p := c.Dev.Part.Price; p.OK {
 					price = num(p.V)
 				}
-				fr = strconv.FormatBool(onFront[c.Name()])
+				fr = strconv.FormatBool(onFront[csvText(c.Name())])
 			}
 		}
 		rows[i] = append(rows[i], worst, price, fr)

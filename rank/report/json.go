@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	q "swrank/devices/quantity"
+	"swrank/rank"
 	"swrank/rank/decide"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
@@ -116,17 +117,17 @@ type JSONResult struct {
 	Partner  string `json:"partner,omitempty"`
 	Position string `json:"position"`
 	JSONLosses
-	TjDegC   *float64     `json:"tj_degc"`
-	EffStage *float64     `json:"eff_stage,omitempty"`
-	LossPct  *float64     `json:"loss_pct,omitempty"`
-	Method   string       `json:"method"`
-	Flags    []string     `json:"flags"`
+	TjDegC   *float64 `json:"tj_degc"`
+	EffStage *float64 `json:"eff_stage,omitempty"`
+	LossPct  *float64 `json:"loss_pct,omitempty"`
+	Method   string   `json:"method"`
+	Flags    []string `json:"flags"`
 	// Estimated counts the values this result rests on that the library
 	// left blank and swrank estimated (the flags of fit.EstimateFlags).
 	Estimated int          `json:"estimated_values"`
 	Screened  bool         `json:"screened"`
-	Reasons  []string     `json:"reasons"`
-	Devices  []JSONDevice `json:"devices"`
+	Reasons   []string     `json:"reasons"`
+	Devices   []JSONDevice `json:"devices"`
 	// Class E and class D stages.
 	PeakV              *float64 `json:"peak_v,omitempty"`
 	PeakA              *float64 `json:"peak_a,omitempty"`
@@ -143,8 +144,24 @@ type JSONResult struct {
 
 // JSONReport is the JSON document of a plain ranking.
 type JSONReport struct {
-	OperatingPoint JSONPoint    `json:"operating_point"`
-	Results        []JSONResult `json:"results"`
+	OperatingPoint JSONPoint      `json:"operating_point"`
+	Results        []JSONResult   `json:"results"`
+	SetAside       []JSONSetAside `json:"set_aside,omitempty"`
+}
+
+// JSONSetAside is a part not evaluated, with the reason.
+type JSONSetAside struct {
+	Part   string `json:"part"`
+	Line   int    `json:"line,omitempty"`
+	Reason string `json:"reason"`
+}
+
+func setAsideJSON(as []rank.SetAside) []JSONSetAside {
+	var out []JSONSetAside
+	for _, a := range as {
+		out = append(out, JSONSetAside{Part: a.Part, Line: a.Line, Reason: a.Reason})
+	}
+	return out
 }
 
 func ptr(v float64) *float64 { return &v }
@@ -266,13 +283,19 @@ func (r *Ranking) json(w io.Writer) error {
 	for i, x := range r.Shown() {
 		out.Results = append(out.Results, resultJSON(i, &x, r.Point.Stage.Pout))
 	}
+	out.SetAside = setAsideJSON(r.SetAside)
 	return writeJSON(w, out)
 }
 
 func writeJSON(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
+	var b bytes.Buffer
+	enc := json.NewEncoder(&b)
 	enc.SetIndent("", "  ")
-	return enc.Encode(v)
+	if err := enc.Encode(v); err != nil {
+		return err
+	}
+	_, err := w.Write(guardJSON(b.Bytes()))
+	return err
 }
 
 // JSONStep is one step of an explanation.
@@ -324,11 +347,13 @@ func (r *Ranking) jsonWithLeaders(w io.Writer, cs []decide.Candidate, note strin
 		Part        string   `json:"part"`
 		TotalW      float64  `json:"total_w"`
 		WorstTotalW *float64 `json:"worst_total_w"`
+		// NotEvaluated is why the worst case could not be evaluated.
+		NotEvaluated string `json:"not_evaluated,omitempty"`
 	}
 	var wr []worstRow
 	for _, c := range cs {
-		if c.Worst != nil || c.NoMax {
-			row := worstRow{Part: c.Name(), TotalW: c.Chosen.Key()}
+		if c.Worst != nil || c.NoMax || c.WorstReason != "" {
+			row := worstRow{Part: c.Name(), TotalW: c.Chosen.Key(), NotEvaluated: c.WorstReason}
 			if c.Worst != nil {
 				row.WorstTotalW = ptr(c.Worst.Key())
 			}

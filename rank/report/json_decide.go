@@ -40,6 +40,11 @@ type jsonCandidate struct {
 	Reasons       []string       `json:"reasons"`
 	TriedN        []float64      `json:"tried,omitempty"`
 	TriedMeasures string         `json:"tried_measure,omitempty"`
+	// Unprepared names the counts whose paralleled copy could not be
+	// prepared (left out of tried), with the reason.
+	Unprepared []string `json:"unprepared_counts,omitempty"`
+	// WorstReason is why the worst case could not be evaluated.
+	WorstReason string `json:"worst_case_not_evaluated,omitempty"`
 }
 
 type jsonDecisions struct {
@@ -48,6 +53,7 @@ type jsonDecisions struct {
 	Library        string          `json:"library"`
 	LibraryParts   int             `json:"library_parts"`
 	Results        []jsonCandidate `json:"results"`
+	SetAside       []JSONSetAside  `json:"set_aside,omitempty"`
 	Spread         *jsonSpread     `json:"worst_case_spread,omitempty"`
 	PriceFront     []jsonFront     `json:"price_front,omitempty"`
 }
@@ -61,7 +67,7 @@ type jsonProfile struct {
 }
 
 func (r *Decisions) json(w io.Writer) error {
-	out := jsonDecisions{Library: r.Source, LibraryParts: r.Parts, Results: []jsonCandidate{}}
+	out := jsonDecisions{Library: r.Source, LibraryParts: r.Parts, Results: []jsonCandidate{}, SetAside: setAsideJSON(r.SetAside)}
 	if pr := r.Plan.Profile; pr != nil {
 		jp := &jsonProfile{Title: pr.Title, Source: pr.Source}
 		for _, p := range pr.Points {
@@ -75,8 +81,8 @@ func (r *Decisions) json(w io.Writer) error {
 		out.OperatingPoint = &p
 	}
 	for i, c := range r.Shown() {
-		j := jsonCandidate{Rank: i + 1, Part: c.Name(), N: c.N, Flags: flagList(c.Chosen.Flags()), Screened: c.Chosen.Screened(),
-			Reasons: r.reasons(c)}
+		j := jsonCandidate{Rank: i + 1, Part: c.Name(), N: c.N, Flags: flagList(c.Chosen.Flags()), Screened: c.Screened(),
+			Reasons: r.reasons(c), Unprepared: c.Unprepared, WorstReason: c.WorstReason}
 		if j.Reasons == nil {
 			j.Reasons = []string{}
 		}

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	q "swrank/devices/quantity"
+	"swrank/rank"
 	"swrank/rank/decide"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
@@ -34,6 +35,7 @@ type Ranking struct {
 	Source   string            // the library's name
 	Parts    int               // parts in the library
 	Results  []evaluate.Result // in rank order (all of them, or the leaders kept)
+	SetAside []rank.SetAside   // parts not evaluated, with the reason (always listed)
 	Screened int               // screened parts in the library (0: count the results)
 	All      bool              // list the screened parts too
 	Top      int               // list only the best Top parts (0: all)
@@ -63,9 +65,9 @@ func (r *Ranking) Write(w io.Writer, format string) error {
 	case "csv":
 		return r.csv(w)
 	case "markdown":
-		return r.markdown(w)
+		return guardText(w, r.markdown)
 	}
-	return r.table(w, false)
+	return guardText(w, func(w io.Writer) error { return r.table(w, false) })
 }
 
 // WriteWithLeaders writes the ranking with the worst case of its leading
@@ -86,7 +88,7 @@ func (r *Ranking) WriteWithLeaders(w io.Writer, format string, cs []decide.Candi
 	case "csv":
 		return r.csvWithLeaders(w, cs, front)
 	}
-	return r.textWithLeaders(w, format, cs, note, front, unit)
+	return guardText(w, func(w io.Writer) error { return r.textWithLeaders(w, format, cs, note, front, unit) })
 }
 
 // Decisions is the decision path of rank: parts at one point or over a
@@ -95,6 +97,7 @@ func (r *Ranking) WriteWithLeaders(w io.Writer, format string, cs []decide.Candi
 type Decisions struct {
 	Plan       *decide.Plan       // the point or profile evaluated
 	Candidates []decide.Candidate // in rank order (decide.EvaluateAll, decide.AddWorst)
+	SetAside   []rank.SetAside    // parts not evaluated, with the reason (always listed)
 	Source     string             // the library's name
 	Parts      int                // parts in the library
 	All        bool               // list the screened parts too
@@ -108,7 +111,7 @@ func (r *Decisions) Shown() []*decide.Candidate {
 	var out []*decide.Candidate
 	for i := range r.Candidates {
 		c := &r.Candidates[i]
-		if c.Chosen.Screened() && !r.All {
+		if c.Screened() && !r.All {
 			continue
 		}
 		out = append(out, c)
@@ -128,9 +131,9 @@ func (r *Decisions) Write(w io.Writer, format string) error {
 	case "csv":
 		return r.csv(w)
 	case "markdown":
-		return r.markdown(w)
+		return guardText(w, r.markdown)
 	}
-	return r.table(w, false)
+	return guardText(w, func(w io.Writer) error { return r.table(w, false) })
 }
 
 // unit prints a key value: watts at one point, % of the output power over
@@ -150,10 +153,13 @@ func (r *Decisions) keyUnit() string {
 }
 
 func (r *Decisions) reasons(c *decide.Candidate) []string {
-	if !c.Chosen.Prof {
-		return c.Chosen.Res.Reasons()
-	}
 	var out []string
+	if c.NotEvaluated != "" {
+		out = append(out, c.Base.Part.Name+": not evaluated: "+c.NotEvaluated)
+	}
+	if !c.Chosen.Prof {
+		return append(out, c.Chosen.Res.Reasons()...)
+	}
 	for i := range c.Chosen.W.Results {
 		for _, s := range c.Chosen.W.Results[i].Reasons() {
 			out = append(out, "at "+r.Plan.Profile.Points[i].Name+": "+s)
@@ -181,9 +187,9 @@ func (r *Comparison) Write(w io.Writer, format string) error {
 	case "csv":
 		return r.csv(w)
 	case "markdown":
-		return r.markdown(w)
+		return guardText(w, r.markdown)
 	}
-	return r.table(w, false)
+	return guardText(w, func(w io.Writer) error { return r.table(w, false) })
 }
 
 // columns returns the components worth a column: those non-zero for the
@@ -225,9 +231,9 @@ func (r *Sweep) Write(w io.Writer, format string) error {
 	case "csv":
 		return r.csv(w)
 	case "markdown":
-		return r.markdown(w)
+		return guardText(w, r.markdown)
 	}
-	return r.table(w, false)
+	return guardText(w, func(w io.Writer) error { return r.table(w, false) })
 }
 
 func (r *Sweep) name(k int) string { return r.Result.Devs[k].Part.Name }
@@ -253,7 +259,7 @@ func WriteExplain(w io.Writer, format string, pt *stage.Point, r *evaluate.Resul
 	if format == "json" {
 		return explainJSON(w, pt, r, tr)
 	}
-	return explainText(w, pt, r, tr)
+	return guardText(w, func(w io.Writer) error { return explainText(w, pt, r, tr) })
 }
 
 // fmtP prints a power with an SI prefix, "–" for exactly zero.

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -96,7 +97,7 @@ func (r *Ranking) table(w io.Writer, markdown bool) error {
 	t := tablewriter.NewTable(w, opts...)
 	shown := r.Shown()
 	for i := range shown {
-		if err := t.Append(tableRow(i, &shown[i], r.Point.Stage.Pout)); err != nil {
+		if err := t.Append(cells(tableRow(i, &shown[i], r.Point.Stage.Pout), markdown)); err != nil {
 			return err
 		}
 	}
@@ -109,9 +110,12 @@ func (r *Ranking) table(w io.Writer, markdown bool) error {
 			screened = append(screened, x)
 		}
 	}
-	if len(screened) > 0 {
+	if len(screened) > 0 || len(r.SetAside) > 0 {
 		n := max(r.Screened, len(screened))
-		fmt.Fprintf(w, "\nset aside (%d):\n", n)
+		fmt.Fprintf(w, "\nset aside (%d):\n", n+len(r.SetAside))
+		for _, a := range r.SetAside {
+			fmt.Fprintf(w, "- %s\n", a)
+		}
 		for _, x := range screened {
 			for _, reason := range x.Reasons() {
 				fmt.Fprintf(w, "- %s\n", reason)
@@ -159,6 +163,8 @@ func (r *Ranking) textWithLeaders(w io.Writer, format string, cs []decide.Candid
 		switch {
 		case c.Worst != nil:
 			worstLines = append(worstLines, fmt.Sprintf("- %s: typical %s, worst case %s", c.Name(), unit(c.Chosen.Key()), unit(c.Worst.Key())))
+		case c.WorstReason != "":
+			worstLines = append(worstLines, fmt.Sprintf("- %s: typical %s, worst case not evaluated: %s", c.Name(), unit(c.Chosen.Key()), c.WorstReason))
 		case c.NoMax:
 			// Unknown is not zero: a leader without maximum values is
 			// listed with its worst case unknown, never left out.
@@ -209,7 +215,7 @@ func (r *Decisions) header() []string {
 
 func (r *Decisions) row(i int, c *decide.Candidate) []string {
 	no := strconv.Itoa(i + 1)
-	if c.Chosen.Screened() {
+	if c.Screened() {
 		no = "x"
 	}
 	name := c.Name()
@@ -247,6 +253,8 @@ func (r *Decisions) row(i int, c *decide.Candidate) []string {
 		worst = strconv.FormatFloat(100*c.Worst.W.Weighted, 'f', 3, 64) + " %"
 	case c.Worst != nil:
 		worst = fmtP(c.Worst.Res.Losses.Total())
+	case c.WorstReason != "":
+		worst = "not evaluated"
 	case c.NoMax:
 		worst = "no max"
 	}
@@ -286,17 +294,30 @@ func (r *Decisions) rows() [][]string {
 func (r *Decisions) sections(w io.Writer) {
 	var screened []*decide.Candidate
 	for i := range r.Candidates {
-		if r.Candidates[i].Chosen.Screened() {
+		if r.Candidates[i].Screened() {
 			screened = append(screened, &r.Candidates[i])
 		}
 	}
-	if len(screened) > 0 {
-		fmt.Fprintf(w, "\nset aside (%d):\n", len(screened))
+	if len(screened) > 0 || len(r.SetAside) > 0 {
+		fmt.Fprintf(w, "\nset aside (%d):\n", len(screened)+len(r.SetAside))
+		for _, a := range r.SetAside {
+			fmt.Fprintf(w, "- %s\n", a)
+		}
 		for _, c := range screened {
 			for _, s := range r.reasons(c) {
 				fmt.Fprintf(w, "- %s\n", s)
 			}
 		}
+	}
+	var worstWhy []string
+	for i := range r.Candidates {
+		if c := &r.Candidates[i]; c.WorstReason != "" {
+			worstWhy = append(worstWhy, "- "+c.Name()+": "+c.WorstReason)
+		}
+	}
+	if len(worstWhy) > 0 {
+		fmt.Fprintln(w, "\nworst case not evaluated:")
+		fmt.Fprintln(w, strings.Join(worstWhy, "\n"))
 	}
 	if note, _ := spreadNote(r.Candidates, r.unit); note != "" {
 		fmt.Fprintf(w, "\ntypical against worst case (rds_on_max, qg_max, vgs_th_max): %s\n", note)
@@ -443,12 +464,12 @@ func (r *Sweep) table(w io.Writer, markdown bool) error {
 func writeTable(w io.Writer, header []string, rows [][]string, markdown bool) error {
 	opts := []tablewriter.Option{
 		tablewriter.WithHeaderAutoFormat(tw.Off),
-		tablewriter.WithHeader(header),
+		tablewriter.WithHeader(cells(slices.Clone(header), markdown)),
 	}
 	opts = withMarkdown(opts, markdown)
 	t := tablewriter.NewTable(w, opts...)
 	for _, row := range rows {
-		if err := t.Append(row); err != nil {
+		if err := t.Append(cells(row, markdown)); err != nil {
 			return err
 		}
 	}

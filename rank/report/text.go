@@ -209,6 +209,10 @@ func methodWhy(d *evaluate.DeviceResult) string {
 // (lib nil when it could not be read), one a line, and a summary line
 // with the number of parts and problems.
 func WriteCheck(w io.Writer, path string, lib *devices.Library, probs devices.ProblemList) error {
+	return guardText(w, func(w io.Writer) error { return writeCheck(w, path, lib, probs) })
+}
+
+func writeCheck(w io.Writer, path string, lib *devices.Library, probs devices.ProblemList) error {
 	for _, p := range probs {
 		if _, err := fmt.Fprintln(w, p.Error()); err != nil {
 			return err
