@@ -80,13 +80,13 @@ func sweepPlot(sw *decide.SweepResult, set []int, cs []decide.Crossover) (*plot.
 		}
 		l, err := plotter.NewLine(xy)
 		if err != nil {
-			return nil, fmt.Errorf("plot of %s: %w", sw.Devs[k].Part.Name, err)
+			return nil, fmt.Errorf("plot of %q: %w", sw.Devs[k].Part.Name, err)
 		}
 		l.Color = plotutil.Color(j)
 		l.Dashes = plotutil.Dashes(j / 7)
 		l.Width = vg.Points(1.5)
 		p.Add(l)
-		p.Legend.Add(sw.Devs[k].Part.Name, l)
+		p.Legend.Add(cellText(sw.Devs[k].Part.Name), l) // no control character in XML text
 		if len(bad) > 0 {
 			s, err := plotter.NewScatter(bad)
 			if err != nil {
