@@ -211,9 +211,8 @@ type decimal struct {
 // scanNumber scans the leading decimal number of s (sign, digits and
 // points, an exponent only when digits follow the e, so that "3e" is not
 // swallowed) and returns its length in bytes, 0 when s does not start with
-// a number. dec is a second decimal separator besides the point: ',' for
-// decimal commas, '.' for none.
-func scanNumber(s string, dec byte) (int, decimal) {
+// a number.
+func scanNumber(s string) (int, decimal) {
 	d := decimal{fast: true}
 	i := 0
 	if i < len(s) && (s[i] == '+' || s[i] == '-') {
@@ -223,7 +222,7 @@ func scanNumber(s string, dec byte) (int, decimal) {
 	digits, dots, sig := 0, 0, 0
 	for ; i < len(s); i++ {
 		c := s[i]
-		if c == '.' || c == dec {
+		if c == '.' {
 			dots++
 			if dots > 1 {
 				d.fast = false
@@ -280,7 +279,7 @@ func scanNumber(s string, dec byte) (int, decimal) {
 
 // numberEnd returns the length of the leading decimal number in s.
 func numberEnd(s string) int {
-	n, _ := scanNumber(s, '.')
+	n, _ := scanNumber(s)
 	return n
 }
 
@@ -321,17 +320,15 @@ func trim(s string) string {
 // NaN, infinities and values beyond the float64 range wrap ErrNotFinite;
 // anything else that is not a number wraps ErrSyntax.
 func ParseFloat(text string, k Kind) (float64, error) {
-	return parseFloat(text, &k, '.')
+	return parseFloat(text, &k)
 }
 
-// parseFloat parses text; dec is a decimal separator accepted besides the
-// point (see scanNumber).
-func parseFloat(text string, k *Kind, dec byte) (float64, error) {
+func parseFloat(text string, k *Kind) (float64, error) {
 	s := trim(text)
 	if s == "" {
 		return 0, ErrEmpty
 	}
-	n, d := scanNumber(s, dec)
+	n, d := scanNumber(s)
 	if n == 0 {
 		low := strings.ToLower(s)
 		if strings.Contains(low, "nan") || strings.Contains(low, "inf") {
@@ -382,11 +379,7 @@ func parseFloat(text string, k *Kind, dec byte) (float64, error) {
 			return v, nil
 		}
 	}
-	num := s[:n]
-	if dec != '.' {
-		num = strings.ReplaceAll(num, string(dec), ".") // the slow path only
-	}
-	v, err := d.value(num, pexp)
+	v, err := d.value(s[:n], pexp)
 	if err != nil {
 		if errors.Is(err, strconv.ErrRange) {
 			return 0, fmt.Errorf("%q: %w", text, ErrNotFinite)
@@ -437,7 +430,7 @@ func trimGap(s string) string {
 // number converts the decimal number s (as delimited by numberEnd) times
 // 10^pexp to the nearest float64; see decimal.value.
 func number(s string, pexp int) (float64, error) {
-	_, d := scanNumber(s, '.')
+	_, d := scanNumber(s)
 	return d.value(s, pexp)
 }
 
@@ -492,7 +485,7 @@ func unitError(text, unit string, k Kind) error {
 func Parse[Q Quantity](text string) (Q, error) {
 	var zero Q
 	k := zero.Kind()
-	v, err := parseFloat(text, &k, '.')
+	v, err := parseFloat(text, &k)
 	return Q(v), err
 }
 
@@ -504,7 +497,7 @@ type Parser struct{ k Kind }
 func NewParser(k Kind) *Parser { return &Parser{k: k} }
 
 // Parse is ParseFloat(text, k).
-func (p *Parser) Parse(text string) (float64, error) { return parseFloat(text, &p.k, '.') }
+func (p *Parser) Parse(text string) (float64, error) { return parseFloat(text, &p.k) }
 
 // Format prints v with an SI prefix, sig significant digits and the unit
 // symbol, e.g. "280 mΩ", "71.0 pF". Zero prints as "0".
