@@ -125,12 +125,17 @@ func TestHostileLibrary(t *testing.T) {
 	if !bytes.Contains(svg, []byte(`@SUM(A1)|pipe`)) {
 		t.Errorf("svg lacks a legend name")
 	}
+	// An error that quotes a hostile name.
+	code, _, errOut := runCLI(t, append(append([]string{"explain"}, custom[:len(custom)-1]...), "--", "NO\x1b]0;x\x07")...)
+	if r, ok := controlFree(errOut); code != 1 || !ok || !strings.Contains(errOut, `no part named "NO\x1b]0;x\a"`) {
+		t.Errorf("explain: code %d, control %U: %q", code, r, errOut)
+	}
 	// A problem that quotes a hostile name or column.
 	bad := filepath.Join(t.TempDir(), "bad.csv")
 	if err := os.WriteFile(bad, []byte("part,vds\x1b[2J\n\x1b]0;x\x07,1\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	code, out, errOut := runCLI(t, "check", bad)
+	code, out, errOut = runCLI(t, "check", bad)
 	if r, ok := controlFree(out + errOut); code != 1 || !ok || !strings.Contains(out, `bad.csv:1:2: vds\x1b[2j: unknown column`) {
 		t.Errorf("check: code %d, control %U:\n%s", code, r, out)
 	}

@@ -18,6 +18,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
+
+	"swrank/devices"
 )
 
 const caution = `Caution: switching converters and RF stages can carry lethal voltages, and
@@ -100,17 +103,17 @@ func run(args []string, stdout, stderr io.Writer) int {
 			return 0
 		case errors.Is(err, errUsage):
 			if err != errUsage {
-				fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, err)
+				fmt.Fprintf(stderr, "swrank %s: %s\n", c.name, printable(err))
 			}
 			return 2
 		case errors.As(err, &ee):
-			fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, ee.err)
+			fmt.Fprintf(stderr, "swrank %s: %s\n", c.name, printable(ee.err))
 			return ee.code
 		}
-		fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, err)
+		fmt.Fprintf(stderr, "swrank %s: %s\n", c.name, printable(err))
 		return 1
 	}
-	fmt.Fprintf(stderr, "swrank: unknown command %q\n\n", args[0])
+	fmt.Fprintf(stderr, "swrank: unknown command %q\n\n", args[0]) // %q escapes controls
 	usage(stderr)
 	return 2
 }
@@ -140,4 +143,14 @@ func parse(fs *flag.FlagSet, args []string) error {
 		return errUsage
 	}
 	return nil
+}
+
+// printable is an error's message with control characters escaped
+// (devices.Printable), line by line: a message may quote a library's text.
+func printable(err error) string {
+	lines := strings.Split(err.Error(), "\n")
+	for i, l := range lines {
+		lines[i] = devices.Printable(l)
+	}
+	return strings.Join(lines, "\n")
 }
