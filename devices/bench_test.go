@@ -199,3 +199,28 @@ func cpuTime() time.Duration {
 	}
 	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
+
+// BenchmarkReadDecimalComma is BenchmarkReadSequential on the same
+// library saved as a spreadsheet does where the comma is the decimal
+// separator: semicolons between cells, decimal commas in the numbers.
+func BenchmarkReadDecimalComma(b *testing.B) {
+	for _, n := range sizes[:1] {
+		plain := library(b, n)
+		eu := bytes.ReplaceAll(bytes.ReplaceAll(plain, []byte(","), []byte(";")), []byte("."), []byte(","))
+		for _, c := range []struct {
+			name string
+			data []byte
+		}{{"plain", plain}, {"semicolon-decimal-comma", eu}} {
+			b.Run(name(n)+"/"+c.name, func(b *testing.B) {
+				b.SetBytes(int64(len(c.data)))
+				b.ReportAllocs()
+				for b.Loop() {
+					lib, probs := devices.CheckSequential(bytes.NewReader(c.data), "lib.csv")
+					if probs.Fatal() || len(lib.Parts) != n {
+						b.Fatalf("%d parts: %v", len(lib.Parts), probs.Fatals())
+					}
+				}
+			})
+		}
+	}
+}

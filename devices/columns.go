@@ -108,21 +108,29 @@ func RequiredColumns() []string {
 	return out
 }
 
+// parse parses a quantity cell, with a decimal comma when comma is set.
+func (c *column) parse(cell string, comma bool) (float64, error) {
+	if comma {
+		return c.parser.ParseDecimalComma(cell)
+	}
+	return c.parser.Parse(cell)
+}
+
 // set decodes one cell into the part's field. It gives exactly the results
 // and errors of the field type's UnmarshalCSV method, without reflection
-// on the hot path.
-func (c *column) set(p *Part, cell string) error {
+// on the hot path; with comma set, numbers may have a decimal comma.
+func (c *column) set(p *Part, cell string, comma bool) error {
 	ptr := unsafe.Add(unsafe.Pointer(p), c.offset)
 	switch c.kind {
 	case cellQty:
-		v, err := c.parser.Parse(cell)
+		v, err := c.parse(cell, comma)
 		if err != nil {
 			return err
 		}
 		*(*float64)(ptr) = v
 		return nil
 	case cellOpt:
-		v, err := c.parser.Parse(cell)
+		v, err := c.parse(cell, comma)
 		if err != nil {
 			if err == q.ErrEmpty { // blank cell (returned unwrapped): not given
 				*(*float64)(ptr) = 0
@@ -137,6 +145,9 @@ func (c *column) set(p *Part, cell string) error {
 	case cellString:
 		*(*string)(ptr) = cell
 		return nil
+	}
+	if pr, ok := reflect.NewAt(c.typ, ptr).Interface().(*Price); ok {
+		return pr.parse(cell, comma)
 	}
 	return reflect.NewAt(c.typ, ptr).Interface().(csvUnmarshaler).UnmarshalCSV(cell)
 }

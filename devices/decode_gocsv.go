@@ -4,6 +4,8 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
+	"reflect"
+	"strings"
 
 	"github.com/gocarina/gocsv"
 )
@@ -50,9 +52,13 @@ func (l *loader) readGocsv(src source) {
 	}
 	parts := make([]Part, len(rows))
 	errs := make([][]cellErr, len(rows))
+	cells := rows
+	if l.dialect.DecimalComma {
+		cells = l.pointRows(rows)
+	}
 	for k := 0; k < len(rows); {
 		out := parts[k:]
-		err := gocsv.UnmarshalCSV(&rowsReader{header, rows[k:]}, &out)
+		err := gocsv.UnmarshalCSV(&rowsReader{header, cells[k:]}, &out)
 		if err == nil {
 			break
 		}
@@ -62,7 +68,10 @@ func (l *loader) readGocsv(src source) {
 			return
 		}
 		i := k + pe.Line - 2
-		parts[i], errs[i] = l.gocsvRow(header, rows[i])
+		parts[i], errs[i] = l.gocsvRow(header, cells[i])
+		if l.dialect.DecimalComma {
+			l.commaErrors(rows[i], errs[i])
+		}
 		k = i + 1
 	}
 	if len(rows) > 0 {
@@ -101,4 +110,46 @@ func (l *loader) gocsvRow(header, row []string) (Part, []cellErr) {
 		}
 	}
 	return Part{}, errs
+}
+
+// pointRows returns rows with the decimal commas of the number cells
+// (quantities and prices) written as points, for gocsv, which reads
+// numbers with a point only: such a cell reads alike either way
+// (quantity.ParseFloatDecimalComma).
+func (l *loader) pointRows(rows [][]string) [][]string {
+	out := make([][]string, len(rows))
+	for i, row := range rows {
+		out[i] = row
+		for j, cell := range row {
+			ci := -1
+			if j < len(l.colOf) {
+				ci = l.colOf[j]
+			}
+			if ci < 0 || strings.IndexByte(cell, ',') < 0 {
+				continue
+			}
+			if k := partSchema.cols[ci].kind; k == cellString || k == cellOther && partSchema.cols[ci].typ != reflect.TypeFor[Price]() {
+				continue
+			}
+			if &out[i][0] == &row[0] {
+				out[i] = append([]string(nil), row...)
+			}
+			out[i][j] = strings.ReplaceAll(cell, ",", ".")
+		}
+	}
+	return out
+}
+
+// commaErrors replaces the errors of a row decoded from pointRows by those
+// of the cells as written, so that they quote the user's text.
+func (l *loader) commaErrors(row []string, errs []cellErr) {
+	var scratch Part
+	for k, e := range errs {
+		if e.col >= len(row) || e.col >= len(l.setters) || l.setters[e.col] == nil {
+			continue
+		}
+		if err := l.setters[e.col].set(&scratch, row[e.col], true); err != nil {
+			errs[k].err = err
+		}
+	}
 }

@@ -18,6 +18,8 @@ import (
 // no problem but the unknown columns' severity.
 func FuzzRead(f *testing.F) {
 	files, _ := filepath.Glob("testdata/parts/*.csv")
+	exports, _ := filepath.Glob("../testdata/dialects/*")
+	files = append(files, exports...)
 	for _, name := range files {
 		b, err := os.ReadFile(name)
 		if err != nil {
@@ -69,7 +71,7 @@ func FuzzRows(f *testing.F) {
 		}
 		f.Add(b)
 	}
-	for _, s := range []string{"a,\"b\"\"c\",d\r\n", "\"a\nb\",c\n", "\"abc", "a\"b,c\n", "\"a\"b\n", "x\r", "#c\n\n\na\n", "\"\"\n"} {
+	for _, s := range []string{"a;\"b;c\";d\r\n", "a\t\"b\"\"\tc\"\n", "a,\"b\"\"c\",d\r\n", "\"a\nb\",c\n", "\"abc", "a\"b,c\n", "\"a\"b\n", "x\r", "#c\n\n\na\n", "\"\"\n"} {
 		f.Add([]byte(s))
 	}
 	f.Fuzz(func(t *testing.T, b []byte) {
@@ -77,15 +79,23 @@ func FuzzRows(f *testing.F) {
 	})
 }
 
+// rowsAgree compares the two readers with each separator.
 func rowsAgree(t *testing.T, b []byte) {
 	t.Helper()
-	want := csvSource{newCSVReader(bytes.NewReader(b))}
-	got := newRowReader(bytes.NewReader(b))
+	for _, sep := range []byte{',', ';', '\t'} {
+		rowsAgreeSep(t, b, sep)
+	}
+}
+
+func rowsAgreeSep(t *testing.T, b []byte, sep byte) {
+	t.Helper()
+	want := newCSVSource(bytes.NewReader(b), sep)
+	got := newRowReader(bytes.NewReader(b), sep)
 	for i := 0; i < 1e6; i++ {
 		wr, wl, werr := want.next()
 		gr, gl, gerr := got.next()
 		if fmt.Sprint(werr) != fmt.Sprint(gerr) || !slices.Equal(wr, gr) || (wr != nil && wl != gl) {
-			t.Fatalf("record %d: encoding/csv %q line %d %v; rowReader %q line %d %v", i, wr, wl, werr, gr, gl, gerr)
+			t.Fatalf("separator %q, record %d: encoding/csv %q line %d %v; rowReader %q line %d %v", sep, i, wr, wl, werr, gr, gl, gerr)
 		}
 		if werr == io.EOF || (werr != nil && !errors.As(werr, new(*csv.ParseError))) {
 			return

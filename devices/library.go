@@ -19,6 +19,7 @@ import (
 // Library is a parts library as read from one CSV file.
 type Library struct {
 	Source   string    // the name given to Read, or the path given to Load
+	Dialect  Dialect   // how the file separates cells and writes numbers, told from its header line
 	Columns  []string  // the header's column names, trimmed and lower-cased, in file order
 	Parts    []Part    // the parts that passed validation, in file order
 	Unknown  []string  // columns the loader does not know, each reported once
@@ -28,6 +29,7 @@ type Library struct {
 // Header describes the header row of a library read by Scan.
 type Header struct {
 	Source  string   // the name given to Scan
+	Dialect Dialect  // how the file separates cells and writes numbers, told from the header line
 	Line    int      // file line of the header row (after comments and blank lines)
 	Columns []string // column names, trimmed and lower-cased, in file order
 	Unknown []string // columns the loader does not know
@@ -65,7 +67,7 @@ func check(r io.Reader, name string, d decoderKind, o ReadOptions) (*Library, Pr
 	if len(lib.Parts) == 0 {
 		lib.Parts = nil
 	}
-	lib.Columns, lib.Unknown = hdr.Columns, hdr.Unknown
+	lib.Columns, lib.Unknown, lib.Dialect = hdr.Columns, hdr.Unknown, hdr.Dialect
 	for _, p := range probs {
 		if !p.Fatal {
 			lib.Warnings = append(lib.Warnings, *p)
@@ -140,6 +142,7 @@ type loader struct {
 	// sizeHint is the input size in bytes when known; with the length of
 	// the first row it sizes *parts once instead of growing it.
 	sizeHint int64
+	dialect  Dialect // told from the header line before the rows are read
 }
 
 func newLoader(name string, fn func(*Part) error, o ReadOptions) *loader {
@@ -163,6 +166,13 @@ func (c csvSource) next() ([]string, int, error) {
 	}
 	line, _ := c.r.FieldPos(0)
 	return rec, line, err
+}
+
+// newCSVSource is the gocsv decoder's source for cells separated by sep.
+func newCSVSource(r io.Reader, sep byte) csvSource {
+	cr := newCSVReader(r)
+	cr.Comma = rune(sep)
+	return csvSource{cr}
 }
 
 func (t *rowReader) next() ([]string, int, error) {
@@ -201,11 +211,18 @@ func (l *loader) scan(r io.Reader, d decoderKind) (Header, ProblemList) {
 	name := l.file
 	l.decoder = d
 	l.hdr.Source = name
+	br := bufio.NewReaderSize(r, 64<<10)
+	dl, prob := detectDialect(br)
+	if prob != nil {
+		l.problem(prob)
+		return l.hdr, l.probs
+	}
+	l.dialect, l.hdr.Dialect = dl, dl
 	var src source
 	if d == decodeGocsv {
-		src = csvSource{newCSVReader(r)}
+		src = newCSVSource(br, dl.Sep)
 	} else {
-		src = newRowReader(r)
+		src = newRowReader(br, dl.Sep)
 	}
 	if !l.readHeader(src) {
 		return l.hdr, l.probs
@@ -341,6 +358,7 @@ func (l *loader) decode(p *Part, rec []string, line int, w *worker) (ProblemList
 	}
 	last := w.last[:len(setters)]
 	base := unsafe.Pointer(p)
+	comma := l.dialect.DecimalComma
 	for j, cell := range rec {
 		c := setters[j]
 		if c == nil {
@@ -353,7 +371,7 @@ func (l *loader) decode(p *Part, rec []string, line int, w *worker) (ProblemList
 			if lc := &last[j]; lc.ok && lc.text == cell {
 				v = lc.v // test conditions repeat down a column: parsed once
 			} else {
-				v, err = c.parser.Parse(cell)
+				v, err = c.parse(cell, comma)
 				if err == nil {
 					*lc = lastCell{text: cell, v: v, ok: true}
 				}
@@ -372,7 +390,7 @@ func (l *loader) decode(p *Part, rec []string, line int, w *worker) (ProblemList
 			}
 			continue
 		}
-		if err := c.set(p, cell); err != nil {
+		if err := c.set(p, cell, comma); err != nil {
 			e = append(e, cellErr{j, err})
 		}
 	}
@@ -427,6 +445,9 @@ func (l *loader) checkRow(p *Part, rec []string, line int, errs []cellErr) (Prob
 	p.Package = strings.TrimSpace(p.Package)
 	p.Notes = strings.TrimSpace(p.Notes)
 	p.RdsCurve = strings.TrimSpace(p.RdsCurve)
+	if l.dialect.DecimalComma {
+		p.RdsCurve = curveDecimalCommas(p.RdsCurve)
+	}
 	var probs ProblemList
 	fatal := l.missing != nil // without a required column no part is complete
 	v := validator{p: p, bad: l.missing, parsed: true, rec: rec, fileCol: l.fileCol}
@@ -482,3 +503,21 @@ func (l *loader) duplicate(p *Part, line int, cell string, first int) {
 		Err: &valueError{msg: fmt.Sprintf("%q: %v: the part on line %d has the same name (names are compared ignoring case)",
 			p.Name, ErrDuplicatePart, first), kind: ErrDuplicatePart}})
 }
+
+// curveDecimalCommas turns the decimal commas of an rds_on_curve cell
+// ("25:1 100:1,4") into points: a comma between two digits. Other commas
+// still separate points.
+func curveDecimalCommas(s string) string {
+	if strings.IndexByte(s, ',') < 0 {
+		return s
+	}
+	b := []byte(s)
+	for i := 1; i+1 < len(b); i++ {
+		if b[i] == ',' && isDigit(b[i-1]) && isDigit(b[i+1]) {
+			b[i] = '.'
+		}
+	}
+	return string(b)
+}
+
+func isDigit(c byte) bool { return c >= '0' && c <= '9' }

@@ -86,14 +86,22 @@ type Price struct {
 
 // UnmarshalCSV parses a non-negative plain number, optionally after a
 // currency sign ("$1.20", "€0.85").
-func (p *Price) UnmarshalCSV(s string) error {
+func (p *Price) UnmarshalCSV(s string) error { return p.parse(s, false) }
+
+// parse is UnmarshalCSV, with a decimal comma accepted when comma is set
+// ("€0,85").
+func (p *Price) parse(s string, comma bool) error {
 	s = strings.TrimSpace(s)
 	if s == "" {
 		*p = Price{}
 		return nil
 	}
 	s = strings.TrimLeft(s, "$€£¥ ")
-	v, err := strconv.ParseFloat(s, 64)
+	num := s
+	if comma && strings.Count(s, ",")+strings.Count(s, ".") == 1 {
+		num = strings.Replace(s, ",", ".", 1)
+	}
+	v, err := strconv.ParseFloat(num, 64)
 	if err != nil || v < 0 || v != v || v > 1e15 {
 		return fmt.Errorf("%q: price must be a non-negative number", s)
 	}

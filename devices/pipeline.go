@@ -188,7 +188,7 @@ func (w *worker) decode(l *loader, b *batch) {
 	for i := 0; i < b.n; i++ {
 		rec := b.split[i]
 		if rec == nil {
-			w.fields = splitFields(w.fields[:0], b.text[b.span[i][0]:b.span[i][1]])
+			w.fields = splitFields(w.fields[:0], b.text[b.span[i][0]:b.span[i][1]], l.dialect.Sep)
 			rec = w.fields
 			if len(rec) != len(l.colOf) {
 				b.probs[i], b.fatal[i] = ProblemList{l.fieldCountProblem(rec, b.lines[i])}, true
@@ -284,7 +284,7 @@ func (l *loader) collect(b *batch) {
 			if rec := b.split[i]; rec != nil {
 				cell = rec[l.partCol()-1]
 			} else {
-				cell = splitFields(nil, b.text[b.span[i][0]:b.span[i][1]])[l.partCol()-1]
+				cell = splitFields(nil, b.text[b.span[i][0]:b.span[i][1]], l.dialect.Sep)[l.partCol()-1]
 			}
 			l.duplicate(p, b.lines[i], cell, first)
 		}

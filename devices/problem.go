@@ -32,7 +32,8 @@ var (
 //	parts.csv:12:7: qg: "3.3x": not a number
 //
 // leaving out what is unknown (a header-level problem has no row; a part
-// built in code has no file, and is then named by its part name).
+// built in code has no file, and is then named by its part name). Control
+// characters from the file are escaped (Printable).
 type Problem struct {
 	File   string // library name as given to Read, or the path given to Load; "" for parts built in code
 	Line   int    // 1-based file line of the row (or of the header); 0 when not from a file
@@ -75,7 +76,7 @@ func (p *Problem) Error() string {
 	if !p.Fatal {
 		b.WriteString(" (warning)")
 	}
-	return b.String()
+	return Printable(b.String()) // a column name or a cause may quote the file's text
 }
 
 // Unwrap returns the cause.

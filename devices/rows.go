@@ -11,7 +11,7 @@ import (
 
 // rowReader splits CSV text into records exactly as encoding/csv.Reader
 // does with Comment '#', FieldsPerRecord −1, LazyQuotes and
-// TrimLeadingSpace off: same records, same line numbers, same
+// TrimLeadingSpace off, and Comma the same separator: same records, same line numbers, same
 // *csv.ParseError values (the tests and the fuzz target compare the two).
 // It is faster because a line without quotes, the usual case, is cut into
 // fields without copying to a record buffer first, and the record slice is
@@ -25,14 +25,17 @@ type rowReader struct {
 	ends    []int    // field ends in buf
 	rec     []string // the record, reused
 	line    int      // line of the last record's first field
+	sep     byte     // the cell separator: ',', ';' or '\t'
 }
 
-func newRowReader(r io.Reader) *rowReader {
+// newRowReader reads records separated by sep from r (a *bufio.Reader of
+// at least 64 KiB is used as it is).
+func newRowReader(r io.Reader, sep byte) *rowReader {
 	br := bufio.NewReaderSize(r, 64<<10)
 	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
 		_, _ = br.Discard(len(utf8BOM))
 	}
-	return &rowReader{r: br}
+	return &rowReader{r: br, sep: sep}
 }
 
 // readLine is encoding/csv's readLine: one line with "\r\n" normalised to
@@ -76,7 +79,7 @@ func (t *rowReader) read() ([]string, error) {
 	if !isRaw {
 		return rec, err
 	}
-	t.rec = splitFields(t.rec[:0], string(raw))
+	t.rec = splitFields(t.rec[:0], string(raw), t.sep)
 	return t.rec, err
 }
 
@@ -111,10 +114,10 @@ func (t *rowReader) nextRaw() (raw []byte, isRaw bool, rec []string, err error) 
 }
 
 // splitFields appends to dst the fields of a record without quotes: the
-// text between commas.
-func splitFields(dst []string, s string) []string {
+// text between separators sep.
+func splitFields(dst []string, s string, sep byte) []string {
 	for {
-		i := strings.IndexByte(s, ',')
+		i := strings.IndexByte(s, sep)
 		if i < 0 {
 			return append(dst, s)
 		}
@@ -133,7 +136,7 @@ func (t *rowReader) readQuoted(line []byte, errRead error) ([]string, error) {
 parseField:
 	for {
 		if len(line) == 0 || line[0] != '"' {
-			i := bytes.IndexByte(line, ',')
+			i := bytes.IndexByte(line, t.sep)
 			field := line
 			if i >= 0 {
 				field = field[:i]
@@ -167,7 +170,7 @@ parseField:
 					t.buf = append(t.buf, '"')
 					line = line[1:]
 					col++
-				case len(line) > 0 && line[0] == ',':
+				case len(line) > 0 && line[0] == t.sep:
 					line = line[1:]
 					col++
 					t.ends = append(t.ends, len(t.buf))

@@ -107,11 +107,12 @@ func BenchmarkEndToEnd(b *testing.B) {
 				}
 				t1 := time.Now()
 				best := rank.Best{N: in.top}
-				src, err := rankReader(&in, &pt, bytes.NewReader(data), "bench", &best, nil, io.Discard)
+				var aside []rank.SetAside
+				src, err := rankReader(&in, &pt, bytes.NewReader(data), "bench", &best, &aside, nil, io.Discard)
 				if err != nil {
 					b.Fatal(err)
 				}
-				rep := rankingOf(&in, &pt, &best, src)
+				rep := rankingOf(&in, &pt, &best, aside, src)
 				if err := writeReport(io.Discard, rep.Report(), &in); err != nil {
 					b.Fatal(err)
 				}

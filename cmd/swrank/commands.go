@@ -3,6 +3,7 @@ package main
 import (
 	"bufio"
 	"bytes"
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
@@ -58,7 +59,8 @@ func openParts(path string, stdin io.Reader) (io.ReadCloser, string, error) {
 // readLibrary reads the parts library the flags name: the demo, or every
 // --parts source merged (a part name held by two of them is an error
 // naming both).
-func readLibrary(in *inputs, stdin io.Reader) (*devices.Library, error) {
+// The dialect of each source other than plain CSV is named on stderr.
+func readLibrary(in *inputs, stdin io.Reader, stderr io.Writer) (*devices.Library, error) {
 	if err := in.checkSources(); err != nil {
 		return nil, err
 	}
@@ -76,43 +78,10 @@ func readLibrary(in *inputs, stdin io.Reader) (*devices.Library, error) {
 		if err != nil {
 			return nil, err
 		}
+		noteDialect(stderr, lib.Source, lib.Dialect)
 		libs = append(libs, lib)
 	}
 	return devices.Merge(libs...)
-}
-
-// loadLibrary reads the parts library named by the flags and prepares
-// every part for evaluation. Warnings go to stderr.
-func loadLibrary(in *inputs, stdin io.Reader, stderr io.Writer) (*devices.Library, []fit.Device, error) {
-	lib, err := readLibrary(in, stdin)
-	if err != nil {
-		return nil, nil, err
-	}
-	for _, w := range lib.Warnings {
-		fmt.Fprintf(stderr, "swrank: %v\n", w)
-	}
-	devs := make([]fit.Device, len(lib.Parts))
-	for i := range lib.Parts {
-		d, err := fit.Prepare(&lib.Parts[i])
-		if err != nil {
-			return nil, nil, fmt.Errorf("%s: %w", lib.Source, err)
-		}
-		devs[i] = d
-	}
-	return lib, devs, nil
-}
-
-// findDevice returns the device named name (case-insensitive); the error
-// suggests the nearest names in the library.
-func findDevice(devs []fit.Device, name string) (*fit.Device, error) {
-	names := make([]string, len(devs))
-	for i := range devs {
-		if strings.EqualFold(devs[i].Part.Name, name) {
-			return &devs[i], nil
-		}
-		names[i] = devs[i].Part.Name
-	}
-	return nil, fmt.Errorf("no part named %q in the library%s", name, didYouMean(devices.NearestNames(name, names), ""))
 }
 
 func runRank(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
@@ -140,7 +109,8 @@ func runRank(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 			return err
 		}
 		res := rank.Rank(plan.Point, devs, plan.Partner, rank.Options{})
-		rep := report.Ranking{Point: plan.Point, Source: lib.source, Parts: len(devs), Results: res, All: in.all, Top: in.top}
+		rep := report.Ranking{Point: plan.Point, Source: lib.source, Parts: len(devs) + len(lib.aside), Results: res, SetAside: lib.aside,
+			All: in.all, Top: in.top}
 		if err := writeRanking(stdout, &in, &rep, plan.Partner); err != nil {
 			return err
 		}
@@ -156,7 +126,7 @@ func runRank(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err := writeRanking(stdout, &in, &rep, nil); err != nil {
 		return err
 	}
-	if rep.Parts == rep.Screened {
+	if rep.Parts-len(rep.SetAside) == rep.Screened { // none passed
 		return errNoPass
 	}
 	return nil
@@ -170,11 +140,7 @@ func writeRanking(w io.Writer, in *inputs, rep *report.Ranking, partner *fit.Dev
 	if in.top > 0 && len(pass) > in.top {
 		pass = pass[:in.top]
 	}
-	cs, err := decide.Leaders(rep.Point, partner, pass)
-	if err != nil {
-		return err
-	}
-	rep.Leaders = cs
+	rep.Leaders = decide.Leaders(rep.Point, partner, pass)
 	return writeReport(w, rep.Report(), in)
 }
 
@@ -193,9 +159,10 @@ func rankStream(in *inputs, stdin io.Reader, stderr io.Writer) (report.Ranking, 
 		return report.Ranking{}, fmt.Errorf("operating point: %w", err)
 	}
 	best := rank.Best{N: in.top}
+	var aside []rank.SetAside
 	if in.demo {
-		src, err := rankReader(in, &pt, bytes.NewReader(devices.DemoCSV()), "demo", &best, nil, stderr)
-		return rankingOf(in, &pt, &best, src), err
+		src, err := rankReader(in, &pt, bytes.NewReader(devices.DemoCSV()), "demo", &best, &aside, nil, stderr)
+		return rankingOf(in, &pt, &best, aside, src), err
 	}
 	var names *devices.PartNames
 	if len(in.parts) > 1 {
@@ -207,26 +174,28 @@ func rankStream(in *inputs, stdin io.Reader, stderr io.Writer) (report.Ranking, 
 		if err != nil {
 			return report.Ranking{}, err
 		}
-		src, err := rankReader(in, &pt, bufio.NewReaderSize(r, 1<<16), name, &best, names, stderr)
+		src, err := rankReader(in, &pt, bufio.NewReaderSize(r, 1<<16), name, &best, &aside, names, stderr)
 		r.Close()
 		if err != nil {
 			return report.Ranking{}, err
 		}
 		sources = append(sources, src)
 	}
-	return rankingOf(in, &pt, &best, strings.Join(sources, ", ")), nil
+	return rankingOf(in, &pt, &best, aside, strings.Join(sources, ", ")), nil
 }
 
-// rankingOf is the report of the ranking best holds.
-func rankingOf(in *inputs, pt *stage.Point, best *rank.Best, source string) report.Ranking {
-	return report.Ranking{Point: pt, Source: source, Parts: best.Passed + best.Screened, Results: best.Results(),
-		Screened: best.Screened, All: in.all, Top: in.top}
+// rankingOf is the report of the ranking best holds, with the parts set
+// aside before they could be evaluated.
+func rankingOf(in *inputs, pt *stage.Point, best *rank.Best, aside []rank.SetAside, source string) report.Ranking {
+	return report.Ranking{Point: pt, Source: source, Parts: best.Passed + best.Screened + len(aside), Results: best.Results(),
+		SetAside: aside, Screened: best.Screened, All: in.all, Top: in.top}
 }
 
 // rankReader ranks the library read from r at pt into best and returns
-// its source name. With names, a part name another source held is an
+// its source name; a part that cannot be prepared is added to aside and
+// costs only itself. With names, a part name another source held is an
 // error.
-func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, best *rank.Best, names *devices.PartNames, stderr io.Writer) (string, error) {
+func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, best *rank.Best, aside *[]rank.SetAside, names *devices.PartNames, stderr io.Writer) (string, error) {
 	hdr, probs := in.read.Scan(r, name, func(p *devices.Part) error {
 		if names != nil {
 			if err := names.Add(p.Name, name); err != nil {
@@ -235,7 +204,9 @@ func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, best *ran
 		}
 		d, err := fit.Prepare(p)
 		if err != nil {
-			return err
+			// This part costs only itself.
+			*aside = append(*aside, rank.SetAside{Part: p.Name, Line: p.Line, Reason: err.Error()})
+			return nil
 		}
 		res := evaluate.Evaluate(pt, &d, nil, nil)
 		best.Offer(&res)
@@ -244,6 +215,7 @@ func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, best *ran
 	if probs.Fatal() {
 		return "", probs.Fatals()
 	}
+	noteDialect(stderr, hdr.Source, hdr.Dialect)
 	for _, w := range probs.Warnings() {
 		fmt.Fprintf(stderr, "swrank: %v\n", w)
 	}
@@ -282,11 +254,11 @@ func runExplain(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	if auto {
 		return errors.New("explain takes --parallel N, not auto (rank --parallel auto finds the count; explain it with --parallel N)")
 	}
-	plan, devs, _, err := preparePlan(&in, &dec, stdin, stderr)
+	plan, devs, lib, err := preparePlan(&in, &dec, stdin, stderr)
 	if err != nil {
 		return err
 	}
-	dev, err := findDevice(devs, fs.Arg(0))
+	dev, err := findDevice(devs, lib.aside, fs.Arg(0))
 	if err != nil {
 		return err
 	}
@@ -326,6 +298,11 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 		lib, probs := opts.Check(r, name)
 		r.Close()
+		if lib != nil {
+			noteDialect(stderr, name, lib.Dialect)
+		}
+		probs = append(probs, setAsideProblems(name, lib)...)
+		slices.SortStableFunc(probs, func(a, b *devices.Problem) int { return cmp.Compare(a.Line, b.Line) })
 		if err := writeReport(stdout, report.Check(name, lib, probs), &inputs{format: defaultFormat}); err != nil {
 			return err
 		}

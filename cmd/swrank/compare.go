@@ -45,7 +45,8 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 	if err != nil {
 		return err
 	}
-	fd, err := findDevice(devs, fitted)
+	warnSetAside(stderr, lib.source, lib.aside)
+	fd, err := findDevice(devs, lib.aside, fitted)
 	if err != nil {
 		return fmt.Errorf("--fitted: %w", err)
 	}
@@ -58,7 +59,7 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 		}
 	} else {
 		for _, name := range fs.Args() {
-			d, err := findDevice(devs, name)
+			d, err := findDevice(devs, lib.aside, name)
 			if err != nil {
 				return err
 			}
@@ -73,7 +74,7 @@ func runCompare(args []string, stdin io.Reader, stdout, stderr io.Writer) error 
 		res[i] = evaluate.Evaluate(plan.Point, d, plan.Partner, nil)
 	}
 	slices.SortStableFunc(res, rank.Compare)
-	cr := report.Comparison{Point: plan.Point, Source: lib.source, Parts: len(devs), Fitted: fr}
+	cr := report.Comparison{Point: plan.Point, Source: lib.source, Parts: len(devs) + len(lib.aside), Fitted: fr}
 	pout := plan.Point.Stage.Pout
 	for i := range res {
 		if in.top > 0 && i == in.top {

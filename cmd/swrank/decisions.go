@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 
+	"swrank/rank"
 	"swrank/rank/decide"
 	"swrank/rank/design"
 	"swrank/rank/fit"
@@ -23,20 +24,15 @@ func runRankDecisions(in *inputs, dec *design.Decisions, stdin io.Reader, stdout
 	if err != nil {
 		return err
 	}
-	cs, err := decide.EvaluateAll(plan, devs, counts, auto)
-	if err != nil {
-		return err
-	}
-	if err := decide.AddWorst(plan, cs); err != nil {
-		return err
-	}
-	dr := report.Decisions{Plan: plan, Candidates: cs, Source: lib.source, Parts: len(devs), All: in.all, Top: in.top,
-		Parallel: len(counts) > 1, Auto: auto, Counts: counts}
+	cs := decide.EvaluateAll(plan, devs, counts, auto)
+	decide.AddWorst(plan, cs)
+	dr := report.Decisions{Plan: plan, Candidates: cs, SetAside: lib.aside, Source: lib.source, Parts: len(devs) + len(lib.aside),
+		All: in.all, Top: in.top, Parallel: len(counts) > 1, Auto: auto, Counts: counts}
 	if err := writeReport(stdout, dr.Report(), in); err != nil {
 		return err
 	}
 	for i := range cs {
-		if !cs[i].Chosen.Screened() {
+		if !cs[i].Screened() {
 			return nil
 		}
 	}
@@ -44,7 +40,10 @@ func runRankDecisions(in *inputs, dec *design.Decisions, stdin io.Reader, stdout
 }
 
 // libInfo is what preparePlan loaded.
-type libInfo struct{ source string }
+type libInfo struct {
+	source string
+	aside  []rank.SetAside // the parts that could not be prepared
+}
 
 // preparePlan resolves the stage (one point or a profile) and loads the
 // library.
@@ -60,7 +59,7 @@ func preparePlan(in *inputs, dec *design.Decisions, stdin io.Reader, stderr io.W
 	if plan.Profile, err = dec.Profile(in.stage); err != nil {
 		return nil, nil, libInfo{}, err
 	}
-	lib, devs, err := loadLibrary(in, stdin, stderr)
+	lib, devs, aside, err := loadLibrary(in, stdin, stderr)
 	if err != nil {
 		return nil, nil, libInfo{}, err
 	}
@@ -68,9 +67,9 @@ func preparePlan(in *inputs, dec *design.Decisions, stdin io.Reader, stderr io.W
 		if !pt.HasSync || pt.Stage.Topology == stage.ClassD {
 			return nil, nil, libInfo{}, errors.New("--partner needs a synchronous buck or boost stage (class D ranks the part in both places)")
 		}
-		if plan.Partner, err = findDevice(devs, in.partner); err != nil {
+		if plan.Partner, err = findDevice(devs, aside, in.partner); err != nil {
 			return nil, nil, libInfo{}, fmt.Errorf("--partner: %w", err)
 		}
 	}
-	return plan, devs, libInfo{source: lib.Source}, nil
+	return plan, devs, libInfo{source: lib.Source, aside: aside}, nil
 }

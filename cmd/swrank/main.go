@@ -120,16 +120,16 @@ func runIO(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		case errors.Is(err, flag.ErrHelp):
 			return 0
 		case errors.As(err, &ue):
-			fmt.Fprintf(stderr, "swrank %s: %v\nsee swrank %s -h\n", c.name, ue, c.name)
+			fmt.Fprintf(stderr, "swrank %s: %s\nsee swrank %s -h\n", c.name, printable(ue), c.name)
 			return 2
 		case errors.Is(err, errNoPass):
 			fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, err)
 			return 3
 		case errors.As(err, &ee):
-			fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, ee.err)
+			fmt.Fprintf(stderr, "swrank %s: %s\n", c.name, printable(ee.err))
 			return ee.code
 		}
-		fmt.Fprintf(stderr, "swrank %s: %v\n", c.name, err)
+		fmt.Fprintf(stderr, "swrank %s: %s\n", c.name, printable(err))
 		return 1
 	}
 	fmt.Fprintf(stderr, "swrank: unknown command %q%s\nsee swrank -h\n", args[0], didYouMean(devices.NearestNames(args[0], names), ""))
@@ -168,4 +168,14 @@ func printFlags(fs *flag.FlagSet) {
 		}
 		fmt.Fprintln(fs.Output())
 	})
+}
+
+// printable is an error's message with control characters escaped
+// (devices.Printable), line by line: a message may quote a library's text.
+func printable(err error) string {
+	lines := strings.Split(err.Error(), "\n")
+	for i, l := range lines {
+		lines[i] = devices.Printable(l)
+	}
+	return strings.Join(lines, "\n")
 }

@@ -24,10 +24,10 @@ func runParts(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err := checkFormat(in.format); err != nil {
 		return usagef("%v", err)
 	}
-	lib, devs, err := loadLibrary(&in, stdin, stderr)
+	lib, devs, aside, err := loadLibrary(&in, stdin, stderr)
 	if err != nil {
 		return err
 	}
-	rep := report.PartsList{Source: lib.Source, Devices: devs}
+	rep := report.PartsList{Source: lib.Source, Devices: devs, SetAside: aside}
 	return writeReport(stdout, rep.Report(), &in)
 }

@@ -100,13 +100,14 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if auto {
 		return errors.New("sweep takes --parallel N, not auto (the best count would change along the sweep)")
 	}
-	lib, devs, err := loadLibrary(&in, stdin, stderr)
+	lib, devs, aside, err := loadLibrary(&in, stdin, stderr)
 	if err != nil {
 		return err
 	}
+	warnSetAside(stderr, lib.Source, aside)
 	var partner *fit.Device
 	if in.partner != "" {
-		if partner, err = findDevice(devs, in.partner); err != nil {
+		if partner, err = findDevice(devs, aside, in.partner); err != nil {
 			return fmt.Errorf("--partner: %w", err)
 		}
 	}
@@ -114,7 +115,7 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	var ptrs []*fit.Device
 	if fs.NArg() > 0 {
 		for _, name := range fs.Args() {
-			d, err := findDevice(devs, name)
+			d, err := findDevice(devs, aside, name)
 			if err != nil {
 				return err
 			}
@@ -128,12 +129,18 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 	}
 	if n := counts[len(counts)-1]; n > 1 {
-		for i, d := range ptrs {
+		kept := ptrs[:0]
+		for _, d := range ptrs {
 			dn, err := decide.Parallel(d, n)
 			if err != nil {
-				return err
+				// This copy costs only itself.
+				warnSetAside(stderr, lib.Source, []rank.SetAside{{Part: d.Part.Name, Line: d.Part.Line, Reason: fmt.Sprintf("%d in parallel: %v", n, err)}})
+				continue
 			}
-			ptrs[i] = &dn
+			kept = append(kept, &dn)
+		}
+		if ptrs = kept; len(ptrs) == 0 {
+			return errors.New("no part to sweep: every paralleled copy was set aside")
 		}
 	}
 	bar := newProgress(stderr, len(ptrs), "sweeping "+strconv.Itoa(len(ptrs))+" parts")
@@ -154,15 +161,15 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	index := map[string]int{}
-	for i := range devs {
-		index[devs[i].Part.Name] = i
+	for i := range lib.Parts {
+		index[lib.Parts[i].Name] = i
 	}
 	for _, d := range ptrs {
 		if _, ok := index[d.Part.Name]; !ok {
 			index[d.Part.Name] = index[strings.TrimSpace(strings.Split(d.Part.Name, " ×")[0])]
 		}
 	}
-	sr := report.Sweep{Result: sw, Set: set, Crossovers: cs, Components: sf.components, Source: lib.Source, Parts: len(devs), Index: index}
+	sr := report.Sweep{Result: sw, Set: set, Crossovers: cs, Components: sf.components, Source: lib.Source, Parts: len(lib.Parts), Index: index}
 	rep := sr.Report()
 	if sf.plot != "" {
 		if err := writePlot(sf.plot, rep.Plot, sf.logY); err != nil {

@@ -125,6 +125,7 @@ func runVerify(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	warnSetAside(stderr, lib.source, lib.aside)
 	pt, partner := plan.Point, plan.Partner
 	base := demoModels
 	if in.demo && base == "" {
@@ -150,7 +151,7 @@ func runVerify(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	v := report.Verification{Result: rep, Source: lib.source, Parts: len(devs)}
+	v := report.Verification{Result: rep, Source: lib.source, Parts: len(devs) + len(lib.aside)}
 	if err := writeReport(stdout, v.Report(), &in); err != nil {
 		return err
 	}

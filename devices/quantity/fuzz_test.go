@@ -3,6 +3,7 @@ package quantity
 import (
 	"math"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -12,7 +13,7 @@ import (
 func FuzzParse(f *testing.F) {
 	for _, s := range []string{"280m", "0.28", "280 mOhm", "280 mΩ", "71p", "71 pF", "3.3n", "1.2k",
 		"4.7e-9", "4.7u", "4.7µ", "100 A/µs", "25 °C", "3 nC", "", "NaN", "Inf", "1e999", "15%",
-		"-0.5e-3 k", "1e308k", "99999999999999999999", "0.9996", "1e-320"} {
+		"-0.5e-3 k", "1e308k", "99999999999999999999", "0.9996", "1e-320", "4,7 nC", "0,28", "1,2k"} {
 		f.Add(s)
 	}
 	ps := allParsers()
@@ -24,6 +25,14 @@ func FuzzParse(f *testing.F) {
 			want, werr := strconv.ParseFloat(s[:n], 64)
 			if (err == nil) != (werr == nil) || (err == nil && got != want) {
 				t.Fatalf("number(%q) = %v, %v; strconv %v, %v", s[:n], got, err, want, werr)
+			}
+		}
+		// A decimal comma reads as a point would.
+		for _, p := range ps[:3] {
+			a, errA := ParseFloatDecimalComma(s, p.kind)
+			b, errB := ParseFloat(strings.ReplaceAll(s, ",", "."), p.kind)
+			if (errA == nil) != (errB == nil) || errA == nil && a != b {
+				t.Fatalf("%s: decimal comma %q = %v, %v; with points %v, %v", p.name, s, a, errA, b, errB)
 			}
 		}
 		for _, p := range ps {

@@ -2,7 +2,6 @@ package decide
 
 import (
 	"cmp"
-	"errors"
 	"fmt"
 	"runtime"
 	"slices"
@@ -79,17 +78,34 @@ type Candidate struct {
 	Single Eval        // one device
 	Chosen Eval        // N devices
 	// Tried holds the key (Eval.Key) of each count tried, in the order of
-	// the counts.
+	// the counts; a count in Unprepared is left out.
 	Tried []float64
+	// TriedN are the counts of Tried, in the same order.
+	TriedN []int
+	// Unprepared names each count whose paralleled copy could not be
+	// prepared, with the reason ("3 in parallel: …"). With auto such a
+	// count is skipped; otherwise the candidate is set aside (NotEvaluated).
+	Unprepared []string
+	// NotEvaluated is why the count asked for could not be evaluated (""
+	// when it was): the candidate is set aside, its reason this text.
+	NotEvaluated string
 	// Worst is the chosen count evaluated with the part's maximum
 	// datasheet values (AddWorst; leaders only, nil otherwise).
 	Worst *Eval
 	// NoMax is true for a leader whose part gives no maximum values.
 	NoMax bool
+	// WorstReason is why a leader's worst case could not be evaluated (""
+	// when it was, or with NoMax): its worst-case copy could not be
+	// prepared. The leader keeps its place on its typical values.
+	WorstReason string
 }
 
 // Name returns the part's name (with its count when paralleled).
 func (c *Candidate) Name() string { return c.Dev.Part.Name }
+
+// Screened reports whether the candidate is set aside: a screen of its
+// chosen evaluation, or a count that could not be evaluated.
+func (c *Candidate) Screened() bool { return c.NotEvaluated != "" || c.Chosen.Screened() }
 
 // Plan is what the decision path evaluates: one point or a profile, and
 // the device in the other place of a synchronous stage.
@@ -121,9 +137,8 @@ func better(a, b *Eval) bool {
 // count with the least key when auto, else the last count. The order of
 // the result is the rank order: passing parts first, then the key, then
 // the name.
-func EvaluateAll(plan *Plan, devs []fit.Device, counts []int, auto bool) ([]Candidate, error) {
+func EvaluateAll(plan *Plan, devs []fit.Device, counts []int, auto bool) []Candidate {
 	out := make([]Candidate, len(devs))
-	errs := make([]error, len(devs))
 	work := func(i int) {
 		c := Candidate{Base: &devs[i], N: 1, Dev: &devs[i]}
 		for _, n := range counts {
@@ -131,13 +146,20 @@ func EvaluateAll(plan *Plan, devs []fit.Device, counts []int, auto bool) ([]Cand
 			if n > 1 {
 				dn, err := Parallel(d, n)
 				if err != nil {
-					errs[i] = err
-					return
+					// This copy costs only itself: the count is skipped,
+					// or, when it was asked for, the part set aside.
+					why := fmt.Sprintf("%d in parallel: %v", n, err)
+					c.Unprepared = append(c.Unprepared, why)
+					if !auto {
+						c.NotEvaluated = why
+					}
+					continue
 				}
 				d = &dn
 			}
 			e := plan.Evaluate(d)
 			c.Tried = append(c.Tried, e.Key())
+			c.TriedN = append(c.TriedN, n)
 			switch {
 			case n == 1:
 				c.Single, c.Chosen = e, e
@@ -152,11 +174,8 @@ func EvaluateAll(plan *Plan, devs []fit.Device, counts []int, auto bool) ([]Cand
 			work(i)
 		}
 	})
-	if err := errors.Join(errs...); err != nil {
-		return nil, err
-	}
 	slices.SortStableFunc(out, func(a, b Candidate) int {
-		if sa, sb := a.Chosen.Screened(), b.Chosen.Screened(); sa != sb {
+		if sa, sb := a.Screened(), b.Screened(); sa != sb {
 			if sa {
 				return 1
 			}
@@ -167,21 +186,24 @@ func EvaluateAll(plan *Plan, devs []fit.Device, counts []int, auto bool) ([]Cand
 		}
 		return cmp.Compare(a.Name(), b.Name())
 	})
-	return out, nil
+	return out
 }
 
 // AddWorst evaluates the worst-case values (WorstCase) of the first
-// passing leaders of cs, at most WorstLeaders of them, in rank order.
-func AddWorst(plan *Plan, cs []Candidate) error {
+// passing leaders of cs, at most WorstLeaders of them, in rank order. A
+// worst-case copy that cannot be prepared costs only its own worst case:
+// the leader keeps its place, with the reason in WorstReason.
+func AddWorst(plan *Plan, cs []Candidate) {
 	k := 0
 	for i := range cs {
-		if k == WorstLeaders || cs[i].Chosen.Screened() {
+		if k == WorstLeaders || cs[i].Screened() {
 			break
 		}
 		k++
 		w, ok, err := WorstCase(cs[i].Dev)
 		if err != nil {
-			return fmt.Errorf("%s: %w", cs[i].Name(), err)
+			cs[i].WorstReason = err.Error()
+			continue
 		}
 		if !ok {
 			cs[i].NoMax = true
@@ -190,7 +212,6 @@ func AddWorst(plan *Plan, cs []Candidate) error {
 		e := plan.Evaluate(&w)
 		cs[i].Worst = &e
 	}
-	return nil
 }
 
 // LeaderSpread compares the first two candidates of cs (in rank order),
@@ -199,7 +220,7 @@ func AddWorst(plan *Plan, cs []Candidate) error {
 // (Eval.Key), watts or a fraction. It returns nil when it cannot be told:
 // fewer than two passing leaders, or a leader without worst-case values.
 func LeaderSpread(cs []Candidate) *Spread {
-	if len(cs) < 2 || cs[0].Chosen.Screened() || cs[1].Chosen.Screened() || cs[0].Worst == nil {
+	if len(cs) < 2 || cs[0].Screened() || cs[1].Screened() || cs[0].Worst == nil {
 		return nil
 	}
 	runnerWorst := cs[1].Chosen.Key()
@@ -219,7 +240,7 @@ func PriceFront(cs []Candidate) []int {
 	var items []PriceLoss
 	for i := range cs {
 		p := cs[i].Dev.Part.Price
-		if !p.OK || cs[i].Chosen.Screened() {
+		if !p.OK || cs[i].Screened() {
 			continue
 		}
 		idx = append(idx, i)
@@ -241,7 +262,7 @@ func PriceFront(cs []Candidate) []int {
 // leaders (AddWorst). It returns nil when no shown part gives a price or a
 // maximum value (rds_on_max, qg_max, vgs_th_max): there is then nothing to
 // add to the ranking.
-func Leaders(pt *stage.Point, partner *fit.Device, shown []evaluate.Result) ([]Candidate, error) {
+func Leaders(pt *stage.Point, partner *fit.Device, shown []evaluate.Result) []Candidate {
 	plan := &Plan{Point: pt, Partner: partner}
 	cs := make([]Candidate, len(shown))
 	hasExtra := false
@@ -254,10 +275,8 @@ func Leaders(pt *stage.Point, partner *fit.Device, shown []evaluate.Result) ([]C
 		}
 	}
 	if !hasExtra {
-		return nil, nil
+		return nil
 	}
-	if err := AddWorst(plan, cs); err != nil {
-		return nil, err
-	}
-	return cs, nil
+	AddWorst(plan, cs)
+	return cs
 }

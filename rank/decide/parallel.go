@@ -47,7 +47,7 @@ const DefaultParallelMax = 4
 // gate-charge method (Balogh 2001): t = n·Q·R/n / ΔV.
 func ParallelPart(p *devices.Part, n int) (devices.Part, error) {
 	if n < 1 || n > MaxParallel {
-		return devices.Part{}, fmt.Errorf("part %s: parallel count %d outside 1 to %d", p.Name, n, MaxParallel)
+		return devices.Part{}, fmt.Errorf("part %q: parallel count %d outside 1 to %d", p.Name, n, MaxParallel)
 	}
 	c := *p
 	if n == 1 {

@@ -238,7 +238,7 @@ func prepare(p *devices.Part, low bool) (Device, error) {
 func (d *Device) fitGateLaw() error {
 	p := d.Part
 	if p.RdsOn <= 0 || p.RdsOnVgs <= p.VgsTh {
-		return fmt.Errorf("part %s: rds_on_vgs must exceed vgs_th", p.Name)
+		return fmt.Errorf("part %q: rds_on_vgs must exceed vgs_th", p.Name)
 	}
 	d.VgsLow = p.RdsOnVgs
 	if p.RdsOn2.OK && p.RdsOn2Vgs.OK && p.RdsOn2Vgs.V != p.RdsOnVgs && p.RdsOn2Vgs.V > p.VgsTh {
@@ -264,7 +264,7 @@ func (d *Device) fitTempLaw() error {
 	case strings.TrimSpace(p.RdsCurve) != "":
 		pts, err := p.Curve()
 		if err != nil {
-			return fmt.Errorf("part %s: rds_on_curve: %w", p.Name, err)
+			return fmt.Errorf("part %q: rds_on_curve: %w", p.Name, err)
 		}
 		for i, c := range pts {
 			if i == len(d.Temp.Pts) {
@@ -309,7 +309,7 @@ func (d *Device) fitOss() error {
 		d.Oss, d.OssV = loss.OssFromCapacitance(p.Coss.V, p.CapVds.V, ossExponent(fromCapacitance, d.Low)), p.CapVds.V
 		d.Flags |= FlagOssSqrtLaw
 	default:
-		return fmt.Errorf("part %s: needs coss with cap_vds, or qoss or eoss with oss_vds", p.Name)
+		return fmt.Errorf("part %q: needs coss with cap_vds, or qoss or eoss with oss_vds", p.Name)
 	}
 	return nil
 }
@@ -338,7 +338,7 @@ func (d *Device) fitGateCharge() error {
 		// load and gate loop.
 		qgs, qgd, vpl := d.gateChargeEstimates()
 		if !(vpl > p.VgsTh && p.QgVgs > vpl) {
-			return fmt.Errorf("part %s: v_plateau %s must lie between vgs_th %s and qg_vgs %s", p.Name, vpl, p.VgsTh, p.QgVgs)
+			return fmt.Errorf("part %q: v_plateau %s must lie between vgs_th %s and qg_vgs %s", p.Name, vpl, p.VgsTh, p.QgVgs)
 		}
 		d.Method = MethodGateCharge
 		d.VplSpec = vpl
@@ -392,7 +392,7 @@ func (d *Device) fitMiller() error {
 func (d *Device) prepareSecondOrder() error {
 	p := d.Part
 	bad := func(field, format string, a ...any) error {
-		return fmt.Errorf("part %s: %s: %s", p.Name, field, fmt.Sprintf(format, a...))
+		return fmt.Errorf("part %q: %s: %s", p.Name, field, fmt.Sprintf(format, a...))
 	}
 	d.VthTC = vthTCPerVolt * float64(p.VgsTh)
 	if d.Low {

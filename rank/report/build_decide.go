@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"swrank/rank"
 	"swrank/rank/decide"
 	"swrank/rank/evaluate"
 	"swrank/rank/stage"
@@ -17,6 +18,7 @@ import (
 type Decisions struct {
 	Plan       *decide.Plan       // the point or profile evaluated
 	Candidates []decide.Candidate // in rank order (decide.EvaluateAll, decide.AddWorst)
+	SetAside   []rank.SetAside    // parts that could not be evaluated, with the reason (always listed)
 	Source     string             // the library's name
 	Parts      int                // parts in the library
 	All        bool               // list the parts set aside as rows too
@@ -76,7 +78,7 @@ func (r *Decisions) Report() *Report {
 	}
 	for i := range r.Candidates {
 		c := &r.Candidates[i]
-		out := c.Chosen.Screened()
+		out := c.Screened()
 		if out {
 			setAside = append(setAside, r.reasons(c)...)
 			if !r.All {
@@ -95,19 +97,22 @@ func (r *Decisions) Report() *Report {
 		}
 		t.Rows = append(t.Rows, row)
 	}
+	for _, a := range r.SetAside {
+		t.Rows = append(t.Rows, notEvaluatedRow(a))
+	}
 	moveFirst(t.Rows, "rank")
 	t.Compact, t.Wide = r.columns()
 	rep.Tables = []Table{t}
 	rep.Notes = notesOf(t.Rows)
 	rep.Failed = n == 0
-	if len(setAside) > 0 {
+	if len(setAside) > 0 || len(r.SetAside) > 0 {
 		k := 0
 		for i := range r.Candidates {
-			if r.Candidates[i].Chosen.Screened() {
+			if r.Candidates[i].Screened() {
 				k++
 			}
 		}
-		rep.Sections = append(rep.Sections, Section{Key: "set_aside", Title: fmt.Sprintf("set aside (%s):", Plural(k, "part", "parts")), Lines: setAside})
+		rep.Sections = append(rep.Sections, setAsideSection(r.SetAside, k, setAside))
 	}
 	rep.Sections = append(rep.Sections, leaderSections(r.Candidates, r.unit)...)
 	if t, ok := spreadTable(r.Candidates); ok {
@@ -155,12 +160,16 @@ func (r *Decisions) aboutProfile() []string {
 	return append(out, fmt.Sprintf("library %s: %s", r.Source, Plural(r.Parts, "part", "parts")))
 }
 
-// reasons are why a candidate is set aside, at each point of a profile.
+// reasons are why a candidate is set aside: the count asked for that
+// could not be evaluated, then the screens (at each point of a profile).
 func (r *Decisions) reasons(c *decide.Candidate) []string {
-	if !c.Chosen.Prof {
-		return c.Chosen.Res.Reasons()
-	}
 	var out []string
+	if c.NotEvaluated != "" {
+		out = append(out, c.Base.Part.Name+": not evaluated: "+c.NotEvaluated)
+	}
+	if !c.Chosen.Prof {
+		return append(out, c.Chosen.Res.Reasons()...)
+	}
 	for i := range c.Chosen.W.Results {
 		for _, s := range c.Chosen.W.Results[i].Reasons() {
 			out = append(out, "at "+r.Plan.Profile.Points[i].Name+": "+s)
@@ -174,7 +183,7 @@ func (r *Decisions) row(c *decide.Candidate, onFront bool) Row {
 	var row Row
 	if pr := r.Plan.Profile; pr != nil {
 		w := &c.Chosen.W
-		row = Row{SetAside: c.Chosen.Screened()}
+		row = Row{SetAside: c.Screened()}
 		row.Set("part", Text(c.Name()))
 		if w.Partner != nil {
 			row.Set("partner", Text(w.Partner.Part.Name))
@@ -228,6 +237,21 @@ func (r *Decisions) row(c *decide.Candidate, onFront bool) Row {
 		} else {
 			row.Set("worst_total_w", Unknown())
 		}
+		if c.Screened() && !row.SetAside { // a count that could not be evaluated
+			row.SetAside = true
+			row.Set("status", Text(status(true, 0)))
+			row.Set("set_aside", Bool(true))
+			row.Set("reasons", List(r.reasons(c)))
+		}
+	}
+	if c.WorstReason != "" {
+		row.Set("worst_not_evaluated", Text(c.WorstReason))
+	}
+	if c.NotEvaluated != "" {
+		row.Set("not_evaluated", Text(c.NotEvaluated))
+	}
+	if len(c.Unprepared) > 0 {
+		row.Set("unprepared_counts", List(c.Unprepared))
 	}
 	row.Set("n", Num(float64(c.N)))
 	if r.Parallel {
@@ -239,7 +263,10 @@ func (r *Decisions) row(c *decide.Candidate, onFront bool) Row {
 		for i, v := range c.Tried {
 			var t Record
 			n := i + 1
-			if i < len(r.Counts) {
+			switch {
+			case i < len(c.TriedN):
+				n = c.TriedN[i]
+			case i < len(r.Counts):
 				n = r.Counts[i]
 			}
 			t.Set("n", Num(float64(n)))

@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	q "swrank/devices/quantity"
+	"swrank/rank"
 	"swrank/rank/decide"
 	"swrank/rank/evaluate"
 	"swrank/rank/fit"
@@ -17,6 +18,7 @@ type Ranking struct {
 	Source   string            // the library's name
 	Parts    int               // parts in the library
 	Results  []evaluate.Result // in rank order (all of them, or the leaders kept)
+	SetAside []rank.SetAside   // parts that could not be evaluated, with the reason (always listed)
 	Screened int               // parts set aside in the library (0: count the results)
 	All      bool              // list the parts set aside as rows too
 	Top      int               // list only the best Top passing parts (0: all)
@@ -283,6 +285,9 @@ func (r *Ranking) Report() *Report {
 		partner = partner || x.Partner != nil
 		t.Rows = append(t.Rows, row)
 	}
+	for _, a := range r.SetAside {
+		t.Rows = append(t.Rows, notEvaluatedRow(a))
+	}
 	moveFirst(t.Rows, "rank")
 	addLeaders(t.Rows, r.Leaders)
 	t.Compact, t.Wide = columnsFor(r.Point, partner)
@@ -296,21 +301,49 @@ func (r *Ranking) Report() *Report {
 		rep.About = append(rep.About, fmt.Sprintf("the other place holds %s in every row", r.Results[0].Partner.Part.Name))
 	}
 	screened := max(r.Screened, len(setAside))
-	if screened > 0 {
-		sec := Section{Key: "set_aside", Title: fmt.Sprintf("set aside (%s):", Plural(screened, "part", "parts"))}
+	if screened > 0 || len(r.SetAside) > 0 {
+		var lines []string
 		for i := range setAside {
-			sec.Lines = append(sec.Lines, setAside[i].Reasons()...)
+			lines = append(lines, setAside[i].Reasons()...)
 		}
 		if screened > len(setAside) {
-			sec.Lines = append(sec.Lines, fmt.Sprintf("… and %d more (the lowest-loss %d shown)", screened-len(setAside), len(setAside)))
+			lines = append(lines, fmt.Sprintf("… and %d more (the lowest-loss %d shown)", screened-len(setAside), len(setAside)))
 		}
-		rep.Sections = append(rep.Sections, sec)
+		rep.Sections = append(rep.Sections, setAsideSection(r.SetAside, screened, lines))
 	}
 	rep.Sections = append(rep.Sections, leaderSections(r.Leaders, watts)...)
 	if t, ok := spreadTable(r.Leaders); ok {
 		rep.Tables = append(rep.Tables, t)
 	}
 	return rep
+}
+
+// setAsideSection lists the parts set aside: first those that could not
+// be evaluated (aside), then lines, the reasons of the screened parts
+// (screened of them).
+func setAsideSection(aside []rank.SetAside, screened int, lines []string) Section {
+	sec := Section{Key: "set_aside", Title: fmt.Sprintf("set aside (%s):", Plural(len(aside)+screened, "part", "parts"))}
+	for _, a := range aside {
+		sec.Lines = append(sec.Lines, a.String())
+	}
+	sec.Lines = append(sec.Lines, lines...)
+	return sec
+}
+
+// notEvaluatedRow is the row of a part that could not be evaluated: its
+// name, line and reason, no numbers.
+func notEvaluatedRow(a rank.SetAside) Row {
+	row := Row{SetAside: true, NotEvaluated: true}
+	row.Set("rank", Unknown())
+	row.Set("part", Text(a.Part))
+	row.Set("status", Text(status(true, 0)))
+	if a.Line > 0 {
+		row.Set("line", Num(float64(a.Line)))
+	}
+	row.Set("not_evaluated", Text(a.Reason))
+	row.Set("set_aside", Bool(true))
+	row.Set("reasons", List([]string{"not evaluated: " + a.Reason}))
+	return row
 }
 
 // spreadTable is the leader's lead against its own spread, for CSV and
@@ -368,6 +401,9 @@ func addLeaders(rows []Row, cs []decide.Candidate) {
 				worst = Num(c.Worst.Key())
 			}
 			rows[i].Set("worst_total_w", worst)
+			if c.WorstReason != "" {
+				rows[i].Set("worst_not_evaluated", Text(c.WorstReason))
+			}
 			price := Unknown()
 			if p := c.Dev.Part.Price; p.OK {
 				price = Num(p.V)
@@ -388,6 +424,8 @@ func leaderSections(cs []decide.Candidate, unit func(float64) string) []Section 
 		switch {
 		case c.Worst != nil:
 			worst = append(worst, fmt.Sprintf("%s: typical %s, worst case %s", c.Name(), unit(c.Chosen.Key()), unit(c.Worst.Key())))
+		case c.WorstReason != "":
+			worst = append(worst, fmt.Sprintf("%s: typical %s, worst case not evaluated: %s", c.Name(), unit(c.Chosen.Key()), c.WorstReason))
 		case c.NoMax:
 			// Unknown is not zero: a leader without maximum values is
 			// listed with its worst case unknown, never left out.

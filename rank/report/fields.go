@@ -84,8 +84,12 @@ var fields = []Field{
 	{"flags", "flags", "", KindList, "", "codes of the approximations and fallbacks used (numbered notes in the table)"},
 	{"reasons", "reasons", "", KindList, "", "why a part is set aside, one sentence each"},
 	{"set_aside", "set aside", "", KindBool, "", "a screen sets the part aside"},
+	{"line", "line", "", KindNumber, "", "the part's line in its library file (a part that could not be evaluated)"},
+	{"not_evaluated", "not evaluated", "", KindText, "", "why the part, or the paralleled copy asked for, could not be evaluated: it is set aside and costs only itself"},
+	{"unprepared_counts", "unprepared", "", KindList, "", "paralleling: each count whose paralleled copy could not be prepared, with the reason (left out of tried)"},
 	// Decisions.
 	{"worst_total_w", "worst case", "W", KindNumber, "", "total_w with the maximum datasheet values (rds_on_max, qg_max, vgs_th_max) in place of the typical ones"},
+	{"worst_not_evaluated", "worst case not evaluated", "", KindText, "", "why a leading part's worst case could not be evaluated (its worst-case copy cannot be prepared); the part keeps its place"},
 	{"price", "price", "", KindNumber, "", "unit price from the library (its own currency), × N when paralleled"},
 	{"tried", "tried", "", KindText, "", "paralleling: one nested record per count tried (n, and total_w at a point or loss_weighted_pct over a profile)"},
 	{"runner_up", "runner-up", "", KindText, "", "the second part, whose lead the leader_spread table weighs"},

@@ -19,7 +19,8 @@ type Grid struct {
 // TextGrid turns rows of t into text cells for the columns cols: values
 // printed by FormatCell, the junction temperature with ~ when its thermal
 // path is estimated, the notes column as the numbers of the rows' notes
-// (1-3,5). A table with a Pivot becomes a grid of its Val field.
+// (1-3,5), a library's text with its control characters escaped
+// (CellText). A table with a Pivot becomes a grid of its Val field.
 func TextGrid(t *Table, cols []string, rows []Row) Grid {
 	if t.Pivot != nil {
 		return pivotGrid(t.Pivot, rows)
@@ -66,7 +67,7 @@ func TextGrid(t *Table, cols []string, rows []Row) Grid {
 					s = "~" + s
 				}
 			}
-			line[j] = s
+			line[j] = CellText(s)
 		}
 		g.Cells = append(g.Cells, line)
 	}
@@ -85,7 +86,7 @@ func pivotGrid(p *Pivot, rows []Row) Grid {
 		xc, _ := r.Get(p.Row)
 		x := FormatCell(p.Row, xc, r.Record)
 		cc, _ := r.Get(p.Col)
-		col := cc.Text
+		col := CellText(cc.Text)
 		if !slices.Contains(xs, x) {
 			xs = append(xs, x)
 		}

@@ -101,6 +101,10 @@ type Row struct {
 	Sub map[string][]Record
 	// SetAside is true for a part a screen sets aside.
 	SetAside bool
+	// NotEvaluated is true for a part set aside before it could be
+	// evaluated (rank.SetAside): CSV and JSON write its row, the text
+	// formats say it in the set-aside section only.
+	NotEvaluated bool
 }
 
 // Table is a table of the report.
@@ -303,11 +307,16 @@ func anyKnown(rows []Row, key string) bool {
 }
 
 // Shown returns the rows the text formats list (the first limit rows of
-// a ranked table; all with limit ≤ 0) and how many more there are.
+// a ranked table; all with limit ≤ 0), rows not evaluated left out, and
+// how many more there are.
 func (t *Table) Shown(limit int) ([]Row, int) {
 	more := t.More
-	if !t.Ranked || limit <= 0 || len(t.Rows) <= limit {
-		return t.Rows, more
+	rows := t.Rows
+	if slices.ContainsFunc(rows, func(r Row) bool { return r.NotEvaluated }) {
+		rows = slices.DeleteFunc(slices.Clone(rows), func(r Row) bool { return r.NotEvaluated })
 	}
-	return t.Rows[:limit], more + len(t.Rows) - limit
+	if !t.Ranked || limit <= 0 || len(rows) <= limit {
+		return rows, more
+	}
+	return rows[:limit], more + len(rows) - limit
 }

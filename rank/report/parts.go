@@ -1,6 +1,7 @@
 package report
 
 import (
+	"swrank/rank"
 	"swrank/rank/fit"
 )
 
@@ -9,6 +10,8 @@ import (
 type PartsList struct {
 	Source  string       // the library's name (its path, "stdin" or "demo")
 	Devices []fit.Device // the parts, prepared, in file order
+	// SetAside are the parts that could not be prepared, with the reason.
+	SetAside []rank.SetAside
 }
 
 // PartsListJSON is one part of the list as the JSON document's "parts"
@@ -29,8 +32,9 @@ var partsColumns = []string{"part", "technology", "package", "vds_max_v", "id_ma
 // Report builds the list's report: one row per part, and a line saying
 // what the count of estimates means.
 func (r *PartsList) Report() *Report {
-	rep := &Report{Command: "parts", Library: r.Source, Parts: len(r.Devices)}
-	rep.About = []string{"library " + r.Source + ": " + Plural(len(r.Devices), "part", "parts")}
+	n := len(r.Devices) + len(r.SetAside)
+	rep := &Report{Command: "parts", Library: r.Source, Parts: n}
+	rep.About = []string{"library " + r.Source + ": " + Plural(n, "part", "parts")}
 	t := Table{Name: "parts", Compact: partsColumns, Fit: "estimates"}
 	for i := range r.Devices {
 		d := &r.Devices[i]
@@ -49,5 +53,8 @@ func (r *PartsList) Report() *Report {
 	rep.Sections = []Section{{Key: "legend", Lines: []string{
 		"est: blank values the models estimate for this part (0: its row is complete); estimated values: their codes, " +
 			"cut to the width (--format csv or json lists them whole); \"swrank rank -h\" and docs/library.md say what each needs"}}}
+	if len(r.SetAside) > 0 {
+		rep.Sections = append(rep.Sections, setAsideSection(r.SetAside, 0, nil))
+	}
 	return rep
 }

@@ -4,7 +4,8 @@
 // part and point). Numbers are plain, in the unit of their header, without
 // prefixes; an unknown value is an empty cell; yes/no are true/false;
 // lists are joined with "; ". Every cell goes through Safe, so that no
-// part name becomes a spreadsheet formula.
+// part name becomes a spreadsheet formula and no control character of a
+// library reaches the file.
 package csv
 
 import (
@@ -69,17 +70,6 @@ func Cell(key string, c report.Cell) string {
 
 // Safe neutralises a cell that a spreadsheet would run as a formula
 // (OWASP guidance on CSV injection: cells starting with = + - @ tab or CR),
-// leaving plain numbers alone.
-func Safe(s string) string {
-	if s == "" {
-		return s
-	}
-	if _, err := strconv.ParseFloat(s, 64); err == nil {
-		return s
-	}
-	switch s[0] {
-	case '=', '+', '-', '@', '\t', '\r':
-		return "'" + s
-	}
-	return s
-}
+// leaving plain numbers alone, then escapes its control characters
+// (report.CSVText).
+func Safe(s string) string { return report.CSVText(s) }

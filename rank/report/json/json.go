@@ -4,7 +4,8 @@
 // named by the table (results, candidates, grid, crossovers), the
 // sections, the notes of the flag codes and explain's steps. Members are
 // the field names of report.Fields, numbers in the unit their name ends
-// in; an unknown number is null.
+// in; an unknown number is null. A library's text is kept as written,
+// its control characters escaped as JSON escapes.
 package json
 
 import (
@@ -106,7 +107,9 @@ func Write(w io.Writer, rep *report.Report) error {
 	if err := enc.Encode(doc); err != nil {
 		return fmt.Errorf("json: %w", err)
 	}
-	_, err := w.Write(buf.Bytes())
+	// DEL, C1 controls and bidirectional overrides, which encoding/json
+	// writes raw, as \uXXXX escapes.
+	_, err := w.Write(report.GuardJSON(buf.Bytes()))
 	return err
 }
 

@@ -20,8 +20,13 @@ type Options struct {
 	All     bool     // every row of a ranked table
 }
 
-// Write draws rep to w in Markdown.
+// Write draws rep to w in Markdown, a library's text with its control
+// characters escaped (report.MarkdownCell, report.GuardText).
 func Write(w io.Writer, rep *report.Report, opt Options) error {
+	return report.GuardText(w, func(w io.Writer) error { return write(w, rep, opt) })
+}
+
+func write(w io.Writer, rep *report.Report, opt Options) error {
 	var b strings.Builder
 	for _, l := range rep.About {
 		if strings.TrimSpace(l) != "" {
@@ -90,8 +95,6 @@ func writeGrid(b *strings.Builder, g report.Grid) {
 	}
 }
 
-// escape keeps a cell's pipes and a line's leading markup from being read
-// as Markdown.
-func escape(s string) string {
-	return strings.ReplaceAll(s, "|", `\|`)
-}
+// escape keeps a cell's pipes from being read as Markdown and its control
+// characters from reaching a terminal (report.MarkdownCell).
+func escape(s string) string { return report.MarkdownCell(s) }

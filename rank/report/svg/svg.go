@@ -70,7 +70,8 @@ func Write(w io.Writer, pl *report.Plot, format string, opt Options) error {
 // build makes the gonum plot.
 func build(pl *report.Plot, opt Options) (*plot.Plot, error) {
 	p := plot.New()
-	p.Title.Text = pl.Title
+	// No control character of a library reaches the XML text.
+	p.Title.Text = report.CellText(pl.Title)
 	p.X.Label.Text = fmt.Sprintf("%s (%s)", pl.XLabel, pl.XUnit)
 	p.Y.Label.Text = pl.YLabel + " (W)"
 	p.X.Tick.Marker = ticks{log: pl.XLog, unit: pl.XUnit}
@@ -98,7 +99,7 @@ func build(pl *report.Plot, opt Options) (*plot.Plot, error) {
 			}
 			l, err := plotter.NewLine(run)
 			if err != nil {
-				return fmt.Errorf("plot of %s: %w", s.Name, err)
+				return fmt.Errorf("plot of %q: %w", s.Name, err)
 			}
 			l.Color, l.Dashes, l.Width = col, dash, vg.Points(1.5)
 			p.Add(l)
@@ -124,7 +125,7 @@ func build(pl *report.Plot, opt Options) (*plot.Plot, error) {
 		}
 		if first != nil {
 			lines[s.Name] = first
-			p.Legend.Add(s.Name, first)
+			p.Legend.Add(report.CellText(s.Name), first)
 		}
 	}
 	if ymax == 0 {
@@ -142,7 +143,7 @@ func build(pl *report.Plot, opt Options) (*plot.Plot, error) {
 		if r.Best == "" || lines[r.Best] == nil {
 			continue
 		}
-		p.Legend.Add(fmt.Sprintf("best from %s to %s: %s", report.SI(r.From, pl.XUnit), report.SI(r.To, pl.XUnit), r.Best), lines[r.Best])
+		p.Legend.Add(fmt.Sprintf("best from %s to %s: %s", report.SI(r.From, pl.XUnit), report.SI(r.To, pl.XUnit), report.CellText(r.Best)), lines[r.Best])
 	}
 	if len(pl.Crossovers) > 0 {
 		var xy plotter.XYs
@@ -152,7 +153,7 @@ func build(pl *report.Plot, opt Options) (*plot.Plot, error) {
 				continue
 			}
 			xy = append(xy, plotter.XY{X: c.X, Y: c.Y})
-			labels = append(labels, c.Label)
+			labels = append(labels, report.CellText(c.Label))
 		}
 		if len(xy) > 0 {
 			s, err := plotter.NewScatter(xy)

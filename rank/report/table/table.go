@@ -35,8 +35,13 @@ type Options struct {
 // gap is the space between two columns.
 const gap = "  "
 
-// Write draws rep to w.
+// Write draws rep to w, a library's text with its control characters
+// escaped (report.CellText in the cells, report.GuardText over the rest).
 func Write(w io.Writer, rep *report.Report, opt Options) error {
+	return report.GuardText(w, func(w io.Writer) error { return write(w, rep, opt) })
+}
+
+func write(w io.Writer, rep *report.Report, opt Options) error {
 	width := opt.Width
 	if width <= 0 {
 		width = DefaultWidth
