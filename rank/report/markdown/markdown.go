@@ -11,6 +11,10 @@ import (
 	"strings"
 
 	"swrank/rank/report"
+
+	"github.com/olekukonko/tablewriter"
+	"github.com/olekukonko/tablewriter/renderer"
+	"github.com/olekukonko/tablewriter/tw"
 )
 
 // Options choose what the tables show (as for the text table).
@@ -71,28 +75,33 @@ func write(w io.Writer, rep *report.Report, opt Options) error {
 	return err
 }
 
-// writeGrid writes one pipe table.
+// writeGrid writes one pipe table with tablewriter's Markdown renderer:
+// numbers right-aligned, text left-aligned, each cell escaped first.
 func writeGrid(b *strings.Builder, g report.Grid) {
-	cells := func(cs []string) {
-		b.WriteString("|")
-		for _, c := range cs {
-			b.WriteString(" " + escape(c) + " |")
-		}
-		b.WriteString("\n")
-	}
-	cells(g.Heads)
-	b.WriteString("|")
-	for _, n := range g.Numeric {
+	align := make([]tw.Align, len(g.Numeric))
+	for j, n := range g.Numeric {
+		align[j] = tw.AlignLeft
 		if n {
-			b.WriteString("--:|")
-		} else {
-			b.WriteString(":--|")
+			align[j] = tw.AlignRight
 		}
 	}
-	b.WriteString("\n")
-	for _, r := range g.Cells {
-		cells(r)
+	esc := func(cs []string) []string {
+		out := make([]string, len(cs))
+		for j, c := range cs {
+			out[j] = escape(c)
+		}
+		return out
 	}
+	t := tablewriter.NewTable(b,
+		tablewriter.WithRenderer(renderer.NewMarkdown()),
+		tablewriter.WithHeaderAutoFormat(tw.Off),
+		tablewriter.WithHeaderAlignmentConfig(tw.CellAlignment{PerColumn: align}),
+		tablewriter.WithRowAlignmentConfig(tw.CellAlignment{PerColumn: align}),
+		tablewriter.WithHeader(esc(g.Heads)))
+	for _, r := range g.Cells {
+		_ = t.Append(esc(r)) // writes to a strings.Builder: no error to keep
+	}
+	_ = t.Render()
 }
 
 // escape keeps a cell's pipes from being read as Markdown and its control

@@ -12,6 +12,10 @@ import (
 	"unicode/utf8"
 
 	"swrank/rank/report"
+
+	"github.com/olekukonko/tablewriter"
+	"github.com/olekukonko/tablewriter/renderer"
+	"github.com/olekukonko/tablewriter/tw"
 )
 
 // DefaultWidth is the width used when the output is not a terminal, in
@@ -214,15 +218,51 @@ func (p *printer) grid(g report.Grid, cut int) {
 		widenGroups(g.Groups, w)
 		p.line(groupLine(g.Groups, w))
 	}
-	p.line(row(g.Heads, w, g.Numeric))
-	rule := make([]string, n)
-	for j := range rule {
-		rule[j] = strings.Repeat("─", w[j])
+	p.render(g.Heads, g.Cells, w, g.Numeric)
+}
+
+// render draws the headings and the rows with tablewriter, borderless:
+// columns apart by gap, a rule under the headings. The cells come padded
+// to the widths w (numbers right-aligned, text left-aligned, cut to fit),
+// so that the group line above lines up with the columns.
+func (p *printer) render(heads []string, cells [][]string, w []int, numeric []bool) {
+	var b strings.Builder
+	sym := tw.NewSymbolCustom("swrank").WithColumn(gap).WithRow("─").WithCenter(gap).
+		WithHeaderMid(gap).WithMidLeft("").WithMidRight("").WithHeaderLeft("").WithHeaderRight("")
+	t := tablewriter.NewTable(&b,
+		tablewriter.WithRenderer(renderer.NewBlueprint(tw.Rendition{Borders: tw.BorderNone, Symbols: sym,
+			Settings: tw.Settings{Separators: tw.Separators{BetweenColumns: tw.On}, Lines: tw.Lines{ShowHeaderLine: tw.On}}})),
+		tablewriter.WithHeaderAutoFormat(tw.Off),
+		tablewriter.WithTrimSpace(tw.Off),
+		tablewriter.WithPadding(tw.Padding{Overwrite: true}),
+		tablewriter.WithHeader(padCells(heads, w, numeric)))
+	for _, r := range cells {
+		if p.err == nil {
+			p.err = t.Append(padCells(r, w, numeric))
+		}
 	}
-	p.line(strings.Join(rule, gap))
-	for _, r := range g.Cells {
-		p.line(row(r, w, g.Numeric))
+	if p.err == nil {
+		p.err = t.Render()
 	}
+	for _, l := range strings.Split(strings.TrimRight(b.String(), "\n"), "\n") {
+		p.line(l)
+	}
+}
+
+// padCells pads each cell to its column's width w, numbers to the right
+// and text to the left, cut to fit.
+func padCells(cells []string, w []int, numeric []bool) []string {
+	out := make([]string, len(cells))
+	for j, c := range cells {
+		c = cut(c, w[j])
+		pad := strings.Repeat(" ", w[j]-utf8.RuneCountInString(c))
+		if numeric[j] {
+			out[j] = pad + c
+		} else {
+			out[j] = c + pad
+		}
+	}
+	return out
 }
 
 func index(list []string, s string) int {
@@ -285,22 +325,6 @@ func groupLine(groups []string, w []int) string {
 		j = k + 1
 	}
 	return b.String()
-}
-
-// row writes one line: numbers right-aligned, text left-aligned, cut to
-// its column's width.
-func row(cells []string, w []int, numeric []bool) string {
-	out := make([]string, len(cells))
-	for j, c := range cells {
-		c = cut(c, w[j])
-		pad := strings.Repeat(" ", w[j]-utf8.RuneCountInString(c))
-		if numeric[j] {
-			out[j] = pad + c
-		} else {
-			out[j] = c + pad
-		}
-	}
-	return strings.Join(out, gap)
 }
 
 // cut shortens s to n columns, ending in … when it was longer.
