@@ -147,7 +147,7 @@ var fields = []Field{
 	{"difference_pct", "diff %", "%", KindNumber, "", "verify: (predicted_w − simulated_w) over the size of simulated_w, % (blank: nothing simulated to compare with)"},
 	{"margin_pct", "margin %", "%", KindNumber, "", "verify: the difference the cross-check against ngspice allows this share, %"},
 	{"flagged", "flagged", "", KindBool, "", "verify: the share is outside its margin (blank: not simulated)"},
-	{"flag", "flag", "", KindText, "", "verify: within margin, outside margin or not simulated"},
+	{"flag", "flag", "", KindText, "", "verify: within margin, outside margin, small share (outside its margin but under 2 % of the simulated total: not judged) or not simulated"},
 	{"error", "error", "", KindText, "", "verify: why the part could not be simulated"},
 	{"cause", "cause", "", KindText, "", "verify: the share with the largest difference in watts when shares are flagged"},
 	{"periods", "periods", "", KindNumber, "", "verify: periods simulated in the accepted run"},

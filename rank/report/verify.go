@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"math"
 	"slices"
 	"strings"
 
@@ -61,9 +62,14 @@ func (v *Verification) Report() *Report {
 				}
 				flagged := slices.Contains(p.Flagged, s.Name)
 				row.Set("flagged", Bool(flagged))
-				row.Set("flag", Text("within margin"))
-				if flagged {
+				switch d, ok := s.Diff(); {
+				case flagged:
 					row.Set("flag", Text("outside margin"))
+				case ok && math.Abs(d) > verify.Margin(s.Name):
+					// Outside its margin but too small a share to judge.
+					row.Set("flag", Text("small share"))
+				default:
+					row.Set("flag", Text("within margin"))
 				}
 			}
 			row.Set("error", errText(p.Err))
