@@ -72,7 +72,7 @@ func BenchmarkReadGocsv(b *testing.B) {
 // BenchmarkReadFast is the loader as Read and Check use it: the decoder
 // driven by Part's tags, streaming rows.
 func BenchmarkReadFast(b *testing.B) {
-	benchLoader(b, devices.Check)
+	benchLoader(b, devices.ReadOptions{}.Check)
 }
 
 // BenchmarkReadSequential is Check with the tag-driven decoder on one
@@ -104,7 +104,7 @@ func BenchmarkGocsvUnmarshal(b *testing.B) {
 func BenchmarkScan(b *testing.B) {
 	benchLoader(b, func(r io.Reader, name string) (*devices.Library, devices.ProblemList) {
 		count := 0
-		_, probs := devices.Scan(r, name, func(*devices.Part) error { count++; return nil })
+		_, probs := (devices.ReadOptions{}).Scan(r, name, func(*devices.Part) error { count++; return nil })
 		return &devices.Library{Parts: make([]devices.Part, count)}, probs
 	})
 }
@@ -150,12 +150,12 @@ func BenchmarkReadRatio(b *testing.B) {
 		run  func()
 	}{
 		{"check", func() {
-			if _, probs := devices.Check(bytes.NewReader(buf), "bench.csv"); len(probs) > 0 {
+			if _, probs := (devices.ReadOptions{}).Check(bytes.NewReader(buf), "bench.csv"); len(probs) > 0 {
 				b.Fatal(probs)
 			}
 		}},
 		{"scan", func() {
-			if _, probs := devices.Scan(bytes.NewReader(buf), "bench.csv", func(*devices.Part) error { return nil }); len(probs) > 0 {
+			if _, probs := (devices.ReadOptions{}).Scan(bytes.NewReader(buf), "bench.csv", func(*devices.Part) error { return nil }); len(probs) > 0 {
 				b.Fatal(probs)
 			}
 		}},

@@ -16,7 +16,7 @@ import (
 // and some optional columns left blank somewhere (so that the models'
 // fallbacks get exercised).
 func TestDemoValid(t *testing.T) {
-	lib, probs := Check(bytes.NewReader(demoCSV), "demo")
+	lib, probs := (ReadOptions{}).Check(bytes.NewReader(demoCSV), "demo")
 	if probs.Fatal() || len(probs) != 0 {
 		t.Fatalf("demo library problems:\n%v", probs)
 	}

@@ -87,7 +87,7 @@ func TestDecimalCommaProblems(t *testing.T) {
 			t.Errorf("problems %q lack %q", first, want)
 		}
 	}
-	_, probs := Check(strings.NewReader(strings.ReplaceAll(head, ";", ",")+"P1,30,40,20,1,8\n"), "plain.csv")
+	_, probs := (ReadOptions{}).Check(strings.NewReader(strings.ReplaceAll(head, ";", ",")+"P1,30,40,20,1,8\n"), "plain.csv")
 	if !errors.Is(probs, ErrFieldCount) {
 		t.Errorf("a decimal comma in plain CSV: %v", probs)
 	}

@@ -51,13 +51,6 @@ func Load(path string) (*Library, error) {
 	return ReadOptions{}.Load(path)
 }
 
-// Check reads a parts library like Read and returns every problem found,
-// warnings included, in file order: what a user needs to fix. The library
-// is unusable when any problem is fatal (probs.Fatal()).
-func Check(r io.Reader, name string) (*Library, ProblemList) {
-	return ReadOptions{}.Check(r, name)
-}
-
 func check(r io.Reader, name string, d decoderKind, o ReadOptions) (*Library, ProblemList) {
 	lib := &Library{Source: name}
 	l := newLoader(name, nil, o)
@@ -88,15 +81,6 @@ func sizeOf(r io.Reader) int64 {
 		}
 	}
 	return 0
-}
-
-// Scan reads a parts library like Check but holds no parts: it calls fn
-// for each valid part, in file order, with a pointer to a Part that is
-// reused for the next row (copy it to keep it). When fn returns an error,
-// Scan stops and the list ends with a fatal problem wrapping that error.
-// Duplicate names are still detected, from the names seen so far.
-func Scan(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) {
-	return ReadOptions{}.Scan(r, name, fn)
 }
 
 // decoderKind chooses how cells become Part fields. Both give the same

@@ -275,7 +275,7 @@ func TestScan(t *testing.T) {
 		t.Fatal(err)
 	}
 	var names []string
-	hdr, probs := Scan(bytes.NewReader(b), "duplicate.csv", func(p *Part) error {
+	hdr, probs := (ReadOptions{}).Scan(bytes.NewReader(b), "duplicate.csv", func(p *Part) error {
 		names = append(names, p.Name)
 		return nil
 	})
@@ -284,7 +284,7 @@ func TestScan(t *testing.T) {
 	}
 	stop := errors.New("enough")
 	n := 0
-	_, probs = Scan(bytes.NewReader(b), "duplicate.csv", func(p *Part) error {
+	_, probs = (ReadOptions{}).Scan(bytes.NewReader(b), "duplicate.csv", func(p *Part) error {
 		n++
 		return stop
 	})

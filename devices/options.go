@@ -38,12 +38,18 @@ func (o ReadOptions) Load(path string) (*Library, error) {
 	return o.Read(f, path)
 }
 
-// Check is the package's Check with these options.
+// Check reads a parts library like Read and returns every problem found,
+// warnings included, in file order: what a user needs to fix. The library
+// is unusable when any problem is fatal (probs.Fatal()).
 func (o ReadOptions) Check(r io.Reader, name string) (*Library, ProblemList) {
 	return check(r, name, defaultDecoder(), o)
 }
 
-// Scan is the package's Scan with these options.
+// Scan reads a parts library like Check but holds no parts: it calls fn
+// for each valid part, in file order, with a pointer to a Part that is
+// reused for the next row (copy it to keep it). When fn returns an error,
+// Scan stops and the list ends with a fatal problem wrapping that error.
+// Duplicate names are still detected, from the names seen so far.
 func (o ReadOptions) Scan(r io.Reader, name string, fn func(*Part) error) (Header, ProblemList) {
 	l := newLoader(name, fn, o)
 	l.sizeHint = sizeOf(r)

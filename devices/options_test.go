@@ -100,7 +100,7 @@ func TestUnknownAsNotes(t *testing.T) {
 	if !errors.As(err, &list) || len(list) != 3 || !errors.Is(err, ErrUnknownColumn) || list[0].Line != 1 || list[0].Column != 16 {
 		t.Errorf("default: %v", err)
 	}
-	_, probs = Scan(strings.NewReader(string(b)), "m.csv", func(*Part) error { return nil })
+	_, probs = (ReadOptions{}).Scan(strings.NewReader(string(b)), "m.csv", func(*Part) error { return nil })
 	if !probs.Fatal() || len(probs) != 3 {
 		t.Errorf("default Scan: %v", probs)
 	}

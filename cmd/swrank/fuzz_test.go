@@ -41,7 +41,7 @@ func FuzzRankLibrary(f *testing.F) {
 		if err := os.WriteFile(path, b, 0o644); err != nil {
 			t.Fatal(err)
 		}
-		lib, probs := devices.Check(strings.NewReader(string(b)), path)
+		lib, probs := (devices.ReadOptions{}).Check(strings.NewReader(string(b)), path)
 		// A NaN or an infinity may be printed only as the user's own text.
 		ownText := false
 		for _, p := range lib.Parts {

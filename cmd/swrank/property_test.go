@@ -69,7 +69,7 @@ func TestRankRefusesNoAcceptedRow(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		l, probs := devices.Check(f, lib)
+		l, probs := (devices.ReadOptions{}).Check(f, lib)
 		f.Close()
 		if probs.Fatal() || len(l.Parts) == 0 {
 			continue // not a library check accepts: rank refuses it whole, with the located problems
@@ -180,7 +180,7 @@ func perturbedLibrary(t *testing.T, dir string, n int, seed uint64) string {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if l, probs := devices.Check(bytes.NewReader(b), "row.csv"); !probs.Fatal() && len(l.Parts) == 1 {
+		if l, probs := (devices.ReadOptions{}).Check(bytes.NewReader(b), "row.csv"); !probs.Fatal() && len(l.Parts) == 1 {
 			kept = append(kept, p)
 		}
 	}

@@ -26,7 +26,7 @@ func TestGenerate(t *testing.T) {
 	if bytes.Equal(a.Bytes(), c.Bytes()) {
 		t.Error("different seeds, same bytes")
 	}
-	lib, probs := devices.Check(bytes.NewReader(a.Bytes()), "synth.csv")
+	lib, probs := (devices.ReadOptions{}).Check(bytes.NewReader(a.Bytes()), "synth.csv")
 	if len(probs) != 0 {
 		n := min(len(probs), 20)
 		t.Fatalf("%d problems, first %d:\n%v", len(probs), n, probs[:n])
