@@ -112,7 +112,7 @@ type offTimes struct{ delay, tvr, tif q.Time }
 // time stands for the whole transition.
 func turnOffTimes(d *fit.Device, drv *stage.Driver, v q.Voltage, i q.Current) offTimes {
 	r := drv.RSink + drv.RgExt + d.RgInt
-	vpl := loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i)
+	vpl := d.PlateauAt(i)
 	if d.Method != fit.MethodGateCharge {
 		return offTimes{delay: loss.GateDelay(r, inputCharge(d), drv.VOff, drv.VOn, vpl), tif: fallTime(d, drv, i)}
 	}
@@ -120,9 +120,7 @@ func turnOffTimes(d *fit.Device, drv *stage.Driver, v q.Voltage, i q.Current) of
 	if c <= 0 {
 		c = inputCharge(d)
 	}
-	cv := d.Curve(v, i, 0)
-	loop := loss.GateLoop{VOn: drv.VOn, VOff: drv.VOff, ROn: r, ROff: r, IPkOff: drv.IPeakSink}
-	tr := loss.GateChargeTransitions(cv.Qgs2, d.MillerChargeAt(v), d.Vth, vpl, loop, true)
+	tr := gateChargeEdges(d, drv, v, i)
 	return offTimes{delay: loss.GateDelay(r, c, drv.VOff, drv.VOn, vpl), tvr: tr.Tvr, tif: tr.Tif}
 }
 
@@ -133,11 +131,21 @@ func currentRise(d *fit.Device, drv *stage.Driver, i q.Current) q.Time {
 	if d.Method != fit.MethodGateCharge {
 		return 0
 	}
-	r := drv.RSource + drv.RgExt + d.RgInt
-	vpl := loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i)
-	cv := d.Curve(0, i, 0)
-	loop := loss.GateLoop{VOn: drv.VOn, VOff: drv.VOff, ROn: r, ROff: r, IPkOn: drv.IPeakSource}
-	return loss.GateChargeTransitions(cv.Qgs2, 0, d.Vth, vpl, loop, true).Tir
+	return gateChargeEdges(d, drv, 0, i).Tir
+}
+
+// gateChargeEdges is the gate-charge method's four edge intervals of a
+// device switching current i at drain voltage v in this gate loop (driver,
+// external and internal gate resistance; the driver's peak currents), with
+// the mean gate voltage over the current intervals.
+func gateChargeEdges(d *fit.Device, drv *stage.Driver, v q.Voltage, i q.Current) loss.Transitions {
+	c := d.Curve(v, i, 0)
+	loop := loss.GateLoop{
+		VOn: drv.VOn, VOff: drv.VOff,
+		ROn: drv.RSource + drv.RgExt + d.RgInt, ROff: drv.RSink + drv.RgExt + d.RgInt,
+		IPkOn: drv.IPeakSource, IPkOff: drv.IPeakSink,
+	}
+	return loss.GateChargeTransitions(c.Qgs2, c.Qgd, d.Vth, d.PlateauAt(i), loop, true)
 }
 
 // crossConduction records the dead times' margins in the synchronous

@@ -57,7 +57,7 @@ func (m *devModel) setup(out *DeviceResult, pt *stage.Point, d *fit.Device, role
 	// Gate loop: driver, external and internal gate resistance.
 	m.rOn = drv.RSource + drv.RgExt + d.RgInt
 	m.rOff = drv.RSink + drv.RgExt + d.RgInt
-	vplPk := loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, st.IPeak)
+	vplPk := d.PlateauAt(st.IPeak)
 
 	// Screens that need no temperature.
 	driveScreens(out, d, drv, vplPk)

@@ -48,7 +48,7 @@ type devModel struct {
 func (m *devModel) prepare() {
 	d, st, drv := m.d, m.st, m.drv
 	od := func(i q.Current) (q.Voltage, q.Charge) {
-		v := max(loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i)-d.Vth, 1e-3)
+		v := max(d.PlateauAt(i)-d.Vth, 1e-3)
 		return v, d.Qgs2 * q.Charge(v/(d.VplSpec-d.Vth))
 	}
 	m.odOn, m.qgs2On = od(st.IOn)

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	q "swrank/devices/quantity"
 	"swrank/rank/fit"
-	"swrank/rank/loss"
 )
 
 // Reasons explains why the part is screened, one sentence a reason: each
@@ -51,7 +50,7 @@ func (r *Result) deviceReasons(out []string, d *DeviceResult) []string {
 		add("gate drive does not exceed the threshold %s", d.Dev.Vth)
 	}
 	if s&ScreenBelowPlateau != 0 {
-		add("gate drive does not exceed the plateau %s at the peak current %s", loss.PlateauAt(d.Dev.Vth, d.Dev.VplSpec, d.Dev.QgId, d.Stress.IPeak), d.Stress.IPeak)
+		add("gate drive does not exceed the plateau %s at the peak current %s", d.Dev.PlateauAt(d.Stress.IPeak), d.Stress.IPeak)
 	}
 	if s&ScreenTjMax != 0 {
 		if d.Thermal.Found {

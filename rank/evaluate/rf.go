@@ -36,16 +36,13 @@ type RFResult struct {
 
 // fallTime is the channel's current-fall time at turn-off of current i:
 // the gate-charge method's current interval, or the datasheet tf rescaled
-// to this gate loop (loss.GateChargeTransitions, loss.ScaleSwitchingTime).
+// to this gate loop (gateChargeEdges, loss.ScaleSwitchingTime).
 func fallTime(d *fit.Device, drv *stage.Driver, i q.Current) q.Time {
-	rOff := drv.RSink + drv.RgExt + d.RgInt
-	vpl := loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i)
 	if d.Method == fit.MethodGateCharge {
-		c := d.Curve(0, i, 0)
-		loop := loss.GateLoop{VOn: drv.VOn, VOff: drv.VOff, ROn: rOff, ROff: rOff, IPkOff: drv.IPeakSink}
-		return loss.GateChargeTransitions(c.Qgs2, 0, d.Vth, vpl, loop, true).Tif
+		return gateChargeEdges(d, drv, 0, i).Tif
 	}
-	r := rOff
+	vpl := d.PlateauAt(i)
+	r := drv.RSink + drv.RgExt + d.RgInt
 	if drv.IPeakSink > 0 {
 		r = max(r, q.Resistance(float64(vpl-drv.VOff)/float64(drv.IPeakSink)))
 	}
@@ -82,7 +79,7 @@ func rfScreens(out *DeviceResult, d *fit.Device, s *stage.Stage, vpeak q.Voltage
 	if vpeak > q.Voltage(s.Derate)*p.VdsMax {
 		out.Screens |= ScreenVoltage
 	}
-	driveScreens(out, d, drv, loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, out.Stress.IPeak))
+	driveScreens(out, d, drv, d.PlateauAt(out.Stress.IPeak))
 }
 
 // rfThermal solves the junction temperature with the loss `fixed` that does

@@ -481,6 +481,10 @@ func (d *Device) prepareSecondOrder() error {
 // ThresholdAt is the threshold at junction temperature tj.
 func (d *Device) ThresholdAt(tj q.Temperature) q.Voltage { return loss.ThresholdAt(d.Vth, d.VthTC, tj) }
 
+// PlateauAt is the Miller plateau at drain current i (loss.PlateauAt from
+// the datasheet plateau at its test current), at the threshold's 25 °C value.
+func (d *Device) PlateauAt(i q.Current) q.Voltage { return loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i) }
+
 // CgdAt is the charge-equivalent gate-drain capacitance over a swing from 0
 // to v, Qgd(v)/v: from the Miller charge when it is known, else from Crss at
 // its voltage with the √ law (charge 2·Crss·√(V0·v)). 0 when neither is
