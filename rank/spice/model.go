@@ -38,6 +38,11 @@ type Model struct {
 	M      float64 `toml:"m"`      // grading coefficient; default 0.5
 	Is     float64 `toml:"is"`     // body-diode saturation current, A; default 1e-12
 	N      float64 `toml:"n"`      // body-diode emission coefficient; default 1
+	// Tt is the body diode's transit time, s; ≥ 0; default 0 (no stored
+	// charge). Its charge-control model stores Q = Tt·I_F (ngspice 39
+	// manual, diode and VDMOS models), which gives the reverse recovery
+	// of a half-bridge.
+	Tt float64 `toml:"tt"`
 }
 
 // Point is one operating point of the switching cell. Its candidates are
@@ -99,6 +104,9 @@ func (m *Model) Check() error {
 			return fmt.Errorf("%s must be > 0 (got %g)", p.n, p.v)
 		}
 	}
+	if !(m.Tt >= 0) || math.IsInf(m.Tt, 0) {
+		return fmt.Errorf("tt must be ≥ 0 (got %g)", m.Tt)
+	}
 	if m.Cgdmin >= m.Cgdmax {
 		return fmt.Errorf("cgdmin (%g) must be below cgdmax (%g)", m.Cgdmin, m.Cgdmax)
 	}
@@ -151,7 +159,7 @@ func (m *Model) card(name string) string {
 		v float64
 	}{{"vto", m.Vto}, {"kp", m.Kp}, {"lambda", m.Lambda}, {"rd", m.Rd}, {"rs", m.Rs}, {"rg", m.Rg},
 		{"cgs", m.Cgs}, {"cgdmax", m.Cgdmax}, {"cgdmin", m.Cgdmin}, {"a", m.A},
-		{"cjo", m.Cjo}, {"vj", m.Vj}, {"m", m.M}, {"is", m.Is}, {"n", m.N}, {"tt", 0}}
+		{"cjo", m.Cjo}, {"vj", m.Vj}, {"m", m.M}, {"is", m.Is}, {"n", m.N}, {"tt", m.Tt}}
 	var b strings.Builder
 	fmt.Fprintf(&b, ".model %s VDMOS(", name)
 	for i, x := range kv {
