@@ -63,10 +63,21 @@ type Bench struct {
 	Sync  *Device
 	Diode Rectifier
 
-	Fsw      float64 // switching frequency, Hz; > 0
-	Duty     float64 // control switch's on-time fraction of the period; (0, 1)
-	DeadTime float64 // between one switch's gate off and the other's on, s; ≥ 0 (synchronous stages)
-	Drive    Drive
+	Fsw  float64 // switching frequency, Hz; > 0
+	Duty float64 // control switch's on-time fraction of the period; (0, 1)
+	// DeadTime is the time between one switch's gate pulse ending and the
+	// other's starting, s; ≥ 0 (synchronous stages): [0] after the
+	// control switch's, before the synchronous switch's; [1] after the
+	// synchronous switch's, before the control switch's.
+	DeadTime [2]float64
+	// Drive is the gate driver of each place: [0] the control switch,
+	// [1] the synchronous switch (a zero Drive there: the same as [0]).
+	Drive [2]Drive
+
+	// Vth is each place's gate threshold, V (0: not known); with both
+	// given, a synchronous bench measures the time both channels are on
+	// (BridgeWave.Overlap).
+	Vth [2]float64
 
 	// Hard marks the edges whose energy is counted as switching: [place]
 	// [0 turn-on, 1 turn-off]; place 0 is the control switch, 1 the
@@ -104,7 +115,7 @@ func (b *Bench) period() (T, delay float64) {
 	if b.Kind == ClassEBench {
 		return T, 0 // the tank starts at the turn-on instant
 	}
-	return T, max(0.05*T, 3*b.DeadTime)
+	return T, max(0.05*T, 3*b.DeadTime[1])
 }
 
 // gateWindows returns, for each place, the gate-on interval of the
@@ -114,7 +125,7 @@ func (b *Bench) gateWindows(t0 float64) [2][2]float64 {
 	T, delay := b.period()
 	var w [2][2]float64
 	w[0] = [2]float64{t0 + delay, t0 + delay + b.Duty*T}
-	w[1] = [2]float64{w[0][1] + b.DeadTime, t0 + T + delay - b.DeadTime}
+	w[1] = [2]float64{w[0][1] + b.DeadTime[0], t0 + T + delay - b.DeadTime[1]}
 	return w
 }
 
@@ -217,10 +228,13 @@ func (b *Bench) deck(n int, vsrc float64, opts string) (string, error) {
 // when a run stalls its time step: the cross-check's settings with the
 // charge tolerance at 1e-14 C (at 1e-16 C the body diode's take-over at
 // the synchronous switch's turn-off stalls the time step), then
-// tolerances ten times looser.
+// tolerances ten times looser, then the charge tolerance at 1e-12 C (a
+// body diode with stored charge and no series resistance ends its
+// recovery abruptly, which stalls the time step at 1e-14 C).
 var benchOptions = []string{
 	".options temp=25 tnom=25 method=gear reltol=1e-5 vntol=1e-7 abstol=1e-10 chgtol=1e-14 trtol=1\n",
 	".options temp=25 tnom=25 method=gear reltol=1e-4 vntol=1e-6 abstol=1e-9 chgtol=1e-14 trtol=1\n",
+	".options temp=25 tnom=25 method=gear reltol=1e-4 vntol=1e-6 abstol=1e-9 chgtol=1e-12 trtol=1\n",
 }
 
 // place writes switch i (0 control, 1 synchronous) between drain and
@@ -232,7 +246,7 @@ func (b *Bench) place(w *strings.Builder, i int, d *Device, drain, source string
 	T, _ := b.period()
 	win := b.gateWindows(0)[i]
 	x := fmt.Sprint(i)
-	dv := b.Drive
+	dv := b.drive(i)
 	on := win[1] - win[0] - edge
 	rise := win[0]
 	if rise >= T {
@@ -259,6 +273,14 @@ func (b *Bench) place(w *strings.Builder, i int, d *Device, drain, source string
 	fmt.Fprintf(w, "vmg%s gm%s g%s 0\n", x, x, x)
 }
 
+// drive returns place i's driver.
+func (b *Bench) drive(i int) Drive {
+	if i == 1 && b.Drive[1].VOn > 0 {
+		return b.Drive[1]
+	}
+	return b.Drive[0]
+}
+
 // rectifier writes the diode of a diode-rectified stage: a junction whose
 // drop at the inductor current is Vf (emission coefficient 1), with the
 // junction capacitance Cj (nearly constant: grading 0.01) and a transit
@@ -283,6 +305,9 @@ func (b *Bench) vectors() []string {
 	switch {
 	case b.Kind == BuckBench || b.Kind == BoostBench:
 		v = append(v, "i(l1)")
+		if b.places() == 2 && !b.Sync.Subckt {
+			v = append(v, syncChannel, syncGate) // a card's own channel current and inner gate (BridgeWave)
+		}
 		if b.Sync == nil {
 			v = append(v, "v(ra)", "i(vmr)")
 			if b.Kind == BuckBench {

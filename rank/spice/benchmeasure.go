@@ -97,6 +97,13 @@ func (b *Bench) measure(tab *Table, n int) (*BenchResult, error) {
 			res.Rectifier = er * b.Fsw
 		}
 	}
+	if b.places() == 2 {
+		bw, err := b.bridgeWave(tab, t0)
+		if err != nil {
+			return nil, err
+		}
+		res.Bridge = bw
+	}
 	res.PSS = math.Abs(eLast-ePrev) / max(math.Abs(eLast), 1e-30)
 	for _, s := range res.Places {
 		for _, v := range []float64{s.Conduction, s.Switching, s.Off, s.Gate, s.Drive} {

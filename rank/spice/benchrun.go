@@ -46,7 +46,10 @@ type BenchResult struct {
 	Places    []Shares // control switch first, then the synchronous switch
 	Rectifier float64  // the rectifier diode's loss, W (diode-rectified stages)
 	ILMean    float64  // mean inductor current, A (buck, boost)
-	Periods   int      // periods simulated in the accepted run
+	// Bridge is the dead times' waveform of a synchronous buck or boost
+	// (nil for the other benches).
+	Bridge  *BridgeWave `json:",omitempty"`
+	Periods int         // periods simulated in the accepted run
 	// PSS is the relative difference of the last two periods' energies
 	// (every switch's terminals, drive supplies and the rectifier).
 	PSS       float64
@@ -119,7 +122,7 @@ func Simulate(ctx context.Context, r *Runner, b *Bench, o SimOptions) (*BenchRes
 	if err != nil {
 		return nil, err
 	}
-	key := Key(files["model.lib"], []byte(compat), []byte(deck0), []byte(fmt.Sprint(o.Tol, o.Periods, o.MaxPeriods)))
+	key := Key(files["model.lib"], []byte(compat), []byte(deck0), []byte(fmt.Sprint(o.Tol, o.Periods, o.MaxPeriods, b.Vth)))
 	var cached BenchResult
 	if r.Keep == false && o.Cache.Get(key, &cached) {
 		cached.Cached = true
@@ -133,7 +136,7 @@ func Simulate(ctx context.Context, r *Runner, b *Bench, o SimOptions) (*BenchRes
 		}
 		tabs, dir, err := r.RunJob(ctx, Job{Name: b.Name(), Deck: deck, Files: files, Outputs: []string{"bench.dat"}, Compat: compat})
 		if err != nil && opt+1 < len(benchOptions) && strings.Contains(strings.ToLower(err.Error()), "timestep too small") {
-			opt++ // the looser tolerances, once
+			opt++ // the next looser tolerances
 			continue
 		}
 		if err != nil {

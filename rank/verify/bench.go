@@ -14,9 +14,9 @@ import (
 // ideal choke (docs/spice-crosscheck.md, class E).
 const FeedRatio = 1000
 
-// newBench builds the stage's bench for a ranked result: its devices'
+// NewBench builds the stage's bench for a ranked result: its devices'
 // models, the point's voltages, currents, timing and driver.
-func newBench(pt *stage.Point, r *evaluate.Result, base string) (*spice.Bench, error) {
+func NewBench(pt *stage.Point, r *evaluate.Result, base string) (*spice.Bench, error) {
 	s := &pt.Stage
 	devs := make([]*spice.Device, r.N)
 	for i := 0; i < r.N; i++ {
@@ -26,9 +26,14 @@ func newBench(pt *stage.Point, r *evaluate.Result, base string) (*spice.Bench, e
 		}
 		devs[i] = d
 	}
-	b := &spice.Bench{Ctrl: devs[0], Fsw: float64(s.Fsw),
-		Drive: spice.Drive{VOn: float64(s.Driver.VOn), VOff: float64(s.Driver.VOff), RSource: float64(s.Driver.RSource),
-			RSink: float64(s.Driver.RSink), RgExt: float64(s.Driver.RgExt)}}
+	drive := func(d *stage.Driver) spice.Drive {
+		return spice.Drive{VOn: float64(d.VOn), VOff: float64(d.VOff), RSource: float64(d.RSource),
+			RSink: float64(d.RSink), RgExt: float64(d.RgExt)}
+	}
+	b := &spice.Bench{Ctrl: devs[0], Fsw: float64(s.Fsw), Drive: [2]spice.Drive{drive(s.DriverOf(false)), drive(s.DriverOf(true))}}
+	for i := 0; i < r.N; i++ {
+		b.Vth[i] = float64(r.Devices[i].Dev.Part.VgsTh)
+	}
 	hard := func(st *stage.SwitchStress) [2]bool {
 		return [2]bool{st.HardOn || st.VSoftOn > 0, st.HardOff}
 	}
@@ -58,7 +63,7 @@ func newBench(pt *stage.Point, r *evaluate.Result, base string) (*spice.Bench, e
 			}
 			b.Inductance = vl * b.Duty / (float64(pt.Ripple) * b.Fsw)
 		}
-		b.DeadTime = float64(s.DeadTime.Or(stage.DefaultDeadTime))
+		b.DeadTime = [2]float64{float64(s.DeadTimeSyncOn.Or(stage.DefaultDeadTime)), float64(s.DeadTimeCtrlOn.Or(stage.DefaultDeadTime))}
 		if pt.HasSync {
 			b.Sync = devs[1]
 			b.Hard[1] = hard(&pt.Sync)

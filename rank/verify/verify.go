@@ -125,7 +125,7 @@ func Run(ctx context.Context, pt *stage.Point, results []evaluate.Result, opt Op
 			rep.Skipped = append(rep.Skipped, fmt.Sprintf("%s (rank %d): %s", name, i+1, missing))
 			continue
 		}
-		b, err := newBench(pt, r, opt.Base)
+		b, err := NewBench(pt, r, opt.Base)
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", name, err)
 		}
