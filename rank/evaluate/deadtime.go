@@ -46,20 +46,28 @@ func diodeTimes(pt *stage.Point, ct, sy *fit.Device) deadTiming {
 	s := &pt.Stage
 	cd, sd := s.DriverOf(false), s.DriverOf(true)
 	var t deadTiming
-	// Edge 1: the control switch turns off at its peak current.
+	// Edge 1: the control switch turns off at its peak current; the
+	// synchronous switch's channel starts at its threshold and has taken
+	// half the diode's current at the gate level that carries it
+	// (fit.Device.PlateauAt, the channel's square law: the diode's drop
+	// holds it in saturation).
 	off := turnOffTimes(ct, cd, pt.Ctrl.V, pt.Ctrl.IOff)
-	syOn := onDelay(sy, sd)
-	t.used1 = off.delay + off.tvr + off.tif/2 - syOn
+	syOn := onDelay(sy, sd, sy.Vth)
+	syHalfOn := onDelay(sy, sd, sy.PlateauAt(pt.Ctrl.IOff/2))
+	t.used1 = off.delay + off.tvr + off.tif/2 - syHalfOn
 	t.margin1 = s.DeadTimeSyncOn.V + syOn - (off.delay + off.tvr + off.tif)
-	// Edge 2: the synchronous switch's channel stops as its gate passes
-	// the threshold; the control switch's channel starts at its own.
-	syOff := softOffDelay(sy, sd, pt.Sync.IOff)
-	ctOn := onDelay(ct, cd)
+	// Edge 2: the synchronous switch's channel hands half its current to
+	// the diode as its gate falls through the level that carries half,
+	// and stops at its threshold; the control switch's channel starts at
+	// its own.
+	syOff := softOffDelay(sy, sd, pt.Sync.IOff, sy.Vth)
+	syHalfOff := softOffDelay(sy, sd, pt.Sync.IOff, sy.PlateauAt(pt.Sync.IOff/2))
+	ctOn := onDelay(ct, cd, ct.Vth)
 	tir := currentRise(ct, cd, pt.Ctrl.IOn)
 	if tir > 0 && pt.Ctrl.IOn > 0 {
 		t.didtOn = q.Slew(float64(pt.Ctrl.IOn) / float64(tir))
 	}
-	t.used2 = syOff - ctOn - tir/2
+	t.used2 = syHalfOff - ctOn - tir/2
 	t.margin2 = s.DeadTimeCtrlOn.V + ctOn - syOff
 	if estimatedEdges(ct) || estimatedEdges(sy) {
 		// Edges timed from estimated gate values: the diode is not
@@ -81,24 +89,26 @@ func inputCharge(d *fit.Device) q.Capacitance {
 	return q.Capacitance(float64(d.Part.Qg) / float64(d.Part.QgVgs)) // the linear gate
 }
 
-// onDelay is the time a device's gate takes from the off level to its
-// threshold through the turn-on loop.
-func onDelay(d *fit.Device, drv *stage.Driver) q.Time {
+// onDelay is the time a device's gate takes from the off level to the
+// level v (≥ its threshold) through the turn-on loop, charging the
+// capacitance below the threshold.
+func onDelay(d *fit.Device, drv *stage.Driver, v q.Voltage) q.Time {
 	r := drv.RSource + drv.RgExt + d.RgInt
-	return loss.GateDelay(r, inputCharge(d), drv.VOn, drv.VOff, d.Vth)
+	return loss.GateDelay(r, inputCharge(d), drv.VOn, drv.VOff, v)
 }
 
-// softOffDelay is the time a soft-switched device's gate takes from the on
-// level to its threshold through the turn-off loop, its drain near 0 V (no
-// plateau): the charge between the two levels over their difference.
-func softOffDelay(d *fit.Device, drv *stage.Driver, i q.Current) q.Time {
+// softOffDelay is the time a soft-switched device's gate, carrying current
+// i, takes from the on level to the level v (≥ its threshold) through the
+// turn-off loop, its drain near 0 V (no plateau): the charge between the
+// on level and v over their difference.
+func softOffDelay(d *fit.Device, drv *stage.Driver, i q.Current, v q.Voltage) q.Time {
 	r := drv.RSink + drv.RgExt + d.RgInt
 	c := inputCharge(d)
-	if d.Method == fit.MethodGateCharge && drv.VOn > d.Vth {
+	if d.Method == fit.MethodGateCharge && drv.VOn > v {
 		cv := d.Curve(0, i, 0)
-		c = q.Capacitance(float64(cv.Charge(drv.VOn)-cv.Charge(d.Vth)) / float64(drv.VOn-d.Vth))
+		c = q.Capacitance(float64(cv.Charge(drv.VOn)-cv.Charge(v)) / float64(drv.VOn-v))
 	}
-	return loss.GateDelay(r, c, drv.VOff, drv.VOn, d.Vth)
+	return loss.GateDelay(r, c, drv.VOff, drv.VOn, v)
 }
 
 // offTimes are a hard turn-off's delay to the plateau, voltage rise and
@@ -164,6 +174,12 @@ func crossConduction(sy *DeviceResult, dt *deadTiming, tr *Trace) {
 	}
 }
 
-// estimatedEdges reports whether a device's edge timing rests on estimated
-// gate values (a bracketed estimate: either end of the range).
-func estimatedEdges(d *fit.Device) bool { return d.Alt != nil || d.Low }
+// estimatedEdges reports whether a device's edge timing at 25 °C rests on
+// estimated gate values: the internal gate resistance, the gate-charge
+// curve, the plateau or the Miller charge's spread. (Estimates that move
+// only the hot threshold, the output charge or the package inductance
+// bracket the part, fit.Device.Alt, but leave this timing known.)
+func estimatedEdges(d *fit.Device) bool {
+	return !d.Part.RgInt.OK || d.Flags&(fit.FlagGateChargeEstimated|fit.FlagPlateauEstimated) != 0 ||
+		d.Method == fit.MethodGateCharge && !d.HasMiller
+}

@@ -47,9 +47,11 @@ func TestEstimatesUsedAndFlagged(t *testing.T) {
 		}, func(t *testing.T, r *Result) {
 			// Q_oss(12 V) = 9.6 nC (the hand-case part's √ law): Qrr =
 			// 28.8 nC at 25 °C (Tj pinned), through the control switch at
-			// 12 V and 500 kHz: 0.1728 W.
-			testkit.Near(t, "Qrr", float64(r.Devices[0].Qrr), 28.8e-9, 1e-9)
-			testkit.Near(t, "recovery", float64(r.Devices[0].Losses.Recovery), 28.8e-9*12*500e3, 1e-9)
+			// 12 V and 500 kHz: 0.1728 W, less what the dead time's short
+			// conduction leaves unstored (as qrrShort; about 1 % here, the
+			// larger charge giving a longer lifetime).
+			testkit.Near(t, "Qrr", float64(r.Devices[0].Qrr), 28.8e-9, 1.5e-2)
+			testkit.Near(t, "recovery", float64(r.Devices[0].Losses.Recovery), 28.8e-9*12*500e3, 1.5e-2)
 			wantFlags(t, r, fit.FlagQrrEstimated)
 		}},
 		{"no rg_int: 3 Ω for silicon, and the other end too", func(p *devices.Part, s *stage.Stage) {

@@ -123,7 +123,7 @@ func evaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trac
 		r.N = 2
 		dt := diodeTimes(pt, ctrl, sync)
 		evalDevice(&r.Devices[1], pt, sync, RoleSync, &pt.Sync, nil, &dt, &oss, tr)
-		k := devicePartner(sync, oss.at(sync, pt.Ctrl.V), &r.Devices[1], pt.Ctrl.IOn, dt.didtOn)
+		k := devicePartner(sync, oss.at(sync, pt.Ctrl.V), &r.Devices[1], pt.Ctrl.IOn, dt.didtOn, dt.t2)
 		evalDevice(&r.Devices[0], pt, ctrl, RoleControl, &pt.Ctrl, &k, nil, &oss, tr)
 		crossConduction(&r.Devices[1], &dt, tr)
 		r.Devices[0].Flags |= k.flags
@@ -165,10 +165,11 @@ func diodePartner(d *stage.Diode, v q.Voltage) partnerCharge {
 // devicePartner is the synchronous switch k seen from the control switch,
 // with its output-capacitance law at the cell voltage, ok, and its
 // recovered charge at its solved junction temperature kr.Thermal, moved
-// from the datasheet's test to the commutation of forward current iF at
-// rate didt when the test conditions are known (charge-control model,
-// loss.RecoveredCharge).
-func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Current, didt q.Slew) partnerCharge {
+// from the datasheet's test (a long forward conduction) to the
+// commutation of forward current iF at rate didt after the diode has
+// carried it for tDiode in the dead time (charge-control model,
+// loss.RecoveredCharge and loss.RecoveredChargeAfter).
+func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Current, didt q.Slew, tDiode q.Time) partnerCharge {
 	p := partnerCharge{qoss: ok.Q(), eoss: ok.E(), lloop: k.Lloop, tj: kr.Thermal.Tj, dev: k}
 	if !kr.Thermal.Found {
 		p.tj = k.TjMax
@@ -181,7 +182,7 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Curre
 	}
 	p.qrr = k.Qrr.At(p.tj)
 	if k.QrrTau > 0 && iF > 0 && didt > 0 {
-		scale := float64(loss.RecoveredCharge(k.QrrTau, iF, didt)) / float64(loss.RecoveredCharge(k.QrrTau, k.QrrIf, k.QrrDidt))
+		scale := float64(loss.RecoveredChargeAfter(k.QrrTau, iF, didt, tDiode)) / float64(loss.RecoveredCharge(k.QrrTau, k.QrrIf, k.QrrDidt))
 		p.qrr = q.Charge(float64(p.qrr) * scale)
 		if !k.Part.QrrIf.OK || !k.Part.QrrDidt.OK {
 			p.flags |= fit.FlagQrrCondEstimated

@@ -194,8 +194,8 @@ func TestEvaluateTemperatureAt125C(t *testing.T) {
 	testkit.Near(t, "t_if", float64(ct.Trans.Tif), 2e-9/1.65, 1e-6)
 	testkit.Near(t, "E_on", float64(ct.Eon), 60*(3e-9/3.35+2e-9), 1e-6)
 	testkit.Near(t, "E_off", float64(ct.Eoff), 60*(2e-9+2e-9/1.65), 1e-6)
-	testkit.Near(t, "recovery", float64(ct.Losses.Recovery), 40e-9*12*500e3, 1e-9)
-	testkit.Near(t, "Qrr", float64(ct.Qrr), 40e-9, 1e-9)
+	testkit.Near(t, "recovery", float64(ct.Losses.Recovery), 40e-9*12*500e3, qrrShort)
+	testkit.Near(t, "Qrr", float64(ct.Qrr), 40e-9, qrrShort)
 	testkit.Near(t, "Vsd", float64(sy.Vsd1), 0.6, 1e-9)
 	// The diode's share of the dead times comes from the gates' timing
 	// (TestDeadTimeDiodeShare); here its drop at 125 °C.
@@ -220,7 +220,7 @@ func TestEvaluateTemperatureAt125C(t *testing.T) {
 	p := testkit.HandCasePart()
 	p.QrrHot, p.QrrHotTj = q.Some[q.Charge](30e-9), q.Some[q.Temperature](150)
 	r = evalPart(t, p, handCaseStage(125), nil)
-	testkit.Near(t, "Qrr from qrr_hot", float64(r.Devices[0].Qrr), 28e-9, 1e-9)
+	testkit.Near(t, "Qrr from qrr_hot", float64(r.Devices[0].Qrr), 28e-9, qrrShort)
 	if r.Devices[0].Flags&fit.FlagQrrTempDefault != 0 {
 		t.Errorf("qrr-tc flagged with qrr_hot given")
 	}
@@ -251,7 +251,7 @@ func TestEvaluateThermalWholeLoss(t *testing.T) {
 	// The control switch sees the sync switch's recovered charge at the
 	// sync switch's own solved temperature.
 	tjs := r.Devices[1].Thermal.Tj
-	testkit.Near(t, "Qrr at the sync's Tj", float64(r.Devices[0].Qrr), 20e-9*(1+0.01*float64(tjs-25)), 1e-9)
+	testkit.Near(t, "Qrr at the sync's Tj", float64(r.Devices[0].Qrr), 20e-9*(1+0.01*float64(tjs-25)), qrrShort)
 }
 
 // ganPart is an invented 100 V GaN HEMT.

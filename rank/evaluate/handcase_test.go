@@ -36,6 +36,15 @@ func TestEvaluateAllocations(t *testing.T) {
 // overlap 0.1795 W (refined variant), V·Q_oss 57.6 mW, recovery 0.1200 W,
 // conduction 0.0500 W, gate 20.00 mW in all; sync switch conduction
 // 10²·0.9·5 mΩ = 0.450 W, and its diode's share of the dead times (below).
+// qrrShort is the relative tolerance of a recovered charge checked
+// against the datasheet's: the hand case's recovery test is at its own
+// commutation, but after a long forward conduction, while in the stage the
+// body diode has conducted only for the dead time, about 16-20 ns against
+// its lifetime τ of a few ns (20 nC at 10 A): the charge-control model
+// leaves it short of the steady state by about τ·I_F·exp(−t/τ), under
+// 0.5 % (loss.RecoveredChargeAfter).
+const qrrShort = 5e-3
+
 func TestEvaluateSyncBuckByHand(t *testing.T) {
 	p := testkit.HandCasePart()
 	d, err := fit.Prepare(&p)
@@ -56,7 +65,7 @@ func TestEvaluateSyncBuckByHand(t *testing.T) {
 	c := r.Devices[0].Losses
 	testkit.Near(t, "control overlap", float64(c.TurnOn+c.TurnOff), 0.1795, 1e-3)
 	testkit.Near(t, "control coss", float64(c.Coss), 57.6e-3, 1e-6)
-	testkit.Near(t, "control recovery", float64(c.Recovery), 0.12, 1e-6)
+	testkit.Near(t, "control recovery", float64(c.Recovery), 0.12, qrrShort)
 	testkit.Near(t, "control conduction", float64(c.Conduction), 0.05, 1e-6)
 	testkit.Near(t, "control gate", float64(c.GateDriver+c.GateRext+c.GateRint), 20e-3, 1e-6)
 	s := r.Devices[1].Losses
@@ -81,22 +90,28 @@ func TestEvaluateSyncBuckByHand(t *testing.T) {
 // both places, 10 A, no ripple), a hand calculation from the RC delays of
 // the gate and the gate-charge intervals (Balogh 2001): Cgs = Qth/Vth =
 // 0.556 nF, the curve's slope above the plateau (8 − 2 − 2) nC/2.5 V =
-// 1.6 nF; turn-on loop 3 Ω, turn-off loop 2 Ω.
+// 1.6 nF; turn-on loop 3 Ω, turn-off loop 2 Ω. The diode carries the
+// current (half of each ramp counted) until the synchronous channel can
+// carry half of it, at V½ = 1.8 + 0.7·√(5/10) = 2.295 V (the square-law
+// plateau at 5 A, Sze & Ng 2007, ch. 6).
 //
 //	edge 1: control gate 5 → 2.5 V: 2 Ω·1.6 nF·ln 2 = 2.218 ns; voltage rise
 //	        2 nC/1.25 A = 1.6 ns; current fall 1 nC/1.075 A = 0.930 ns, half
-//	        counted; sync gate 0 → 1.8 V: 3 Ω·0.556 nF·ln(5/3.2) = 0.744 ns.
-//	        Diode: 20 − (2.218 + 1.6 + 0.465 − 0.744) = 16.46 ns.
-//	edge 2: sync gate 5 → 1.8 V at 0 V drain, (6 − 1) nC/3.2 V = 1.5625 nF:
-//	        2 Ω·1.5625 nF·ln(5/1.8) = 3.193 ns; control gate 0.744 ns and
-//	        current rise 1 nC/0.95 A = 1.053 ns, half counted.
-//	        Diode: 20 − (3.193 − 0.744 − 0.526) = 18.08 ns.
+//	        counted; sync gate 0 → V½: 3 Ω·0.556 nF·ln(5/2.705) = 1.024 ns
+//	        (to its threshold 1.8 V: ln(5/3.2), 0.744 ns, for the margin).
+//	        Diode: 20 − (2.218 + 1.6 + 0.465 − 1.024) = 16.74 ns.
+//	edge 2: sync gate 5 → V½ at 0 V drain, (6 − 1.707) nC/2.705 V =
+//	        1.587 nF: 2 Ω·1.587 nF·ln(5/2.295) = 2.472 ns (to 1.8 V,
+//	        (6 − 1) nC/3.2 V: 3.193 ns, for the margin); control gate
+//	        0.744 ns and current rise 1 nC/0.95 A = 1.053 ns, half counted.
+//	        Diode: 20 − (2.472 − 0.744 − 0.526) = 18.80 ns.
 const cgsA = 1e-9 / 1.8
 
 var (
+	vHalf = 1.8 + 0.7*math.Sqrt(0.5)
 	dOn   = 3 * cgsA * math.Log(5/3.2)
-	deadA = 20e-9 - (2*1.6e-9*math.Log(2) + 2e-9/1.25 + 1e-9/1.075/2 - dOn)
-	deadB = 20e-9 - (2*(5e-9/3.2)*math.Log(5/1.8) - dOn - 1e-9/0.95/2)
+	deadA = 20e-9 - (2*1.6e-9*math.Log(2) + 2e-9/1.25 + 1e-9/1.075/2 - 3*cgsA*math.Log(5/(5-vHalf)))
+	deadB = 20e-9 - (2*((6e-9-(1e-9+(vHalf-1.8)/0.7*1e-9))/(5-vHalf))*math.Log(5/vHalf) - dOn - 1e-9/0.95/2)
 )
 
 // TestDeadTimeDiodeShare checks the diode times and margins of that buck,

@@ -70,32 +70,61 @@ func FitQrrLaw(q0 q.Charge, t0 q.Temperature, q1 q.Charge, t1 q.Temperature, hot
 }
 
 // RecoveredCharge is the charge a p-n diode recovers when its forward
-// current iF is ramped down at the rate didt, by the charge-control model
-// with lifetime tau: the stored charge q obeys dq/dt = i − q/τ from the
-// steady state τ·iF while i falls linearly to zero in iF/didt, and what is
-// left at the zero crossing is swept out as reverse current:
-//
-//	Q_rr = didt·τ²·(1 − exp(−iF/(didt·τ))).
-//
+// current iF, carried long enough to store its steady charge τ·iF, is
+// ramped down at the rate didt and on into reverse (the commutating switch
+// sets the ramp): RecoveredChargeAfter with an unbounded forward interval.
 // Fast commutation (didt·τ ≫ iF) recovers the whole stored charge τ·iF;
-// slow commutation recovers didt·τ², whatever the current.
+// slow commutation recovers didt·τ²/2, whatever the current.
+func RecoveredCharge(tau q.Time, iF q.Current, didt q.Slew) q.Charge {
+	return RecoveredChargeAfter(tau, iF, didt, q.Time(math.Inf(1)))
+}
+
+// RecoveredChargeAfter is the charge a p-n diode recovers when it has
+// carried iF for the time tOn from no stored charge (a synchronous
+// switch's body diode in a dead time: its channel carried the current
+// before, at a drop far below the junction's knee), and the current is
+// then ramped down at the rate didt and on into reverse until the stored
+// charge is gone. By the charge-control model with lifetime τ, dq/dt =
+// i − q/τ: the ramp starts from q₀ = τ·iF·(1 − exp(−tOn/τ)), the charge
+// left at the zero crossing t₀ = iF/didt is
+//
+//	q(t₀) = a·τ² + (q₀ − τ·iF − a·τ²)·exp(−t₀/τ)   (a = didt),
+//
+// and the reverse current a·s, which keeps ramping while recombination
+// goes on, sweeps it out after s = u·τ with (x − 1)·e^(−u) = u − 1,
+// x = q(t₀)/(a·τ²), that is u = 1 + W₀((x − 1)/e) (numeric.LambertW0).
+// The recovered charge is the reverse current's integral,
+//
+//	Q_rr = a·τ²·u²/2,
+//
+// 0 when nothing is left at the zero crossing. The simulator's diode with
+// a transit time (ngspice's charge-control model) recovers the same.
 //
 // Source: the charge-control model of the junction diode (Kassakian,
-// Schlecht & Verghese, Principles of Power Electronics, 1991, ch. 20 on
-// diode switching); solved here for a linear current ramp.
-func RecoveredCharge(tau q.Time, iF q.Current, didt q.Slew) q.Charge {
+// Schlecht & Verghese, Principles of Power Electronics, 1991, ch. 20),
+// solved here for a forward interval, a linear ramp through zero and the
+// reverse phase to the end of the stored charge.
+func RecoveredChargeAfter(tau q.Time, iF q.Current, didt q.Slew, tOn q.Time) q.Charge {
 	if tau <= 0 || iF <= 0 || didt <= 0 {
 		return 0
 	}
-	a, t := float64(didt), float64(tau)
-	return q.Charge(a * t * t * -math.Expm1(-float64(iF)/(a*t)))
+	a, t, i := float64(didt), float64(tau), float64(iF)
+	at2 := a * t * t
+	t0 := i / a
+	q0 := -t * i * math.Expm1(-max(float64(tOn), 0)/t)
+	qz := at2 + (q0-t*i-at2)*math.Exp(-t0/t)
+	if !(qz > 0) {
+		return 0
+	}
+	u := 1 + numeric.LambertW0((qz/at2-1)/math.E)
+	return q.Charge(at2 * u * u / 2)
 }
 
 // FitRecoveryLifetime returns the lifetime τ for which RecoveredCharge
 // gives qrr at the datasheet's test current iF and rate didt (the charge
 // grows with τ without bound, so any qrr > 0 has one), and false for
 // non-positive inputs. The charge is below both of its limits, τ·iF and
-// didt·τ², so τ lies above the larger of qrr/iF and √(qrr/didt): the root
+// didt·τ²/2, so τ lies above the larger of qrr/iF and √(qrr/didt): the root
 // is bracketed from there (numeric.FindRoot, to 1e-9 relative).
 func FitRecoveryLifetime(qrr q.Charge, iF q.Current, didt q.Slew) (q.Time, bool) {
 	if qrr <= 0 || iF <= 0 || didt <= 0 {
