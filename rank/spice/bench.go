@@ -74,11 +74,6 @@ type Bench struct {
 	// [1] the synchronous switch (a zero Drive there: the same as [0]).
 	Drive [2]Drive
 
-	// Vth is each place's gate threshold, V (0: not known); with both
-	// given, a synchronous bench measures the time both channels are on
-	// (BridgeWave.Overlap).
-	Vth [2]float64
-
 	// Hard marks the edges whose energy is counted as switching: [place]
 	// [0 turn-on, 1 turn-off]; place 0 is the control switch, 1 the
 	// synchronous one. A soft edge's energy stays with the interval it

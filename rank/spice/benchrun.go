@@ -122,7 +122,7 @@ func Simulate(ctx context.Context, r *Runner, b *Bench, o SimOptions) (*BenchRes
 	if err != nil {
 		return nil, err
 	}
-	key := Key(files["model.lib"], []byte(compat), []byte(deck0), []byte(fmt.Sprint(o.Tol, o.Periods, o.MaxPeriods, b.Vth)))
+	key := Key(files["model.lib"], []byte(compat), []byte(deck0), []byte(fmt.Sprint(o.Tol, o.Periods, o.MaxPeriods)))
 	var cached BenchResult
 	if r.Keep == false && o.Cache.Get(key, &cached) {
 		cached.Cached = true

@@ -6,9 +6,9 @@ import (
 )
 
 // BridgeWave is what a synchronous stage's waveform shows at its two dead
-// times: when the synchronous switch's body diode conducts, whether both
-// channels conduct at once, and how far the off switch's gate is lifted
-// while the control switch moves the node. Edge 0 is the control switch's
+// times: when the synchronous switch's body diode conducts, how far its
+// gate is lifted while the control switch moves the node, and whether
+// both channels conduct at once. Edge 0 is the control switch's
 // turn-off (the dead time DeadTime[0] follows it), edge 1 its turn-on.
 type BridgeWave struct {
 	// DiodeTime is the time the synchronous switch's body diode conducts
@@ -19,10 +19,6 @@ type BridgeWave struct {
 	// DiodeDrop is the deepest reverse drain-source voltage at each edge,
 	// V (≤ 0); near the channel's drop when the diode never conducts.
 	DiodeDrop [2]float64
-	// Overlap is the time at each edge with both gates above their
-	// thresholds (Bench.Vth), s; > 0 is cross-conduction. Zero when the
-	// thresholds are not given.
-	Overlap [2]float64
 	// OffGatePeak is the synchronous switch's highest gate-source
 	// voltage while the control switch's gate pulse is on, V: the lift
 	// of the off gate by the control switch's turn-on, on top of what is
@@ -53,16 +49,13 @@ const syncGate = "@m1[vgs]"
 // pulse, so that each half holds one edge.
 func (b *Bench) bridgeWave(tab *Table, t0 float64) (*BridgeWave, error) {
 	T, _ := b.period()
-	c, err := tab.Columns("v(dd1)", "v(s1)", "v(g1)", "v(k1)", "v(g0)", "v(k0)")
+	c, err := tab.Columns("v(dd1)", "v(s1)", "v(g1)", "v(k1)")
 	if err != nil {
 		return nil, err
 	}
 	tm := tab.Cols[0]
 	vds := func(k int) float64 { return c[0][k] - c[1][k] }
-	vgs := [2]func(k int) float64{
-		func(k int) float64 { return c[4][k] - c[5][k] },
-		func(k int) float64 { return c[2][k] - c[3][k] },
-	}
+	gate := func(k int) float64 { return c[2][k] - c[3][k] }
 	w := b.gateWindows(t0)
 	midCtrl := (w[0][0] + w[0][1]) / 2
 	midSync := (w[1][0] + w[1][1]) / 2
@@ -100,9 +93,6 @@ func (b *Bench) bridgeWave(tab *Table, t0 float64) (*BridgeWave, error) {
 			if diode && mid(vds) < level {
 				wave.DiodeTime[e] += dt
 			}
-			if b.Vth[0] > 0 && b.Vth[1] > 0 && mid(vgs[0]) > b.Vth[0] && mid(vgs[1]) > b.Vth[1] {
-				wave.Overlap[e] += dt
-			}
 		}
 	}
 	if ich, err := tab.Col(syncChannel); err == nil {
@@ -113,7 +103,6 @@ func (b *Bench) bridgeWave(tab *Table, t0 float64) (*BridgeWave, error) {
 			wave.ShootEnergy += dt * (i0*vds(k-1) + i1*vds(k)) / 2
 		}
 	}
-	gate := vgs[1]
 	if g, err := tab.Col(syncGate); err == nil {
 		gate = func(k int) float64 { return g[k] }
 	}

@@ -31,9 +31,6 @@ func NewBench(pt *stage.Point, r *evaluate.Result, base string) (*spice.Bench, e
 			RSink: float64(d.RSink), RgExt: float64(d.RgExt)}
 	}
 	b := &spice.Bench{Ctrl: devs[0], Fsw: float64(s.Fsw), Drive: [2]spice.Drive{drive(s.DriverOf(false)), drive(s.DriverOf(true))}}
-	for i := 0; i < r.N; i++ {
-		b.Vth[i] = float64(r.Devices[i].Dev.Part.VgsTh)
-	}
 	hard := func(st *stage.SwitchStress) [2]bool {
 		return [2]bool{st.HardOn || st.VSoftOn > 0, st.HardOff}
 	}
