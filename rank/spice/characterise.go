@@ -22,6 +22,18 @@ type Datasheet struct {
 	RgInt                    float64 // gate resistance at 1 MHz, drain shorted to source, Ω
 	Qoss, Eoss, OssVds       float64 // output charge (C) and energy (J) from 0 V to OssVds (V, half the rating)
 
+	// Body-diode reverse recovery (gate shorted to source; the recovery
+	// step): Qrr is the recovered charge without the capacitances' charge
+	// (Q_oss and the junction's in forward bias; see recovery), C,
+	// ≥ 0 (0: none the test resolves, below the larger of 10 pC and 1 %
+	// of Qoss), at the forward current QrrIf (A, ITest), the ramp rate
+	// QrrDidt (A/s, 100 A/µs) and the clamp voltage QrrVr (V, OssVds);
+	// Irrm is the peak reverse current (A, > 0, Coss's charging current
+	// included) and Trr the time from the current's zero crossing to
+	// 25 % of Irrm past the peak (s, > 0); both for the report.
+	Qrr, QrrIf, QrrDidt, QrrVr float64
+	Irrm, Trr                  float64
+
 	Qg, QgVgs, QgVds, QgId float64 // total gate charge (C) at QgVgs (V, 10 V) in the gate-charge test at QgVds (V, half the rating) and QgId (A, ITest)
 	Qgs, Qgd, QgTh, Vpl    float64 // gate-source, Miller and threshold charges (C); plateau voltage (V)
 	// GateCurve is the gate-charge curve resampled at 41 points from 0 to
@@ -94,20 +106,26 @@ type dut struct {
 	// Sizing (NaN: measured first): input capacitance at 0 V (F), its
 	// gate-drain share (F), threshold (V) and gate resistance (Ω).
 	cin, cgd, vto, rg float64
+	// storeCards are the diode and VDMOS cards whose transit time the
+	// recovery test sets to 0 (ngspice's altermod) for its reference run
+	// without stored charge; nil when that charge cannot be taken out.
+	storeCards []string
 }
 
 func modelDUT(m *Model) *dut {
 	return &dut{card: m.card("dut"), inst: func(ref, d, g, s string) string {
 		return fmt.Sprintf("m%s %s %s %s %s dut\n", ref, d, g, s, s)
-	}, cin: m.Cgs + m.Cgdmax, cgd: m.Cgdmax, vto: m.Vto, rg: m.Rg}
+	}, cin: m.Cgs + m.Cgdmax, cgd: m.Cgdmax, vto: m.Vto, rg: m.Rg, storeCards: []string{"dut"}}
 }
 
 func deviceDUT(d *Device) *dut {
-	return &dut{card: ".include model.lib\n", inst: func(ref, dn, g, s string) string {
+	u := &dut{card: ".include model.lib\n", inst: func(ref, dn, g, s string) string {
 		l, _ := d.instance(ref, dn, g, s, s)
 		return l
 	}, files: map[string][]byte{"model.lib": d.Text}, compat: d.Compat,
 		cin: math.NaN(), cgd: math.NaN(), vto: math.NaN(), rg: math.NaN()}
+	u.storeCards = storeCards(d)
+	return u
 }
 
 func (u *dut) run(ctx context.Context, r *Runner, name, deck string, outputs ...string) (map[string]*Table, error) {
@@ -124,7 +142,7 @@ func characterise(ctx context.Context, r *Runner, m *Model, u *dut) (*Datasheet,
 		name string
 		fn   func(context.Context, *Runner, *Model, *dut, *Datasheet) error
 	}{{"static", static}, {"capacitances", capacitances}, {"output charge", outputCharge},
-		{"gate charge", gateCharge}, {"switching times", switchingTimes}}
+		{"recovery", recovery}, {"gate charge", gateCharge}, {"switching times", switchingTimes}}
 	for _, s := range steps {
 		if err := s.fn(ctx, r, m, u, ds); err != nil {
 			return nil, fmt.Errorf("characterising %s: %s test: %w", m.Name, s.name, err)
@@ -461,7 +479,7 @@ func switchingTimes(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datash
 // model parameters.
 func (ds *Datasheet) Part(m *Model) devices.Part {
 	v := func(x float64) q.Opt[q.Voltage] { return q.Some(q.Voltage(x)) }
-	return devices.Part{
+	p := devices.Part{
 		Name: m.Name, Package: "sim", Technology: devices.Silicon,
 		Notes:  "synthetic VDMOS model characterised by ngspice",
 		VdsMax: q.Voltage(m.VdsMax), IdMax: q.Current(m.IdMax), VgsMax: q.Voltage(m.VgsMax),
@@ -486,4 +504,12 @@ func (ds *Datasheet) Part(m *Model) devices.Part {
 		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
 		EossLoss: q.Some[q.Energy](0), EossLossVds: v(ds.OssVds),
 	}
+	// The recovered charge without the output charge (the test takes the
+	// capacitances' charge out: qrr_includes_coss no), when the recovery
+	// test ran (a datasheet without it leaves the columns blank).
+	if ds.QrrIf > 0 && ds.QrrDidt > 0 {
+		p.Qrr, p.QrrIf, p.QrrDidt = q.Some(q.Charge(ds.Qrr)), q.Some(q.Current(ds.QrrIf)), q.Some(q.Slew(ds.QrrDidt))
+		p.QrrTj, p.QrrHasCoss = q.Some[q.Temperature](25), false
+	}
+	return p
 }
