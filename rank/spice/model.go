@@ -152,6 +152,10 @@ func (p *Point) Candidate(m *Model) bool {
 	return m.VdsMax*p.Derate > p.Vbus && (p.MaxRating == 0 || m.VdsMax <= p.MaxRating)
 }
 
+// Card returns the device's VDMOS .model line, named name: what a model
+// file holds for spice.LoadDevice.
+func (m *Model) Card(name string) string { return m.card(name) }
+
 // card returns the .model line of the device, named name.
 func (m *Model) card(name string) string {
 	kv := []struct {

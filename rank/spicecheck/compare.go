@@ -255,7 +255,7 @@ func screenNames(s evaluate.Screens) string {
 		{evaluate.ScreenGateMin, "drive below vgs_min"}, {evaluate.ScreenBelowThreshold, "drive below threshold"},
 		{evaluate.ScreenBelowPlateau, "drive below plateau"}, {evaluate.ScreenTjMax, "tj_max"},
 		{evaluate.ScreenRunaway, "thermal runaway"}, {evaluate.ScreenNoOutputCap, "no output-capacitance data"},
-		{evaluate.ScreenFalseTurnOn, "false turn-on"}}
+		{evaluate.ScreenFalseTurnOn, "false turn-on"}, {evaluate.ScreenCrossConduction, "cross-conduction"}}
 	var out []string
 	for _, x := range names {
 		if s&x.s != 0 {

@@ -10,6 +10,10 @@
 // integrated over one period (spice.SimulateCell). It gives the simulated
 // losses beside swrank's custom stage for the same cell (Predict, NewRow),
 // the error and ordering figures (Summarise) and the text report
-// (Report). Its tests hold the acceptance limits. docs/spice-crosscheck.md
+// (Report). The synchronous half-bridge (LoadBridgeConfig,
+// testdata/spicecheck/halfbridge.toml) runs on spice.Bench, the bench of
+// swrank verify, over a development set and a held-out set of devices
+// (HeldOut), the latter never used to choose a constant (RunBridge,
+// Summarise). Its tests hold the acceptance limits. docs/spice-crosscheck.md
 // describes the tests, the measurement convention and the figures.
 package spicecheck
