@@ -26,12 +26,14 @@ const (
 )
 
 // BridgeComponents lists the compared half-bridge components.
-var BridgeComponents = []string{CompTotal, BridgeDiode, BridgeRecovery, BridgeSwitching, BridgeSyncCond, BridgeGate}
+func BridgeComponents() []string {
+	return []string{CompTotal, BridgeDiode, BridgeRecovery, BridgeSwitching, BridgeSyncCond, BridgeGate}
+}
 
 // BridgeRow is one part in both places of one synchronous buck: swrank's
 // prediction and the simulation.
 type BridgeRow struct {
-	Row // Device, Point, Pred and Sim by BridgeComponents; Screened and ScreenNote
+	Row // Device, Point, Pred and Sim by BridgeComponents(); Screened and ScreenNote
 
 	Screens evaluate.Screens // swrank's screens
 	// PredDiode and SimDiode are the diode's conduction time at each edge

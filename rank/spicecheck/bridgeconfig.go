@@ -18,13 +18,13 @@ import (
 // cell's devices with a body-diode transit time) and a held-out set drawn
 // from a seed (HeldOut).
 type BridgeConfig struct {
-	// CellConfig names the cell's configuration (relative to this file)
-	// whose devices form the development set.
+	// CellConfig names the cell's configuration (relative to this file):
+	// its devices form the development set, its held_out the held-out
+	// set.
 	CellConfig string `toml:"cell_config"`
 	// TtPerVolt gives each development device a body-diode transit time
 	// in proportion to its rating, s/V; > 0.
 	TtPerVolt float64       `toml:"tt_per_volt"`
-	HeldOut   HeldOut       `toml:"held_out"`
 	Points    []BridgePoint `toml:"point"` // names unique
 
 	// Dev and Held are the two device sets, filled by LoadBridgeConfig.
@@ -137,7 +137,7 @@ func LoadBridgeConfig(path string) (*BridgeConfig, error) {
 		m.Tt = c.TtPerVolt * m.VdsMax
 		c.Dev = append(c.Dev, m)
 	}
-	if c.Held, err = c.HeldOut.Devices(); err != nil {
+	if c.Held, err = cell.HeldOut.Devices(); err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	names := map[string]bool{}

@@ -20,7 +20,7 @@ type BridgePointSummary struct {
 // BridgeSummary is what a half-bridge set shows.
 type BridgeSummary struct {
 	Set    string
-	Stats  map[string]Stats // by BridgeComponents, over the compared rows
+	Stats  map[string]Stats // by BridgeComponents(), over the compared rows
 	Points []BridgePointSummary
 	// DiodeTime is the error of the diode's conduction time over both
 	// edges of the compared rows, in ns (predicted − simulated): its
@@ -53,7 +53,7 @@ func (s *BridgeSuite) Compared() []Row {
 func (s *BridgeSuite) Summarise(cfg *BridgeConfig) BridgeSummary {
 	sum := BridgeSummary{Set: s.Set, Stats: map[string]Stats{}, SetAside: map[string]int{}}
 	rows := s.Compared()
-	for _, c := range BridgeComponents {
+	for _, c := range BridgeComponents() {
 		sum.Stats[c] = ErrStats(rows, c)
 	}
 	var dt []Row
@@ -138,7 +138,7 @@ func (r *BridgeRow) screenVerdict() (wrong, thin []string) {
 func (sum *BridgeSummary) Text() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "half-bridge, %s set:\n", sum.Set)
-	for _, c := range BridgeComponents {
+	for _, c := range BridgeComponents() {
 		st := sum.Stats[c]
 		fmt.Fprintf(&b, "  %-16s median |err| %6s  worst %7s  (%s)  n=%d\n", c, pct(st.Median), pct(st.WorstSigned), st.WorstAt, st.N)
 	}

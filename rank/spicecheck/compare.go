@@ -23,10 +23,15 @@ const (
 	CompCoss       = "coss"
 	CompGate       = "gate"
 	CompTotal      = "total"
+	// CompSwitching is the edges together: turn-on, turn-off and the
+	// output capacitance.
+	CompSwitching = "switching"
 )
 
 // Components lists the compared loss components.
-var Components = []string{CompConduction, CompTurnOn, CompTurnOff, CompCoss, CompGate, CompTotal}
+func Components() []string {
+	return []string{CompConduction, CompTurnOn, CompTurnOff, CompCoss, CompSwitching, CompGate, CompTotal}
+}
 
 // Stage is swrank's custom stage for the simulated cell: the blocking
 // voltage the simulation applied (bus plus clamp drop), the load current at
@@ -73,7 +78,7 @@ func Predict(part *devices.Part, p *spice.Point, e *spice.CellEnergies) (evaluat
 // component, W.
 type Row struct {
 	Device, Point string             // the device's and the point's names
-	Pred, Sim     map[string]float64 // power by component (Components), W: swrank's and the simulation's
+	Pred, Sim     map[string]float64 // power by component (Components()), W: swrank's and the simulation's
 	Screened      bool               // swrank set the part aside at this point
 	ScreenNote    string             // why
 	// VoltageOnly is true when the only screen is the drain-voltage rating:
@@ -125,6 +130,7 @@ func NewRow(dev string, p *spice.Point, res *evaluate.Result, e *spice.CellEnerg
 		CompTurnOn:     float64(l.TurnOn),
 		CompTurnOff:    float64(l.TurnOff),
 		CompCoss:       float64(l.Coss),
+		CompSwitching:  float64(l.TurnOn + l.TurnOff + l.Coss),
 		CompGate:       float64(l.GateRint + l.GateDriver + l.GateRext),
 		CompTotal:      float64(l.Total()),
 	}
@@ -133,6 +139,7 @@ func NewRow(dev string, p *spice.Point, res *evaluate.Result, e *spice.CellEnerg
 		CompTurnOn:     e.OnOverlap * f,
 		CompTurnOff:    e.Off * f,
 		CompCoss:       e.OnCoss * f,
+		CompSwitching:  (e.OnOverlap + e.Off + e.OnCoss) * f,
 		CompGate:       e.Gate() * f,
 		CompTotal:      e.Total() * f,
 	}

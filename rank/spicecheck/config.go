@@ -27,6 +27,9 @@ type Config struct {
 	Swap       Swap          `toml:"swap"`       // the pair whose order must reverse; optional
 	Parasitics ParasiticSet  `toml:"parasitics"` // the cells with parasitic inductance; optional
 	ClassE     []ClassECase  `toml:"class_e"`    // the class E stages; optional
+	// HeldOut is the held-out device set, drawn from a seed: judged at
+	// the same points, never used to choose a constant; optional.
+	HeldOut HeldOut `toml:"held_out"`
 }
 
 // ParasiticSet is the parasitic-inductance part of the suite: every

@@ -56,7 +56,7 @@ type OvershootStats struct {
 func (s *Suite) Summarise() Summary {
 	all := s.AllCompared()
 	sum := Summary{Comp: map[string]Stats{}}
-	for _, c := range Components {
+	for _, c := range Components() {
 		sum.Comp[c] = ErrStats(all, c)
 	}
 	for _, p := range s.Config.Points {
@@ -93,7 +93,7 @@ func (s *Suite) Summarise() Summary {
 	if len(s.ParRows) > 0 {
 		pc := s.ParCompared()
 		sum.ParComp = map[string]Stats{}
-		for _, c := range Components {
+		for _, c := range Components() {
 			sum.ParComp[c] = ErrStats(pc, c)
 		}
 		for _, v := range s.Config.Parasitics.Variants {
@@ -156,7 +156,7 @@ func (sum *Summary) SummaryText() string {
 	var b strings.Builder
 	b.WriteString("relative error (predicted − simulated)/simulated over the compared rows:\n")
 	fmt.Fprintf(&b, "  %-11s %4s %9s %9s  %s\n", "component", "n", "median", "worst", "worst at")
-	for _, c := range Components {
+	for _, c := range Components() {
 		st := sum.Comp[c]
 		fmt.Fprintf(&b, "  %-11s %4d %9s %9s  %s\n", c, st.N, fmt.Sprintf("%.1f%%", 100*st.Median), pct(st.WorstSigned), st.WorstAt)
 	}
@@ -224,7 +224,7 @@ func (s *Suite) Report(sum *Summary) string {
 			}
 			fmt.Fprintf(&b, "%-13s method %s, switching share %.0f%%, sim windows on %s off %s%s\n", r.Device, r.Method,
 				100*r.SwitchingShare(), q.Format(q.Time(r.SimE.TOn), 3), q.Format(q.Time(r.SimE.TOff), 3), note)
-			for _, c := range Components {
+			for _, c := range Components() {
 				fmt.Fprintf(&b, "    %-11s %10s %10s %9s\n", c, watts(r.Pred[c]), watts(r.Sim[c]), pct(r.Err(c)))
 			}
 			e := r.SimE
