@@ -16,7 +16,7 @@ func TestMargin(t *testing.T) {
 	for _, c := range []struct {
 		share string
 		want  float64
-	}{{ShareGate, 0.10}, {ShareSwitching, 0.30}, {ShareDeadTime, 0.30}, {ShareConduction, 0.20}, {ShareSwitch, 0.20}, {ShareTotal, 0.20}} {
+	}{{ShareGate, 0.10}, {ShareSwitching, 0.30}, {ShareDeadTime, 0.20}, {ShareConduction, 0.20}, {ShareSwitch, 0.20}, {ShareTotal, 0.20}} {
 		if got := Margin(c.share); got != c.want {
 			t.Errorf("%s: %g, want %g", c.share, got, c.want)
 		}
