@@ -161,6 +161,11 @@ func hardTurnOnCharges(out *DeviceResult, m *devModel, k *partnerCharge, tr *Tra
 		formula = "E = Qrr(Tj,partner)·V (the partner's recovered charge, at its junction temperature, flows through this switch at full voltage)"
 		terms = append(terms, T("Tj partner", k.tj))
 	}
+	if k != nil && k.rec.Time > 0 {
+		formula += "; Qrr moved from the datasheet's test to this commutation by the charge-control model: the diode conducts I_F for its dead-time share from no charge, the current falls at di/dt, the reverse current sweeps out what is left at the zero crossing"
+		terms = append(terms, T("I_F", k.iF), T("di/dt", k.didt), T("diode conducts before", k.tOn), T("τ (fitted)", k.dev.QrrTau),
+			T("stored at the zero crossing (test Tj)", k.rec.Stored), T("recovered (test Tj)", k.rec.Recovered), T("recovery time", k.rec.Time))
+	}
 	tr.add(name, "recovery", formula, terms...)
 }
 

@@ -145,9 +145,17 @@ func evaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trac
 // partnerCharge is what the complementary device contributes at the control
 // switch's hard turn-on.
 type partnerCharge struct {
-	qoss  q.Charge      // its output charge at the cell voltage
-	eoss  q.Energy      // its stored energy at the cell voltage
-	qrr   q.Charge      // its recovered charge (at its junction temperature)
+	qoss q.Charge // its output charge at the cell voltage
+	eoss q.Energy // its stored energy at the cell voltage
+	qrr  q.Charge // its recovered charge (at its junction temperature)
+	// rec is its commutation at the working point by the charge-control
+	// model (at the datasheet's temperature), iF, didt and tOn the
+	// forward current, the rate and the diode's conduction before it;
+	// zero when the datasheet's test conditions give no lifetime.
+	rec   loss.Recovery
+	iF    q.Current
+	didt  q.Slew
+	tOn   q.Time
 	tj    q.Temperature // its junction temperature (transistor partner)
 	lloop q.Inductance  // its package share of the power loop
 	flags fit.Flags
@@ -182,7 +190,8 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Curre
 	}
 	p.qrr = k.Qrr.At(p.tj)
 	if k.QrrTau > 0 && iF > 0 && didt > 0 {
-		scale := float64(loss.RecoveredChargeAfter(k.QrrTau, iF, didt, tDiode)) / float64(loss.RecoveredCharge(k.QrrTau, k.QrrIf, k.QrrDidt))
+		p.rec, p.iF, p.didt, p.tOn = loss.RecoveryAfter(k.QrrTau, iF, didt, tDiode), iF, didt, tDiode
+		scale := float64(p.rec.Recovered) / float64(loss.RecoveredCharge(k.QrrTau, k.QrrIf, k.QrrDidt))
 		p.qrr = q.Charge(float64(p.qrr) * scale)
 		if !k.Part.QrrIf.OK || !k.Part.QrrDidt.OK {
 			p.flags |= fit.FlagQrrCondEstimated

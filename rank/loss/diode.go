@@ -105,8 +105,28 @@ func RecoveredCharge(tau q.Time, iF q.Current, didt q.Slew) q.Charge {
 // solved here for a forward interval, a linear ramp through zero and the
 // reverse phase to the end of the stored charge.
 func RecoveredChargeAfter(tau q.Time, iF q.Current, didt q.Slew, tOn q.Time) q.Charge {
+	return RecoveryAfter(tau, iF, didt, tOn).Recovered
+}
+
+// Recovery is a diode's commutation by the charge-control model
+// (RecoveryAfter).
+type Recovery struct {
+	// Stored is the charge left at the current's zero crossing, C; ≥ 0.
+	Stored q.Charge
+	// Recovered is the charge the reverse current sweeps out, C; ≥ 0.
+	Recovered q.Charge
+	// Time is the reverse current's duration, from the zero crossing to
+	// the end of the stored charge, s; ≥ 0 (the recovery time of an
+	// abrupt recovery).
+	Time q.Time
+}
+
+// RecoveryAfter is the commutation of RecoveredChargeAfter: the charge
+// stored at the zero crossing q(t₀), the charge recovered a·τ²·u²/2 and
+// the reverse current's duration u·τ.
+func RecoveryAfter(tau q.Time, iF q.Current, didt q.Slew, tOn q.Time) Recovery {
 	if tau <= 0 || iF <= 0 || didt <= 0 {
-		return 0
+		return Recovery{}
 	}
 	a, t, i := float64(didt), float64(tau), float64(iF)
 	at2 := a * t * t
@@ -114,10 +134,10 @@ func RecoveredChargeAfter(tau q.Time, iF q.Current, didt q.Slew, tOn q.Time) q.C
 	q0 := -t * i * math.Expm1(-max(float64(tOn), 0)/t)
 	qz := at2 + (q0-t*i-at2)*math.Exp(-t0/t)
 	if !(qz > 0) {
-		return 0
+		return Recovery{}
 	}
 	u := 1 + numeric.LambertW0((qz/at2-1)/math.E)
-	return q.Charge(at2 * u * u / 2)
+	return Recovery{Stored: q.Charge(qz), Recovered: q.Charge(at2 * u * u / 2), Time: q.Time(u * t)}
 }
 
 // FitRecoveryLifetime returns the lifetime τ for which RecoveredCharge
