@@ -186,12 +186,18 @@ type Part struct {
 	EossLoss    q.Opt[q.Energy]  `csv:"eoss_loss"`     // energy lost per charge-discharge cycle, J
 	EossLossVds q.Opt[q.Voltage] `csv:"eoss_loss_vds"` // voltage swing of eoss_loss, V
 
-	// Switching times (10-90 %) under the stated test.
+	// Switching times (10-90 %) and delay times under the stated test
+	// (IEC 60747-8 definitions; the resistive-load switching-time test).
+	// td_on and td_off are used only with tsw_vgs, tsw_id and tsw_rg or
+	// tsw_rgen given (a blank one of the two taken as 0 Ω); without them
+	// they are accepted but not used (flag td-cond?).
 	Tr      q.Opt[q.Time]       `csv:"tr"`       // rise time, s
 	Tf      q.Opt[q.Time]       `csv:"tf"`       // fall time, s
-	TswVdd  q.Opt[q.Voltage]    `csv:"tsw_vdd"`  // supply voltage of the tr/tf test, V
-	TswId   q.Opt[q.Current]    `csv:"tsw_id"`   // drain current of the tr/tf test, A
-	TswVgs  q.Opt[q.Voltage]    `csv:"tsw_vgs"`  // gate drive of the tr/tf test, V
+	TdOn    q.Opt[q.Time]       `csv:"td_on"`    // turn-on delay time, 10 % of the gate pulse to 10 % of the drain voltage's fall, s
+	TdOff   q.Opt[q.Time]       `csv:"td_off"`   // turn-off delay time, 90 % of the gate pulse's fall to 10 % of the drain voltage's rise, s
+	TswVdd  q.Opt[q.Voltage]    `csv:"tsw_vdd"`  // supply voltage of the tr/tf/td test, V
+	TswId   q.Opt[q.Current]    `csv:"tsw_id"`   // drain current of the tr/tf/td test, A
+	TswVgs  q.Opt[q.Voltage]    `csv:"tsw_vgs"`  // gate drive of the tr/tf/td test, from 0 V, V
 	TswRg   q.Opt[q.Resistance] `csv:"tsw_rg"`   // external gate resistance of the test, Ω
 	TswRgen q.Opt[q.Resistance] `csv:"tsw_rgen"` // generator resistance of the test, Ω
 

@@ -108,6 +108,11 @@ var plausibleRanges = [...]plausible{
 	// GaN part driven with an ampere of gate current.
 	{col: "tr", lo: 20e-12, hi: 5e-6, prefer: "n"},
 	{col: "tf", lo: 20e-12, hi: 5e-6, prefer: "n"},
+	// Delay times: from 100 ps (a small GaN part's delay is of the order
+	// of a nanosecond) to 10 µs (a large high-voltage part's turn-off
+	// delay through a large test resistor stays below a few µs).
+	{col: "td_on", lo: 100e-12, hi: 10e-6, prefer: "n"},
+	{col: "td_off", lo: 100e-12, hi: 10e-6, prefer: "n"},
 	{col: "tsw_vdd", lo: vTestLo, hi: vRating},
 	{col: "tsw_id", lo: iTestLo, hi: iTestHi},
 	{col: "tsw_vgs", lo: vGateLo, hi: vGateHi},

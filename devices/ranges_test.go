@@ -25,6 +25,7 @@ var baseRow = [][2]string{
 	{"tr", "5n"}, {"tf", "3n"}, {"tsw_vdd", "15"}, {"tsw_id", "20"}, // 33-36
 	{"vsd", "0.8"}, {"vsd_if", "20"}, {"qrr", "20n"}, {"qrr_didt", "100 A/µs"}, // 37-40
 	{"l_cs", "0.5n"}, {"l_loop", "1n"}, {"rds_on2", "6m"}, {"rds_on2_vgs", "4.5"}, // 41-44
+	{"td_on", "6n"}, {"td_off", "20n"}, // 45-46
 }
 
 // rowFile writes baseRow with edits as a library: header on line 1, the
@@ -114,6 +115,15 @@ func TestRangeRules(t *testing.T) {
 			`r.csv:2:25: rg_int: 1.2m reads as 1.2 mΩ, outside 10 mΩ–200 Ω; for 1.2 Ω write 1.2`,
 			`r.csv:2:27: coss: 450n reads as 450 nF, outside 500 fF–100 nF; for 450 pF write 450p`,
 		}},
+		// Delay times copied in ns without the prefix, or with the wrong
+		// one (100 ps–10 µs).
+		{"delay times in display units", map[string]string{"td_on": "6", "td_off": "20p"}, []string{
+			`r.csv:2:45: td_on: 6 reads as 6 s, outside 100 ps–10 µs; for 6 ns write 6n`,
+			`r.csv:2:46: td_off: 20p reads as 20 ps, outside 100 ps–10 µs; for 20 ns write 20n`,
+		}},
+		{"delay time in ms", map[string]string{"td_off": "0.02m"}, []string{
+			`r.csv:2:46: td_off: 0.02m reads as 20 µs, outside 100 ps–10 µs; for 0.02 µs write 0.02µ`,
+		}},
 		{"rating in kV", map[string]string{"vds_max": "1.2"}, []string{
 			`r.csv:2:2: vds_max: 1.2 reads as 1.2 V, outside 5 V–3.3 kV; for 1.2 kV write 1.2k`,
 		}},
@@ -146,6 +156,9 @@ func TestRangeRules(t *testing.T) {
 	// A sign problem is reported once, not again as out of range.
 	runRules(t, []ruleCase{{"sign first", map[string]string{"rds_on": "-5"}, []string{
 		`r.csv:2:12: rds_on: -5.000 Ω: must be positive`,
+	}}, {"negative delay times", map[string]string{"td_on": "-6n", "td_off": "0"}, []string{
+		`r.csv:2:45: td_on: -6.000 ns: must be positive`,
+		`r.csv:2:46: td_off: 0 s: must be positive`,
 	}}}, ErrNonPhysical)
 }
 

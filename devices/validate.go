@@ -137,6 +137,8 @@ func (v *validator) run() {
 	optPositive(v, "eoss_loss_vds", p.EossLossVds)
 	optPositive(v, "tr", p.Tr)
 	optPositive(v, "tf", p.Tf)
+	optPositive(v, "td_on", p.TdOn)
+	optPositive(v, "td_off", p.TdOff)
 	optPositive(v, "tsw_vdd", p.TswVdd)
 	optPositive(v, "tsw_id", p.TswId)
 	optPositive(v, "tsw_vgs", p.TswVgs)

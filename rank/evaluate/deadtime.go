@@ -36,9 +36,15 @@ type deadTiming struct {
 // parameters at 25 °C (the timing's temperature dependence is left out:
 // it moves the threshold crossings by a fraction of a nanosecond).
 //
+// When the part gives its delay times td_on and td_off (with their test
+// conditions), the gate's charge per volt over each delay is the one they
+// imply (fit.Device.DelayCOn, DelayCOff) instead of the gate-charge
+// curve's: see onDelay, softOffDelay and turnOffTimes.
+//
 // Source: the switching procedure of a gate-driven MOSFET, its delays as
 // the RC response of the gate (loss.GateDelay) and its transition
-// intervals by the gate-charge method (Balogh 2001); the diode carries the
+// intervals by the gate-charge method (Balogh 2001); the delay times'
+// definitions of IEC 60747-8:2010; the diode carries the
 // load current from the end of one switch's current fall to the start of
 // the other's channel conduction, its current ramping over the current
 // transition (half the interval counted; Graovac, Pürschel, Kiep 2006).
@@ -91,20 +97,31 @@ func inputCharge(d *fit.Device) q.Capacitance {
 
 // onDelay is the time a device's gate takes from the off level to the
 // level v (≥ its threshold) through the turn-on loop, charging the
-// capacitance below the threshold.
+// capacitance below the threshold: the one td_on implies when the part
+// gives it (fit.Device.DelayCOn; IEC 60747-8 td(on), the RC gate of
+// Balogh, "Design and Application Guide for High Speed MOSFET Gate Drive
+// Circuits", 2001), else Qth/Vth.
 func onDelay(d *fit.Device, drv *stage.Driver, v q.Voltage) q.Time {
 	r := drv.RSource + drv.RgExt + d.RgInt
-	return loss.GateDelay(r, inputCharge(d), drv.VOn, drv.VOff, v)
+	c := inputCharge(d)
+	if d.DelayCOn > 0 {
+		c = d.DelayCOn
+	}
+	return loss.GateDelay(r, c, drv.VOn, drv.VOff, v)
 }
 
 // softOffDelay is the time a soft-switched device's gate, carrying current
 // i, takes from the on level to the level v (≥ its threshold) through the
-// turn-off loop, its drain near 0 V (no plateau): the charge between the
-// on level and v over their difference.
+// turn-off loop, its drain near 0 V (no plateau): the capacitance td_off
+// implies when the part gives it (fit.Device.DelayCOff; IEC 60747-8
+// td(off), the RC gate of Balogh 2001), else the charge between the on
+// level and v over their difference.
 func softOffDelay(d *fit.Device, drv *stage.Driver, i q.Current, v q.Voltage) q.Time {
 	r := drv.RSink + drv.RgExt + d.RgInt
 	c := inputCharge(d)
-	if d.Method == fit.MethodGateCharge && drv.VOn > v {
+	if d.DelayCOff > 0 {
+		c = d.DelayCOff
+	} else if d.Method == fit.MethodGateCharge && drv.VOn > v {
 		cv := d.Curve(0, i, 0)
 		c = q.Capacitance(float64(cv.Charge(drv.VOn)-cv.Charge(v)) / float64(drv.VOn-v))
 	}
@@ -119,15 +136,25 @@ type offTimes struct{ delay, tvr, tif q.Time }
 // v: the gate's fall from the on level to the plateau (charge per volt
 // above the plateau, the curve's slope), then the gate-charge intervals;
 // for the tr/tf method the delay is the linear gate's and the rescaled fall
-// time stands for the whole transition.
+// time stands for the whole transition. When the part gives td_off, the
+// fall to the plateau takes the capacitance it implies
+// (fit.Device.DelayCOff; IEC 60747-8 td(off), the RC gate of Balogh
+// 2001).
 func turnOffTimes(d *fit.Device, drv *stage.Driver, v q.Voltage, i q.Current) offTimes {
 	r := drv.RSink + drv.RgExt + d.RgInt
 	vpl := d.PlateauAt(i)
 	if d.Method != fit.MethodGateCharge {
-		return offTimes{delay: loss.GateDelay(r, inputCharge(d), drv.VOff, drv.VOn, vpl), tif: fallTime(d, drv, i)}
+		c := inputCharge(d)
+		if d.DelayCOff > 0 {
+			c = d.DelayCOff
+		}
+		return offTimes{delay: loss.GateDelay(r, c, drv.VOff, drv.VOn, vpl), tif: fallTime(d, drv, i)}
 	}
 	c := d.Slope
-	if c <= 0 {
+	switch {
+	case d.DelayCOff > 0:
+		c = d.DelayCOff
+	case c <= 0:
 		c = inputCharge(d)
 	}
 	tr := gateChargeEdges(d, drv, v, i)

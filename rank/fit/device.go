@@ -96,6 +96,15 @@ type Device struct {
 	TswHead [2]q.Voltage // test headroom at turn-on (Vgs − Vpl) and turn-off (Vpl)
 	TswOK   bool         // the test conditions were given
 
+	// DelayCOn and DelayCOff are the gate's charge per volt over the
+	// turn-on and turn-off delays, from the datasheet's td_on and td_off
+	// under the switching-time test (fitDelays: IEC 60747-8 delay times,
+	// the RC gate of Balogh 2001), F; > 0 when derived, 0 when the delay
+	// is blank or cannot be used (FlagTdNoConditions). The dead-time
+	// timing takes them in place of the gate-charge curve's Qth/Vth
+	// (turn-on) and slope or charge above the threshold (turn-off).
+	DelayCOn, DelayCOff q.Capacitance
+
 	// Temperature laws beyond the on-resistance (docs/second-order.md).
 	VthTC float64 // threshold and plateau coefficient, V/K (technology default)
 	VsdTC float64 // body-diode drop coefficient, V/K (0 for GaN: its drop follows Vth and R)
@@ -223,6 +232,7 @@ func prepare(p *devices.Part, low bool) (Device, error) {
 	if err := d.fitGateCharge(); err != nil {
 		return Device{}, err
 	}
+	d.fitDelays()
 	if err := d.prepareSecondOrder(); err != nil {
 		return Device{}, err
 	}

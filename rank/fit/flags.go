@@ -54,6 +54,7 @@ const (
 	FlagEstimateLow                           // informational: the low end of a bracketed estimate gave the worse result
 	FlagRdsDynEstimated                       // GaN without rds_dyn: 1.4× after blocking 80 % of the rating
 	FlagQrrCondEstimated                      // qrr_if or qrr_didt missing: the recovery test at a quarter of id_max and 100 A/µs
+	FlagTdNoConditions                        // informational: td_on or td_off not used (test conditions missing, or not an RC gate's delay)
 	flagCount
 )
 
@@ -100,6 +101,7 @@ var flagText = [...]struct{ code, text string }{
 	{"est-low", "a blank value with no unfavourable end (rg_int, the gate-charge curve, l_cs, the Miller charge without crss, a one-point output capacitance) was taken at both ends of its range: the faster end gave the worse result and is shown"},
 	{"rds-dyn-est", "GaN part without rds_dyn: a dynamic on-resistance of 1.4× after blocking 80 % of the rating is taken (the top of what GaN datasheets state)"},
 	{"qrr-cond?", "qrr_if or qrr_didt not given: the recovery test taken at a quarter of id_max and 100 A/µs (the unfavourable ends of the usual test) when the charge is moved to the working current and di/dt"},
+	{"td-cond?", "td_on or td_off not used (test conditions tsw_vgs, tsw_id, tsw_rg or tsw_rgen missing, or no RC gate takes that time under them): dead-time gate delays from the gate charge"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".
@@ -135,6 +137,9 @@ func (f Flags) Sentences() []string {
 // EstimateFlags are the flags that stand for a missing datasheet value
 // replaced by an estimate: a result's count of them says how much of its
 // ranking rests on estimates (strict ranking sets such parts aside).
+// FlagTdNoConditions is not one: a part whose delay times go unused is
+// timed from its gate-charge curve, as a part that leaves them blank is,
+// and giving them must not count against it.
 const EstimateFlags = FlagQgVdsAssumed | FlagQgIdAssumed | FlagQgThAssumed | FlagRgIntAssumed |
 	FlagTempDefault | FlagRdsOnePoint | FlagOssSqrtLaw | FlagTswNoConditions | FlagPlateauEstimated |
 	FlagGateLinear | FlagRthJCEstimated | FlagRthJAEstimated | FlagNoRth | FlagQrrEstimated |
