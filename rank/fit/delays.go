@@ -32,10 +32,16 @@ const (
 // The gate of the test rises from 0 V towards Vgs,test (turn-on) and falls
 // from Vgs,test towards 0 V (turn-off) as an RC circuit, and its channel
 // carries a current i once the gate passes the square-law plateau
-// V_pl(i) (PlateauAt): with V10 = V_pl(0.1·tsw_id), V90 = V_pl(0.9·tsw_id),
+// V_pl(i) (PlateauAt): with V10 = V_pl(0.1·tsw_id), V90 = V_pl(0.9·tsw_id).
+// Each delay ends at 10 % of the drain's swing, so it also holds the time
+// the gate stays near its plateau while the Miller charge of that tenth
+// of the swing moves (MillerChargeAt; the test's supply tsw_vdd, else
+// none counted): at turn-on the swing from V to 0.9·V, with the gate
+// current (Vgs,test − V10)/R_test; at turn-off the swing from 0 to 0.1·V,
+// where Cgd is largest, with V90/R_test:
 //
-//	td_on  = R_test·C_on·ln(0.9·Vgs,test/(Vgs,test − V10))
-//	td_off = R_test·C_off·ln(0.9·Vgs,test/V90)
+//	td_on  = R_test·C_on·ln(0.9·Vgs,test/(Vgs,test − V10)) + R_test·[Q_M(V) − Q_M(0.9·V)]/(Vgs,test − V10)
+//	td_off = R_test·C_off·ln(0.9·Vgs,test/V90) + R_test·Q_M(0.1·V)/V90
 //
 // solved for C_on and C_off.
 //
@@ -54,16 +60,28 @@ func (d *Device) fitDelays() {
 	}
 	r := p.TswRg.V + p.TswRgen.V + d.RgInt
 	vgs, id := p.TswVgs.V, p.TswId.V
+	// The Miller intervals inside each delay (0 without the test's
+	// supply).
+	var mOn, mOff q.Time
+	if v := p.TswVdd.V; p.TswVdd.OK && d.Qgd > 0 {
+		v10, v90 := d.PlateauAt(tdCurOn*id), d.PlateauAt(tdCurOff*id)
+		if vgs > v10 {
+			mOn = q.Time(float64(r) * float64(d.MillerChargeAt(v)-d.MillerChargeAt((1-tdCurOn)*v)) / float64(vgs-v10))
+		}
+		if v90 > 0 {
+			mOff = q.Time(float64(r) * float64(d.MillerChargeAt((1-tdCurOff)*v)) / float64(v90))
+		}
+	}
 	if p.TdOn.OK {
 		v10 := d.PlateauAt(tdCurOn * id)
-		d.DelayCOn = delayCapacitance(p.TdOn.V, r, (1-tdPulseOn)*vgs, vgs-v10)
+		d.DelayCOn = delayCapacitance(p.TdOn.V-mOn, r, (1-tdPulseOn)*vgs, vgs-v10)
 		if d.DelayCOn == 0 {
 			d.Flags |= FlagTdNoConditions
 		}
 	}
 	if p.TdOff.OK {
 		v90 := d.PlateauAt(tdCurOff * id)
-		d.DelayCOff = delayCapacitance(p.TdOff.V, r, tdPulseOff*vgs, v90)
+		d.DelayCOff = delayCapacitance(p.TdOff.V-mOff, r, tdPulseOff*vgs, v90)
 		if d.DelayCOff == 0 {
 			d.Flags |= FlagTdNoConditions
 		}

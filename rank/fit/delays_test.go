@@ -30,6 +30,13 @@ import (
 // (V90 = 2.464 V lies above 0.9·2.2 = 1.98 V: the gate is past it when the
 // delay starts), while C_on = 2 ns/(4·ln(1.98/0.17864)) = 2 ns/(4·2.40548)
 // = 0.20786 nF.
+//
+// With the test's supply tsw_vdd = 12 V each delay also holds the Miller
+// charge of the first tenth of the drain's swing. Without crss the part's
+// whole Qgd = 2 nC is taken below its 12 V test voltage (MillerChargeAt):
+// turn-on, from 12 to 10.8 V, moves none of it; turn-off, from 0 to
+// 1.2 V, all of it at V90/R = 0.616 A: 4 Ω·2 nC/2.4641 V = 3.24665 ns, so
+// C_off = (5 − 3.24665) ns/1.98760 Ω = 0.88215 nF.
 func TestFitDelays(t *testing.T) {
 	const (
 		lnOn  = 0.491006631 // ln(4.05/(4.5 − 2.0213594))
@@ -53,6 +60,8 @@ func TestFitDelays(t *testing.T) {
 		{"td_on only", func(p *devices.Part) { p.TdOff = q.Opt[q.Time]{} }, 2e-9 / (4 * lnOn), 0, false},
 		{"td_off only", func(p *devices.Part) { p.TdOn = q.Opt[q.Time]{} }, 0, 5e-9 / (4 * lnOff), false},
 		{"no delays", func(p *devices.Part) { p.TdOn, p.TdOff = q.Opt[q.Time]{}, q.Opt[q.Time]{} }, 0, 0, false},
+		{"the test's supply: the Miller tenth", func(p *devices.Part) { p.TswVdd = q.Some[q.Voltage](12) },
+			2e-9 / (4 * lnOn), 0.8821459e-9, false},
 		// As for tr/tf: one test resistance blank is 0 Ω (3 + 0 + 1 Ω).
 		{"tsw_rgen blank", func(p *devices.Part) {
 			p.TswRg, p.TswRgen = q.Some[q.Resistance](3), q.Opt[q.Resistance]{}

@@ -232,13 +232,13 @@ func prepare(p *devices.Part, low bool) (Device, error) {
 	if err := d.fitGateCharge(); err != nil {
 		return Device{}, err
 	}
-	d.fitDelays()
 	if err := d.prepareSecondOrder(); err != nil {
 		return Device{}, err
 	}
 	if err := d.fitMiller(); err != nil {
 		return Device{}, err
 	}
+	d.fitDelays()
 	d.estimate()
 	return d, nil
 }

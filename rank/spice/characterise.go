@@ -46,8 +46,8 @@ type Datasheet struct {
 	TswVgs         float64 // gate drive of the switching-time test, V (10 V)
 	TswRg          float64 // external gate resistor of the switching-time test, Ω (3 Ω)
 	TswRgen        float64 // generator resistance of the switching-time test, Ω (1 Ω)
-	TswTdOn        float64 // turn-on delay, from the generator's rising edge to 10 % of the drain current, s; for the report
-	TswTdOff       float64 // turn-off delay, from the generator's falling edge to 90 % of the drain current, s; for the report
+	TswTdOn        float64 // turn-on delay td(on), from the generator's rising edge to 10 % of the drain current, s (the library's td_on)
+	TswTdOff       float64 // turn-off delay td(off), from the generator's falling edge to 90 % of the drain current, s (the library's td_off)
 	GateChargeIg   float64 // constant gate current of the gate-charge test, A
 	GateChargeTime float64 // length of the gate-charge test, s
 	VthCurrent     float64 // drain current of the threshold test, A (250 µA)
@@ -503,6 +503,10 @@ func (ds *Datasheet) Part(m *Model) devices.Part {
 		// energy: no soft-switching hysteresis).
 		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
 		EossLoss: q.Some[q.Energy](0), EossLossVds: v(ds.OssVds),
+	}
+	// The delay times, when the switching-time test measured them.
+	if ds.TswTdOn > 0 && ds.TswTdOff > 0 {
+		p.TdOn, p.TdOff = q.Some(q.Time(ds.TswTdOn)), q.Some(q.Time(ds.TswTdOff))
 	}
 	// The recovered charge without the output charge (the test takes the
 	// capacitances' charge out: qrr_includes_coss no), when the recovery
