@@ -209,6 +209,7 @@ type Part struct {
 	Qrr        q.Opt[q.Charge]      `csv:"qrr"`               // reverse-recovery charge, C
 	QrrIf      q.Opt[q.Current]     `csv:"qrr_if"`            // forward current of the qrr test, A
 	QrrDidt    q.Opt[q.Slew]        `csv:"qrr_didt"`          // di/dt of the qrr test, A/s ("100 A/µs")
+	QrrVr      q.Opt[q.Voltage]     `csv:"qrr_vr"`            // reverse voltage of the qrr test, V (with qrr_includes_coss: the output charge the figure holds)
 	QrrTj      q.Opt[q.Temperature] `csv:"qrr_tj"`            // junction temperature of the qrr test, °C
 	QrrHot     q.Opt[q.Charge]      `csv:"qrr_hot"`           // recovery charge hot, C
 	QrrHotTj   q.Opt[q.Temperature] `csv:"qrr_hot_tj"`        // junction temperature of qrr_hot, °C

@@ -127,6 +127,7 @@ var plausibleRanges = [...]plausible{
 	{col: "qrr", lo: 10e-12, hi: 100e-6, zero: true, prefer: "n"},
 	{col: "qrr_if", lo: iTestLo, hi: iTestHi},
 	{col: "qrr_didt", lo: 1e6, hi: 1e10, prefer: "A/µs"}, // 1 A/µs to 10 kA/µs
+	{col: "qrr_vr", lo: vTestLo, hi: vRating},
 	{col: "qrr_tj", lo: tTestLo, hi: tTestHi},
 	{col: "qrr_hot", lo: 10e-12, hi: 100e-6, zero: true, prefer: "n"},
 	{col: "qrr_hot_tj", lo: tTestLo, hi: tTestHi},

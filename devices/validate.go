@@ -149,6 +149,7 @@ func (v *validator) run() {
 	optNonNegative(v, "qrr", p.Qrr)
 	optPositive(v, "qrr_if", p.QrrIf)
 	optPositive(v, "qrr_didt", p.QrrDidt)
+	optPositive(v, "qrr_vr", p.QrrVr)
 	optNonNegative(v, "qrr_hot", p.QrrHot)
 	optPositive(v, "vgs_th_hot", p.VgsThHot)
 	optPositive(v, "vsd_hot", p.VsdHot)

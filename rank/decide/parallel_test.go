@@ -152,7 +152,7 @@ func TestParallelPartColumns(t *testing.T) {
 		"Package": true, "Technology": true, "Notes": true, "VdsMax": true, "VgsMax": true, "VgsMin": true,
 		"TjMax": true, "VgsTh": true, "VgsThMax": true, "VgsThHot": true, "VgsThHotTj": true, "VsdHot": true, "VsdHotTj": true, "RdsOnVgs": true, "RdsOnTj": true, "RdsOn2Vgs": true,
 		"RdsHotTj": true, "RdsCurve": true, "RdsDyn": true, "RdsDynVds": true, "QgVgs": true, "QgVds": true,
-		"VPlateau": true, "CapVds": true, "OssVds": true, "EossLossVds": true, "Tr": true, "TdOn": true, "TdOff": true, "Tf": true,
+		"VPlateau": true, "CapVds": true, "OssVds": true, "EossLossVds": true, "Tr": true, "TdOn": true, "TdOff": true, "QrrVr": true, "Tf": true,
 		"TswVdd": true, "TswVgs": true, "Vsd": true, "QrrTj": true, "QrrHotTj": true, "QrrHasCoss": true, "Line": true,
 		// The one device's simulation model, kept (swrank verify takes
 		// no paralleled parts).

@@ -54,6 +54,22 @@ func TestEstimatesUsedAndFlagged(t *testing.T) {
 			testkit.Near(t, "recovery", float64(r.Devices[0].Losses.Recovery), 28.8e-9*12*500e3, 1.5e-2)
 			wantFlags(t, r, fit.FlagQrrEstimated)
 		}},
+		{"qrr with the output charge at a stated voltage: taken out", func(p *devices.Part, s *stage.Stage) {
+			p.QrrHasCoss, p.QrrVr = true, q.Some[q.Voltage](12)
+		}, func(t *testing.T, r *Result) {
+			// 20 nC less Q_oss(12 V) = 9.6 nC (the √ law): 10.4 nC at the
+			// test's own commutation (qrrShort), through the control
+			// switch at 12 V and 500 kHz: 62.4 mW.
+			testkit.Near(t, "Qrr", float64(r.Devices[0].Qrr), 10.4e-9, qrrShort)
+			testkit.Near(t, "recovery", float64(r.Devices[0].Losses.Recovery), 10.4e-9*12*500e3, qrrShort)
+			wantFlags(t, r, fit.FlagQrrLessCoss)
+		}},
+		{"qrr with the output charge, its voltage blank: none taken out", func(p *devices.Part, s *stage.Stage) {
+			p.QrrHasCoss = true
+		}, func(t *testing.T, r *Result) {
+			testkit.Near(t, "Qrr", float64(r.Devices[0].Qrr), 20e-9, qrrShort)
+			wantFlags(t, r, fit.FlagQrrCondEstimated)
+		}},
 		{"no rg_int: 3 Ω for silicon, and the other end too", func(p *devices.Part, s *stage.Stage) {
 			p.RgInt = q.Opt[q.Resistance]{}
 		}, func(t *testing.T, r *Result) {

@@ -188,7 +188,9 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Curre
 	if k.Part.Technology == devices.GaN || kr.Stress.IDead2 <= 0 && kr.Stress.IDead1 <= 0 {
 		return p
 	}
-	p.qrr = k.Qrr.At(p.tj)
+	// The recovered charge alone: the output charge the datasheet's
+	// figure holds (at its stated test voltage) comes out first.
+	p.qrr = max(0, k.Qrr.At(p.tj)-k.QrrCoss)
 	if k.QrrTau > 0 && iF > 0 && didt > 0 {
 		p.rec, p.iF, p.didt, p.tOn = loss.RecoveryAfter(k.QrrTau, iF, didt, tDiode), iF, didt, tDiode
 		scale := float64(p.rec.Recovered) / float64(loss.RecoveredCharge(k.QrrTau, k.QrrIf, k.QrrDidt))
@@ -204,9 +206,13 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Curre
 	if !k.QrrHot && p.tj != k.Qrr.T0 {
 		p.flags |= fit.FlagQrrTempDefault
 	}
-	if k.Part.QrrHasCoss {
-		p.qrr = max(0, p.qrr-p.qoss)
+	switch {
+	case k.QrrCoss > 0:
 		p.flags |= fit.FlagQrrLessCoss
+	case bool(k.Part.QrrHasCoss):
+		// The figure holds an output charge at a test voltage not
+		// stated: none is taken out (unknown is not zero).
+		p.flags |= fit.FlagQrrCondEstimated
 	}
 	return p
 }

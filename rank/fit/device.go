@@ -118,7 +118,12 @@ type Device struct {
 	// charge at its test current and di/dt (loss.FitRecoveryLifetime), s;
 	// QrrIf and QrrDidt are that test's current and rate, the datasheet's
 	// or, when blank, the unfavourable ends of the usual test (estimates.go).
-	QrrTau  q.Time
+	QrrTau q.Time
+	// QrrCoss is the output charge the datasheet's qrr holds, Q_oss at
+	// the test's reverse voltage (qrr_includes_coss with qrr_vr), C; 0
+	// otherwise (without qrr_vr none is taken out: the figure might hold
+	// little). The lifetime is fitted to the charge without it.
+	QrrCoss q.Charge
 	QrrIf   q.Current
 	QrrDidt q.Slew
 

@@ -168,9 +168,14 @@ func (d *Device) estimate() {
 	// memory: datasheets test at 0.25-1 × id_max and 100-500 A/µs). A lower
 	// test current and a slower test rate fit a longer lifetime, which
 	// moves more charge to a faster, larger commutation.
+	// A figure that holds the output charge at a stated test voltage is
+	// fitted without it.
 	if p.Technology != devices.GaN && d.Qrr.Q0 > 0 {
+		if bool(p.QrrHasCoss) && p.QrrVr.OK {
+			d.QrrCoss = d.Oss.Q(p.QrrVr.V)
+		}
 		d.QrrIf, d.QrrDidt = p.QrrIf.Or(p.IdMax/4), p.QrrDidt.Or(qrrDidtTest)
-		d.QrrTau, _ = loss.FitRecoveryLifetime(d.Qrr.At(25), d.QrrIf, d.QrrDidt)
+		d.QrrTau, _ = loss.FitRecoveryLifetime(max(0, d.Qrr.At(25)-d.QrrCoss), d.QrrIf, d.QrrDidt)
 	}
 
 	// Soft-switching hysteresis: a fraction of the stored energy.

@@ -28,7 +28,7 @@ const (
 	FlagRthJCEstimated                        // rth_jc missing: the top of the package family
 	FlagNoRth                                 // no thermal path and no known package: junction at tj_max
 	FlagQrrEstimated                          // no qrr for a part with a body diode: estimated from its output charge
-	FlagQrrLessCoss                           // qrr includes the output charge: partner Q_oss subtracted
+	FlagQrrLessCoss                           // qrr includes the output charge: Q_oss at the test's voltage taken out
 	FlagVsdDefault                            // vsd (or vsd_if) missing: the technology's upper value
 	FlagTjMaxDefault                          // tj_max missing: 150 °C
 	FlagDriverLimited                         // driver peak current limits the gate current
@@ -75,7 +75,7 @@ var flagText = [...]struct{ code, text string }{
 	{"rth-jc?", "rth_jc not given: the top of the package family's range is taken (docs/library.md)"},
 	{"rth?", "no thermal path (rth_ja; or rth_jc with --rth-ca; or a package swrank knows): junction taken at tj_max"},
 	{"qrr?", "no qrr for a part with a body diode: recovered charge estimated from its output charge (3× for ≤ 40 V silicon and SiC, 8× above)"},
-	{"qrr-coss", "qrr includes the output-capacitance charge: the partner's Q_oss is subtracted from it"},
+	{"qrr-coss", "qrr includes the output-capacitance charge: Q_oss at the test's reverse voltage (qrr_vr) is taken out of it"},
 	{"vsd?", "vsd (or its current vsd_if) not given: the technology's upper drop is used (Si 1.0 V, SiC 4.5 V, GaN 2.5 V plus I·R)"},
 	{"tjmax?", "tj_max not given: 150 °C assumed"},
 	{"drv-limit", "the driver's peak-current limit sets the gate current"},
@@ -100,7 +100,7 @@ var flagText = [...]struct{ code, text string }{
 	{"qgs-qgd?", "qgs or qgd not given: taken as 0.4·qg and 0.35·qg (the top of their usual share, within 90 % of qg together), and as 0.15·qg each at the other end"},
 	{"est-low", "a blank value with no unfavourable end (rg_int, the gate-charge curve, l_cs, the Miller charge without crss, a one-point output capacitance) was taken at both ends of its range: the faster end gave the worse result and is shown"},
 	{"rds-dyn-est", "GaN part without rds_dyn: a dynamic on-resistance of 1.4× after blocking 80 % of the rating is taken (the top of what GaN datasheets state)"},
-	{"qrr-cond?", "qrr_if or qrr_didt not given: the recovery test taken at a quarter of id_max and 100 A/µs (the unfavourable ends of the usual test) when the charge is moved to the working current and di/dt"},
+	{"qrr-cond?", "qrr_if or qrr_didt not given: the recovery test taken at a quarter of id_max and 100 A/µs (the unfavourable ends of the usual test) when the charge is moved to the working current and di/dt; or qrr_includes_coss without qrr_vr: no output charge taken out"},
 	{"td-cond?", "td_on or td_off not used (test conditions tsw_vgs, tsw_id, tsw_rg or tsw_rgen missing, or no RC gate takes that time under them): dead-time gate delays from the gate charge"},
 }
 
