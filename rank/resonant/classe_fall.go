@@ -36,6 +36,9 @@ type ClassETurnOffResult struct {
 	// reaches zero and reverse conduction starts, rad (ω·t); 0 when it
 	// does not.
 	DiodeAngle q.Ratio
+	// VTurnOn is the switch voltage when the channel turns on, V; 0 when
+	// it has reached zero first.
+	VTurnOn q.Voltage
 }
 
 // ClassETurnOff is the class E turn-off loss for a linear fall of the
@@ -60,6 +63,20 @@ type ClassETurnOffResult struct {
 // (TestNgspiceClassETurnOff). Circuit of Raab 1977 with the linear fall
 // of Kazimierczuk 2008; the steady-state method is this package's own.
 func ClassETurnOff(d ClassE, tf q.Time) (ClassETurnOffResult, error) {
+	return ClassETurnOffTimed(d, tf, math.Pi)
+}
+
+// ClassETurnOffTimed is ClassETurnOff for a switch whose channel turns
+// on again offAngle (rad, ω·t) after its current starts to fall, instead
+// of half a period: a gate that takes longer to turn the channel off
+// than on (its turn-off delay through the plateau above its turn-on delay
+// to the threshold) keeps the channel on for more than half the period,
+// so it may turn on before the switch voltage has returned to zero and
+// dump what the shunt holds, ½·C₁·v² (TurnOn, with VTurnOn). offAngle
+// lies in (ω·t_f, 2π); π is the design's 50 % duty. The circuit and the
+// steady-state method are those of ClassETurnOff; a zero t_f is taken as
+// a fall of 10⁻⁶ rad.
+func ClassETurnOffTimed(d ClassE, tf q.Time, offAngle float64) (ClassETurnOffResult, error) {
 	if err := nonNegative("current fall time tf", float64(tf)); err != nil {
 		return ClassETurnOffResult{}, err
 	}
@@ -78,8 +95,13 @@ func ClassETurnOff(d ClassE, tf q.Time) (ClassETurnOffResult, error) {
 		return ClassETurnOffResult{}, fmt.Errorf("class E turn-off: %w: ω·tf = %.3g rad exceeds %g (a fall of %s at %s takes too much of the period for the model)",
 			ErrSpec, e, MaxTurnOffAngle, tf, d.F)
 	}
-	if e == 0 {
+	if e == 0 && offAngle == math.Pi {
 		return ClassETurnOffResult{Po: d.Po, IOff: d.IOff}, nil
+	}
+	e = max(e, 1e-6)
+	if !(offAngle > e && offAngle < 2*math.Pi) {
+		return ClassETurnOffResult{}, fmt.Errorf("class E turn-off: %w: the channel's off interval %.3g rad lies outside (ω·tf, 2π) = (%.3g, %.3g)",
+			ErrSpec, offAngle, e, 2*math.Pi)
 	}
 	ql, fr := float64(c.QL), float64(c.FeedRatio)
 	if math.IsInf(ql, 1) || ql == 0 {
@@ -92,6 +114,7 @@ func ClassETurnOff(d ClassE, tf q.Time) (ClassETurnOffResult, error) {
 		return ClassETurnOffResult{}, fmt.Errorf("class E turn-off: %w: loaded Q %g not above X/R %g", ErrSpec, ql, float64(c.KX))
 	}
 	fc := newFallCircuit(newECircuit(ql, fr, float64(c.KC), float64(c.KX)), float64(c.KC), e)
+	fc.gate = offAngle
 	r, err := fc.solve()
 	if err != nil {
 		return ClassETurnOffResult{}, fmt.Errorf("class E turn-off with ω·tf = %.3g: %w", e, err)
@@ -103,7 +126,8 @@ func ClassETurnOff(d ClassE, tf q.Time) (ClassETurnOffResult, error) {
 		TurnOn:     q.Power(k * r.eHard / (2 * math.Pi)),
 		Po:         q.Power(k * r.po),
 		IOff:       q.Current(r.ioff * float64(d.VDD) / (float64(d.R) * r.vnorm)),
-		DiodeAngle: q.Ratio(math.Pi - r.thetaD),
+		DiodeAngle: q.Ratio(offAngle - r.thetaD),
+		VTurnOn:    q.Voltage(r.von * float64(d.VDD) / r.vnorm),
 	}, nil
 }
 
@@ -113,6 +137,7 @@ type fallCircuit struct {
 	base            eCircuit
 	b               float64 // ω·R·C₁
 	eps             float64 // ω·t_f
+	gate            float64 // angle of the channel's turn-on after the start of the fall (π: 50 % duty)
 	m               int     // augmented size
 	sIS, sG, one    int
 	on, off, fall   *mat.Dense
@@ -121,7 +146,7 @@ type fallCircuit struct {
 }
 
 func newFallCircuit(c eCircuit, b, eps float64) *fallCircuit {
-	f := &fallCircuit{base: c, b: b, eps: eps, m: c.n + 2}
+	f := &fallCircuit{base: c, b: b, eps: eps, m: c.n + 2, gate: math.Pi}
 	f.sIS, f.sG, f.one = c.n-1, c.n, c.n+1
 	old := c.n - 1 // constant index in the base circuit
 	widen := func(a *mat.Dense) *mat.Dense {
@@ -175,8 +200,9 @@ func identity(n int) *mat.Dense {
 
 // fallResult is a normalised steady state with the fall.
 type fallResult struct {
-	thetaD       float64 // angle from the start of the fall at which the on state begins (≤ π)
+	thetaD       float64 // angle from the start of the fall at which the on state begins (≤ the gate's)
 	eFall, eHard float64 // energies per period (normalised)
+	von          float64 // switch voltage at the channel's turn-on (normalised); 0 when it reached zero first
 	po, vnorm    float64 // output power and supply voltage (normalised)
 	ioff         float64 // node current at the start of the fall
 }
@@ -212,8 +238,8 @@ func mulVec(a *mat.Dense, x []float64) []float64 {
 }
 
 // solve finds the steady state: the on state starts at the gate turn-on
-// (θ = π from the start of the fall) unless the switch voltage reaches
-// zero earlier.
+// (θ = f.gate from the start of the fall) unless the switch voltage
+// reaches zero earlier.
 func (f *fallCircuit) solve() (fallResult, error) {
 	h := func(th float64) (float64, error) {
 		_, zd, err := f.cycle(th)
@@ -222,16 +248,16 @@ func (f *fallCircuit) solve() (fallResult, error) {
 		}
 		return zd[sV1], nil
 	}
-	thetaD := math.Pi
-	hp, err := h(math.Pi)
+	thetaD := f.gate
+	hp, err := h(f.gate)
 	if err != nil {
 		return fallResult{}, err
 	}
 	if hp < 0 {
 		// The voltage crossed zero before the gate turn-on: find where.
-		lo, hlo := math.Pi, hp
+		lo, hlo := f.gate, hp
 		for d := math.Sqrt(f.eps) / 4; ; d *= 2 {
-			lo = math.Pi - d
+			lo = f.gate - d
 			if lo <= f.eps {
 				return fallResult{}, fmt.Errorf("switch voltage stays at or below zero after the fall")
 			}
@@ -249,7 +275,7 @@ func (f *fallCircuit) solve() (fallResult, error) {
 				bad = err
 			}
 			return v
-		}, lo, math.Pi, hlo, hp, 1e-12)
+		}, lo, f.gate, hlo, hp, 1e-12)
 		if bad != nil {
 			return fallResult{}, bad
 		}
@@ -274,7 +300,8 @@ func (f *fallCircuit) solve() (fallResult, error) {
 		}
 	}
 	res.eFall = simpson(vals, f.eps/fallSteps, func(v float64) float64 { return v })
-	if thetaD == math.Pi && zd[sV1] > 0 {
+	if thetaD == f.gate && zd[sV1] > 0 {
+		res.von = zd[sV1]
 		res.eHard = f.b * zd[sV1] * zd[sV1] / 2
 	}
 	// Supply power and voltage over the period from the integral states.

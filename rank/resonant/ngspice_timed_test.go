@@ -1,0 +1,75 @@
+package resonant
+
+import (
+	"fmt"
+	"math"
+	"testing"
+
+	q "swrank/devices/quantity"
+)
+
+// TestNgspiceClassETurnOffTimed: the class E of TestNgspiceClassETurnOff
+// with a channel that turns on again before half a period has passed
+// since its current started to fall (a gate slower to turn off than on),
+// so the switch voltage has not returned to zero and the shunt capacitor
+// is dumped through the channel. ngspice (the Debian package, a
+// behavioural switch of 1 mΩ with a linear fall) must show the voltage at
+// turn-on, the energy dumped, the turn-off loss and the output power that
+// ClassETurnOffTimed's steady state predicts.
+func TestNgspiceClassETurnOffTimed(t *testing.T) {
+	d, err := DesignClassE(ClassESpec{VDD: 12, F: 6.78e6, Po: 10, QL: 20})
+	if err != nil {
+		t.Fatal(err)
+	}
+	const (
+		eps   = 0.1
+		early = 0.3 // rad: the channel turns on this much before half a period after the fall starts
+	)
+	w := 2 * math.Pi * float64(d.F)
+	tf, ton := eps/w, (math.Pi-early)/w
+	r, err := ClassETurnOffTimed(d, q.Time(tf), math.Pi-early)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(r.VTurnOn > 0) || !(r.TurnOn > 0) {
+		t.Fatalf("an early turn-on with the voltage not back at zero: %+v", r)
+	}
+	T := 1 / float64(d.F)
+	const cycles = 80
+	n := float64(cycles)
+	idc := float64(r.Po+r.TurnOff+r.TurnOn) / float64(d.VDD)
+	on := T/2 + ton // the channel's turn-on, in each period
+	netlist := fmt.Sprintf(`* class E with an early turn-on
+I1 0 d DC %.10g
+Vsw d s 0
+B1 s 0 I = min(V(s)/1m, V(lim))
+Vlim lim 0 PWL(0 100 %.10g 100 %.10g %.10g %.10g 0 %.10g 0 %.10g 100 %.10g 100 r=0)
+Bp p 0 V = V(d)*I(Vsw)
+C1 d 0 %.10g
+L1 d a %.10g
+C2 a b %.10g
+Vs b c 0
+R1 c 0 %.10g
+.options method=gear reltol=1e-6 abstol=1e-12 vntol=1e-9
+.tran %.10g %.10g %.10g %.10g uic
+.meas tran eoff INTEG v(p) FROM=%.10g TO=%.10g
+.meas tran eon INTEG v(p) FROM=%.10g TO=%.10g
+.meas tran von FIND v(d) AT=%.10g
+.meas tran irms RMS i(Vs) FROM=%.10g TO=%.10g
+.meas tran vavg AVG v(d) FROM=%.10g TO=%.10g
+.end
+`, idc, T/2-1e-12, T/2, float64(r.IOff), T/2+tf, on-1e-12, on, T,
+		float64(d.C1), float64(d.L), float64(d.C2), float64(d.R),
+		T/4000, n*T, (n-2)*T, T/4000,
+		(n-1.5)*T, (n-1.5)*T+2*tf, (n-2)*T+on-1e-11, (n-2)*T+on+T/50, (n-2)*T+on-2e-12,
+		(n-1)*T, n*T, (n-1)*T, n*T)
+	m := runNgspice(t, netlist, "eoff", "eon", "von", "irms", "vavg")
+	const src = "ngspice 39 transient, behavioural switch with a linear fall and an early turn-on"
+	check(t, "voltage at turn-on", m["von"], float64(r.VTurnOn), 0.01, src)
+	check(t, "turn-on loss", m["eon"]*float64(d.F), float64(r.TurnOn), 0.03, src)
+	check(t, "turn-off loss", m["eoff"]*float64(d.F), float64(r.TurnOff), 0.03, src)
+	check(t, "output power", m["irms"]*m["irms"]*float64(d.R), float64(r.Po), 0.01, src)
+	check(t, "mean switch voltage", m["vavg"], float64(d.VDD), 0.01, src)
+	t.Logf("early %.2f rad: V at turn-on %.4g V (model %.4g), P_on %.4g W (model %.4g), P_off %.4g W (model %.4g)",
+		early, m["von"], float64(r.VTurnOn), m["eon"]*float64(d.F), float64(r.TurnOn), m["eoff"]*float64(d.F), float64(r.TurnOff))
+}
