@@ -24,8 +24,12 @@ type RFResult struct {
 	// follows from it and the tank's inductance).
 	XExcess q.Resistance
 	Tf      q.Time // current fall time at turn-off, s
-	// Class D: the turn-on edge.
-	ZVS       bool      // full zero-voltage turn-on
+	// OnShare is the share of the period the class E switch's channel
+	// conducts, from its turn-on to the end of its current fall, with the
+	// gate's delays (about 0.5: the design's duty).
+	OnShare q.Ratio
+	// Class D (and class E): the turn-on edge.
+	ZVS       bool      // class D: full zero-voltage turn-on
 	VResidual q.Voltage // voltage left across the switch at its turn-on, V
 	Diode     bool      // the partner's body diode is recovered at turn-on (below resonance)
 	// Efficiencies as fractions: the power stage alone, and with the gate
@@ -50,6 +54,31 @@ func fallTime(d *fit.Device, drv *stage.Driver, i q.Current) q.Time {
 		return loss.ScaleSwitchingTime(d.Part.Tf.V, 0, r, 0, vpl-drv.VOff)
 	}
 	return loss.ScaleSwitchingTime(d.Part.Tf.V, d.TswR, r, d.TswHead[1], vpl-drv.VOff)
+}
+
+// eTiming is a class E switch's gate timing: the delays from the drive's
+// edges to the channel's turn-on and to the start of its current fall, and
+// the channel's off interval, rad.
+type eTiming struct {
+	delayOn, delayOff q.Time
+	offAngle          float64
+}
+
+// classETiming times a class E switch from its gate circuit, with the
+// helpers that time a synchronous cell's dead times (deadtime.go): the
+// channel turns on when the gate reaches its threshold, onDelay after the
+// drive's rising edge (the drain at zero: no plateau), and its current
+// starts to fall when the gate has fallen to the plateau at the current
+// it carries, turnOffTimes' delay after the drive's falling edge. With the
+// drive's 50 % duty, the channel is off for π − ω·(t_d,off − t_d,on).
+//
+// Source: the RC gate delays (Balogh 2001) in the class E timing of
+// Sokal & Sokal 1975 (the switch's on interval sets the waveform).
+func classETiming(d *fit.Device, drv *stage.Driver, iOff q.Current, f q.Frequency) eTiming {
+	on := onDelay(d, drv, d.Vth)
+	off := turnOffTimes(d, drv, 0, iOff).delay
+	w := 2 * math.Pi * float64(f)
+	return eTiming{delayOn: on, delayOff: off, offAngle: math.Pi - w*float64(off-on)}
 }
 
 // softGate fills the gate-drive losses of a switch whose edges are
@@ -137,16 +166,26 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		out.Screens |= ScreenShuntTooSmall
 	}
 	rf.Tf = fallTime(d, &s.Driver, e.IOff)
-	to, err := resonant.ClassETurnOff(*e, rf.Tf)
+	tm := classETiming(d, &s.Driver, e.IOff, s.Fsw)
+	rf.OnShare = q.Ratio(1 - tm.offAngle/(2*math.Pi) + float64(rf.Tf)*f)
+	to, err := resonant.ClassETurnOffTimed(*e, rf.Tf, tm.offAngle)
 	if err != nil {
-		// Beyond the model's range (ω·t_f above MaxTurnOffAngle): too slow
-		// to hold class E; count the small-t_f estimate and screen.
+		// Beyond the model's range (ω·t_f above MaxTurnOffAngle, or the
+		// gate's delays leave the channel no off interval): too slow to
+		// hold class E; count the small-t_f estimate and screen.
 		out.Screens |= ScreenTooSlow
 		p, _ := resonant.ClassETurnOffSmall(*e, rf.Tf)
 		to.TurnOff = p
 	}
 	out.Losses.TurnOff = to.TurnOff
-	out.Losses.TurnOn = to.TurnOn
+	// A turn-on before the switch voltage is back at zero dumps what the
+	// shunt holds through the channel: the part's own output energy and
+	// the external capacitor's (the steady state's linear shunt sets the
+	// voltage).
+	rf.VResidual = to.VTurnOn
+	if v := to.VTurnOn; v > 0 {
+		out.Losses.TurnOn = q.Power((0.5*float64(sh.CExternal)*float64(v)*float64(v) + float64(d.Oss.E(v))) * f)
+	}
 	out.Eoff = q.Energy(float64(to.TurnOff) / f)
 	if h, err := resonant.HysteresisLoss(hysteresis(out, d, sh.VPeak), sh.VPeak, s.Fsw); err == nil && h > 0 {
 		out.Losses.Coss = h
@@ -163,8 +202,10 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 			T("I peak", e.IPeak), T("I at turn-off", e.IOff), T("V peak (linear shunt)", e.VPeak), T("C1 required", e.C1))
 		tr.add("control", "shunt", "device share of C1: Q_oss(V_peak)/V_peak with the part's own law; external capacitor = what is left",
 			T("V peak", sh.VPeak), T("C device", sh.CDevice), T("C external", sh.CExternal), T("excess reactance", sh.X), T("f max", sh.FMax))
-		tr.add("control", "turn-off", "linear current fall in t_f inside the periodic steady state (≈ (ω·t_f)²/12·P_o)",
-			T("t_f", rf.Tf), T("P turn-off", out.Losses.TurnOff), T("P turn-on", out.Losses.TurnOn))
+		tr.add("control", "switch timing", "the channel turns on at the gate's delay to its threshold after the drive's rise and its current starts to fall at the delay to the plateau after the drive's fall: off for π − ω·(t_d,off − t_d,on) of each period",
+			T("turn-on delay to Vth", tm.delayOn), T("turn-off delay to the plateau", tm.delayOff), N("channel on (share of the period)", float64(rf.OnShare)))
+		tr.add("control", "turn-off and turn-on", "linear current fall in t_f inside the periodic steady state at the channel's real off interval (≈ (ω·t_f)²/12·P_o at 50 %); a turn-on before the voltage is back at zero dumps the shunt: E = ½·C_ext·v² + E_oss(v)",
+			T("t_f", rf.Tf), T("P turn-off", out.Losses.TurnOff), T("V at turn-on", rf.VResidual), T("P turn-on", out.Losses.TurnOn))
 		note := "no eoss_loss column: output-capacitance hysteresis not counted"
 		if rf.Hysteresis {
 			note = "eoss_loss scaled as (V/V_stated)^1.5"

@@ -208,6 +208,8 @@ func rfRecord(rec *Record, rf *evaluate.RFResult) {
 		rec.Set("shunt_to_add_f", Num(float64(rf.CExternal)))
 		rec.Set("f_limit_hz", Num(float64(rf.FMax)))
 		rec.Set("excess_reactance_ohm", Num(float64(rf.XExcess)))
+		rec.Set("residual_v", Num(float64(rf.VResidual)))
+		rec.Set("on_share_pct", Num(100*float64(rf.OnShare)))
 	} else {
 		rec.Set("soft_on", Bool(rf.ZVS))
 		rec.Set("residual_v", Num(float64(rf.VResidual)))
@@ -230,7 +232,7 @@ func columnsFor(pt *stage.Point, partner bool) (compact, wide []string) {
 	switch pt.Stage.Topology {
 	case stage.ClassE:
 		rf = []string{"peak_v", "shunt_to_add_f"}
-		wide = append(wide, "peak_v", "shunt_needed_f", "shunt_to_add_f", "f_limit_hz", "eff_with_driver_pct")
+		wide = append(wide, "peak_v", "shunt_needed_f", "shunt_to_add_f", "f_limit_hz", "on_share_pct", "residual_v", "eff_with_driver_pct")
 	case stage.ClassD:
 		rf = []string{"soft_on"}
 		wide = append(wide, "soft_on", "residual_v", "eff_with_driver_pct")

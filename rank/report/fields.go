@@ -113,7 +113,8 @@ var fields = []Field{
 	{"excess_reactance_ohm", "excess X", "Ω", KindNumber, "", "class E: excess reactance of the series tank"},
 	{"fall_time_s", "fall time", "s", KindNumber, "", "class E and D: current fall time at turn-off"},
 	{"soft_on", "soft turn-on", "", KindBool, "", "class D: the node swings fully before turn-on (zero-voltage switching)"},
-	{"residual_v", "left at turn-on", "V", KindNumber, "", "class D: voltage left across the switch at turn-on"},
+	{"residual_v", "V at on", "V", KindNumber, "", "class E and D: voltage left across the switch when its channel turns on"},
+	{"on_share_pct", "on %", "%", KindNumber, "", "class E: share of the period the channel conducts, from its gate's delays (50: the design's duty)"},
 	{"eff_with_driver_pct", "eff +drv %", "%", KindNumber, "", "class E and D: efficiency counting the driver's loss too"},
 	// Compare.
 	{"total_delta_w", "Δ total", "W", KindNumber, "", "compare: total_w of the candidate minus the fitted part's"},

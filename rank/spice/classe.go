@@ -36,16 +36,21 @@ func SeriesCapacitor(f, l, x float64) float64 {
 // ClassEMeasured is what the simulation of a class E stage shows over its
 // last RF period (SI units).
 type ClassEMeasured struct {
-	VPeak   float64 // peak drain voltage, V
-	VMean   float64 // mean drain voltage, V (V_DD in steady state: the choke carries no DC voltage)
-	VOn     float64 // drain voltage at the gate's turn-on edge, V (≈ 0 at zero-voltage switching)
-	VMin    float64 // lowest drain voltage, V (below 0: the body diode conducts)
-	Po      float64 // output power, mean of i²·R in the load, W
-	PSupply float64 // power drawn from the supply, W
-	PSwitch float64 // power into the transistor's terminals (drain and gate), W
-	PDrv    float64 // power in the driver's output resistance and the external gate resistor, W
-	PoPrev  float64 // output power over the period before, W (a steady-state check)
-	IDC     float64 // mean supply current, A
+	VPeak float64 // peak drain voltage, V
+	VMean float64 // mean drain voltage, V (V_DD in steady state: the choke carries no DC voltage)
+	VOn   float64 // drain voltage at the gate's turn-on edge, V (≈ 0 at zero-voltage switching)
+	// VChannelOn is the drain voltage when the channel starts to conduct
+	// after the gate's edge (its current past 2 % of its peak), V, and
+	// OnShare the share of the period the channel conducts (the same
+	// threshold).
+	VChannelOn, OnShare float64
+	VMin                float64 // lowest drain voltage, V (below 0: the body diode conducts)
+	Po                  float64 // output power, mean of i²·R in the load, W
+	PSupply             float64 // power drawn from the supply, W
+	PSwitch             float64 // power into the transistor's terminals (drain and gate), W
+	PDrv                float64 // power in the driver's output resistance and the external gate resistor, W
+	PoPrev              float64 // output power over the period before, W (a steady-state check)
+	IDC                 float64 // mean supply current, A
 }
 
 // classEDeck is the netlist: the supply through the feed choke into the
@@ -71,9 +76,9 @@ func classEDeck(m *Model, x *ClassEParts) string {
 	fmt.Fprintf(&b, "vdrv p 0 pulse(0 %s 0 %s %s %s %s)\n", num(x.VOn), num(edge), num(edge), num(T/2-edge), num(T))
 	fmt.Fprintf(&b, "bdrv p gx i = (v(p)-v(gx))/(v(p) > %s ? %s : %s)\n", num(x.VOn/2), num(x.RSource), num(x.RSink))
 	fmt.Fprintf(&b, "rgx gx g2 %s\nvmg g2 g 0\n", num(x.RgExt))
-	fmt.Fprintf(&b, ".control\n%ssave v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd)\n", deckPrologue)
+	fmt.Fprintf(&b, ".control\n%ssave v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd) @m1[id]\n", deckPrologue)
 	fmt.Fprintf(&b, "tran %s %s %s %s uic\n", num(T/1e3), num(n*T), num((n-2)*T), num(x.StepLimit))
-	b.WriteString("wrdata ce.dat v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd)\nquit 0\n.endc\n.end\n")
+	b.WriteString("wrdata ce.dat v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd) @m1[id]\nquit 0\n.endc\n.end\n")
 	return b.String()
 }
 
@@ -103,16 +108,16 @@ func SimulateClassE(ctx context.Context, r *Runner, m *Model, x *ClassEParts) (*
 }
 
 func measureClassE(tab *Table, x *ClassEParts) (*ClassEMeasured, error) {
-	cols, err := tab.Columns("v(d)", "v(g)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "i(vl)", "i(vdd)")
+	cols, err := tab.Columns("v(d)", "v(g)", "v(gx)", "v(p)", "i(vmd)", "i(vmg)", "i(vl)", "i(vdd)", "@m1[id]")
 	if err != nil {
 		return nil, err
 	}
 	tm := tab.Cols[0]
-	vd, vg, vgx, vp, id, ig, il, isup := cols[0], cols[1], cols[2], cols[3], cols[4], cols[5], cols[6], cols[7]
+	vd, vg, vgx, vp, id, ig, il, isup, ich := cols[0], cols[1], cols[2], cols[3], cols[4], cols[5], cols[6], cols[7], cols[8]
 	T := 1 / x.F
 	n := float64(x.Cycles)
 	t0, t1 := (n-1)*T, n*T
-	if len(tm) < 100 || tm[0] > (n-2)*T+T/100 || tm[len(tm)-1] < t1*(1-1e-9) {
+	if len(tm) < 100 || tm[0] > (n-2)*T+T/100 || tm[len(tm)-1] < t1-T/1e4 {
 		return nil, fmt.Errorf("simulation output does not cover the last two periods (%d points from %.6g s to %.6g s)",
 			len(tm), tm[0], tm[len(tm)-1])
 	}
@@ -140,6 +145,26 @@ func measureClassE(tab *Table, x *ClassEParts) (*ClassEMeasured, error) {
 		}
 	}
 	m.VOn = vd[len(vd)-1]
+	// The channel's conduction in the last period: its current past 2 %
+	// of its peak; the drain voltage where it first gets there.
+	var ipk float64
+	for k := range tm {
+		if tm[k] >= t0 {
+			ipk = max(ipk, ich[k])
+		}
+	}
+	m.VChannelOn = math.NaN()
+	for k := 1; k < len(tm); k++ {
+		if tm[k] <= t0 {
+			continue
+		}
+		if ich[k] > 0.02*ipk {
+			m.OnShare += (tm[k] - tm[k-1]) / T
+			if math.IsNaN(m.VChannelOn) {
+				m.VChannelOn = vd[k]
+			}
+		}
+	}
 	m.VMean = mean(t0, t1, func(k int) float64 { return vd[k] })
 	po := func(k int) float64 { return il[k] * il[k] * x.R }
 	m.Po = mean(t0, t1, po)

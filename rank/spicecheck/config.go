@@ -72,6 +72,15 @@ type ClassECase struct {
 	// enough to stand for the design's RF choke.
 	FeedRatio float64 `toml:"feed_ratio"`
 	Cycles    int     `toml:"cycles"` // RF periods simulated; the last is measured; ≥ 20
+	// Timed marks a case whose gate delays are a large share of the
+	// period: the switch need not turn on at zero voltage, and the test
+	// compares swrank's voltage at turn-on and conducting share instead.
+	Timed bool `toml:"timed"`
+	// Gap names what the models do not yet resolve at this case; its loss
+	// and its voltage at turn-on are then held to the wider limits of
+	// a known gap (classETolGap, classETolGapVOn) and the gap is
+	// reported. Empty: the usual limits.
+	Gap string `toml:"gap"`
 }
 
 // LoadConfig reads and checks a TOML file of devices and points.
