@@ -223,13 +223,27 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 
 func evalClassD(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	s := &pt.Stage
-	cd := &pt.RF.D
 	f := float64(s.Fsw)
 	rf := &r.RF
+	// The node swings while both channels are off: the programmed dead
+	// time, less the outgoing gate's fall to the plateau at the edge
+	// current, plus the incoming gate's rise to its threshold (the
+	// half-bridge's timing helpers). A swing interval below zero is
+	// cross-conduction.
+	iEdge := q.Current(math.Abs(float64(pt.RF.D.ISwitch)))
+	dOff := turnOffTimes(d, &s.Driver, 0, iEdge).delay
+	dOn := onDelay(d, &s.Driver, d.Vth)
+	swing := pt.RF.D.DeadTime + dOn - dOff
+	cdv := pt.RF.D.WithDeadTime(swing)
+	cd := &cdv
 	edge, err := resonant.ClassDTurnOn(*cd, d.Oss.Q, d.Oss.Q)
 	for k, role := range []Role{RoleControl, RoleSync} {
 		out := &r.Devices[k]
 		*out = DeviceResult{Dev: d, Role: role, Method: d.Method, Flags: d.Flags, Stress: pt.Ctrl}
+		out.Margin1, out.Margin2 = swing, swing
+		if swing < 0 {
+			out.Screens |= ScreenCrossConduction
+		}
 		if err != nil {
 			out.Screens |= ScreenNoOutputCap
 			continue
@@ -277,6 +291,8 @@ func evalClassD(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	}
 	rf.EffStage, rf.EffWithDriver, _ = resonant.Efficiency(s.Pout, sw, dr)
 	if tr != nil {
+		tr.add("", "dead time the node sees", "t_swing = t_dt + t_d,on(incoming, to Vth) − t_d,off(outgoing, to the plateau at the edge current); below 0 both channels conduct",
+			T("dead time", pt.RF.D.DeadTime), T("turn-on delay", dOn), T("turn-off delay", dOff), T("node swings for", swing))
 		tr.add("", "class D tank", "series-resonant load, fundamental approximation (Kazimierczuk & Czarkowski 2011, ch. 2)",
 			T("V in", s.Vin), T("R load", cd.R), T("P out", cd.Po), N("phase (rad)", float64(cd.Phase)), T("I m", cd.Im),
 			T("I at the edges", cd.ISwitch), T("Q movable in dead time", cd.QDead))

@@ -185,3 +185,41 @@ func TestClassDHardSwitchedByHand(t *testing.T) {
 		t.Errorf("above resonance: ZVS %v, turn-on %v", z.RF.ZVS, z.Devices[0].Losses.Coss)
 	}
 }
+
+// Class D: the node swings while both channels are off, the programmed
+// dead time less the outgoing gate's fall to its plateau plus the incoming
+// gate's rise to its threshold (Kazimierczuk & Czarkowski, Resonant Power
+// Converters, 2nd ed., 2011, ch. 2, with the RC gate delays of Balogh
+// 2001). By hand for the hand-worked part (5 V drive, 2 Ω source, 1 Ω
+// sink, 1 Ω internal): the rise to 1.8 V through 3 Ω and Qth/Vth =
+// 0.556 nF takes 3·0.556n·ln(5/3.2) = 0.744 ns; the fall to the plateau
+// 1.8 + 0.7·√(I/10 A) at the edge current I through 2 Ω and the curve's
+// 1.6 nF above it takes 2·1.6n·ln(5/V_pl). A 1 ns dead time is then
+// cross-conduction; 100 ns is not.
+func TestClassDSwingInterval(t *testing.T) {
+	p := testkit.HandCasePart()
+	p.Crss = q.Some[q.Capacitance](50e-12)
+	d, err := fit.Prepare(&p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		dead  float64
+		cross bool
+	}{{1e-9, true}, {100e-9, false}} {
+		st := stage.Stage{Topology: stage.ClassD, Vin: 24, Pout: 20, Fsw: 1e6, Phase: q.Some[q.Ratio](0.6),
+			DeadTime: q.Some[q.Time](q.Time(c.dead)), Driver: stage.Driver{VOn: 5, RSource: 2, RSink: 1}, TjFixed: q.Some[q.Temperature](25)}
+		pt, err := st.Resolve()
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := Evaluate(&pt, &d, nil, nil)
+		i := math.Abs(float64(pt.RF.D.ISwitch))
+		on := 3 * 1e-9 / 1.8 * math.Log(5/3.2)
+		off := 2 * 1.6e-9 * math.Log(5/(1.8+0.7*math.Sqrt(i/10)))
+		testkit.Near(t, "node swings for", float64(r.Devices[0].Margin1), c.dead+on-off, 1e-6)
+		if got := r.Screens&ScreenCrossConduction != 0; got != c.cross {
+			t.Errorf("dead time %g s: cross-conduction %v, want %v", c.dead, got, c.cross)
+		}
+	}
+}

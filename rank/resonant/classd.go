@@ -131,16 +131,28 @@ func ClassDOperatingPoint(s ClassDSpec) (ClassD, error) {
 		d.L = q.Inductance(float64(s.QL) * float64(d.R) / w0)
 		d.C = q.Capacitance(1 / (float64(s.QL) * float64(d.R) * w0))
 	}
+	return d.WithDeadTime(s.DeadTime), nil
+}
+
+// WithDeadTime returns the operating point with the node's swing interval
+// t (s, ≥ 0) in place of its dead time: the charge the tank current moves
+// in it, (I_m/ω)·(cos(ψ − ωt) − cos ψ) when inductive, and whether the
+// current reverses within it. A switch pair whose gates lengthen or
+// shorten the programmed dead time (the incoming channel's turn-on delay
+// less the outgoing one's turn-off delay) sees this interval instead
+// (Kazimierczuk & Czarkowski, Resonant Power Converters, 2nd ed., 2011,
+// ch. 2: the node swings while both channels are off).
+func (d ClassD) WithDeadTime(t q.Time) ClassD {
+	d.DeadTime, d.QDead, d.CurrentReverses = max(t, 0), 0, false
+	psi := float64(d.Phase)
 	if psi > 0 {
-		w := 2 * math.Pi * float64(s.Fsw)
-		wtd := w * float64(s.DeadTime)
+		w := 2 * math.Pi * float64(d.Fsw)
+		wtd := w * float64(d.DeadTime)
 		d.CurrentReverses = wtd > psi
-		d.QDead = q.Charge(im / w * (math.Cos(psi-wtd) - math.Cos(psi)))
-		if d.QDead < 0 {
-			d.QDead = 0
-		}
+		im := float64(d.Im)
+		d.QDead = q.Charge(max(im/w*(math.Cos(psi-wtd)-math.Cos(psi)), 0))
 	}
-	return d, nil
+	return d
 }
 
 // ClassDEdge is the outcome of one switch turn-on (the same at both edges
