@@ -3,10 +3,7 @@ package spicecheck
 import (
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
-
-	"github.com/BurntSushi/toml"
 
 	q "swrank/devices/quantity"
 	"swrank/rank/spice"
@@ -114,17 +111,9 @@ func (p *BridgePoint) check() error {
 // LoadBridgeConfig reads the half-bridge configuration and builds both
 // device sets.
 func LoadBridgeConfig(path string) (*BridgeConfig, error) {
-	b, err := os.ReadFile(path)
-	if err != nil {
-		return nil, err
-	}
 	var c BridgeConfig
-	md, err := toml.Decode(string(b), &c)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	if und := md.Undecoded(); len(und) > 0 {
-		return nil, fmt.Errorf("%s: unknown keys %v", path, und)
+	if err := decodeFile(path, &c); err != nil {
+		return nil, err
 	}
 	if !(c.TtPerVolt > 0) {
 		return nil, fmt.Errorf("%s: tt_per_volt must be > 0 (got %g)", path, c.TtPerVolt)

@@ -83,19 +83,28 @@ type ClassECase struct {
 	Gap string `toml:"gap"`
 }
 
-// LoadConfig reads and checks a TOML file of devices and points.
-func LoadConfig(path string) (*Config, error) {
+// decodeFile decodes the TOML file at path into v; a key v has no place
+// for is an error.
+func decodeFile(path string, v any) error {
 	b, err := os.ReadFile(path)
 	if err != nil {
-		return nil, err
+		return err
 	}
-	var c Config
-	md, err := toml.Decode(string(b), &c)
+	md, err := toml.Decode(string(b), v)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
+		return fmt.Errorf("%s: %w", path, err)
 	}
 	if und := md.Undecoded(); len(und) > 0 {
-		return nil, fmt.Errorf("%s: unknown keys %v", path, und)
+		return fmt.Errorf("%s: unknown keys %v", path, und)
+	}
+	return nil
+}
+
+// LoadConfig reads and checks a TOML file of devices and points.
+func LoadConfig(path string) (*Config, error) {
+	var c Config
+	if err := decodeFile(path, &c); err != nil {
+		return nil, err
 	}
 	seen := map[string]bool{}
 	for i := range c.Devices {
