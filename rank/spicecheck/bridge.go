@@ -49,7 +49,7 @@ type BridgeRow struct {
 	// SimShoot is the simulated shoot-through power: the synchronous
 	// channel's forward conduction (BridgeWave.ShootEnergy) times f, W.
 	SimShoot  float64
-	Sim, Sim0 *spice.BenchResult // the simulation, and the one without stored charge
+	Bench, Bench0 *spice.BenchResult // the simulation, and the one without stored charge
 }
 
 // BridgeSuite is one device set run through the half-bridge points.
@@ -152,10 +152,10 @@ func (row *BridgeRow) run(ctx context.Context, r *spice.Runner, p *BridgePoint, 
 		return err
 	}
 	b0.Ctrl, b0.Sync = d0, d0
-	if row.Sim, err = spice.Simulate(ctx, r, b, spice.SimOptions{}); err != nil {
+	if row.Bench, err = spice.Simulate(ctx, r, b, spice.SimOptions{}); err != nil {
 		return fmt.Errorf("%s at %s: %w", part.Name, p.Name, err)
 	}
-	if row.Sim0, err = spice.Simulate(ctx, r, &b0, spice.SimOptions{}); err != nil {
+	if row.Bench0, err = spice.Simulate(ctx, r, &b0, spice.SimOptions{}); err != nil {
 		return fmt.Errorf("%s at %s without stored charge: %w", part.Name, p.Name, err)
 	}
 	row.fill(&res, p.Fsw)
@@ -178,12 +178,12 @@ func (row *BridgeRow) fill(res *evaluate.Result, fsw float64) {
 		BridgeSyncCond:  float64(sy.Losses.Conduction),
 		BridgeGate:      float64(l.GateRint + l.GateRext + l.GateDriver),
 	}
-	s, s0 := row.Sim, row.Sim0
+	s, s0 := row.Bench, row.Bench0
 	var drive float64
 	for _, x := range s.Places {
 		drive += x.Drive
 	}
-	row.Row.Sim = map[string]float64{
+	row.Sim = map[string]float64{
 		CompTotal:       s.Total(),
 		BridgeDiode:     s0.Places[1].Off,
 		BridgeRecovery:  s.Total() - s0.Total(),

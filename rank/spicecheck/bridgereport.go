@@ -117,10 +117,10 @@ func (r *BridgeRow) screenVerdict() (wrong, thin []string) {
 	at := r.Device + " @ " + r.Point
 	cc := r.Screens&evaluate.ScreenCrossConduction != 0
 	fto := r.Screens&evaluate.ScreenFalseTurnOn != 0
-	shoot := r.SimShoot > 0.01*r.Row.Sim[CompTotal]
+	shoot := r.SimShoot > 0.01*r.Sim[CompTotal]
 	lifted := r.SimGate >= r.Vth
 	wave := fmt.Sprintf("shoot-through %s (%s of the stage), off gate peak %.2f V against Vth %.2f V",
-		watts(r.SimShoot), pct(r.SimShoot/r.Row.Sim[CompTotal]), r.SimGate, r.Vth)
+		watts(r.SimShoot), pct(r.SimShoot/r.Sim[CompTotal]), r.SimGate, r.Vth)
 	switch {
 	case cc && !fto && !shoot, fto && !cc && !shoot && !lifted, cc && fto && !shoot && !lifted:
 		return []string{fmt.Sprintf("%s: set aside for %s (margins %.1f, %.1f ns; off gate %.2f V predicted), the waveform switches cleanly: %s",
@@ -165,9 +165,9 @@ func (s *BridgeSuite) Table() string {
 		"device", "point", "pred W", "sim W", "err")
 	for _, r := range s.Rows {
 		fmt.Fprintf(&b, "%-16s %-18s %9.4f %9.4f %7s | %5.1f/%5.1f; %5.1f/%5.1f | %6.1f/%6.1f | %6.1f/%6.1f | %5.2f/%5.2f/%5.2f | %6.1f | %s\n",
-			r.Device, r.Point, r.Pred[CompTotal], r.Row.Sim[CompTotal], pct(r.Err(CompTotal)),
+			r.Device, r.Point, r.Pred[CompTotal], r.Sim[CompTotal], pct(r.Err(CompTotal)),
 			r.PredDiode[0]*1e9, r.SimDiode[0]*1e9, r.PredDiode[1]*1e9, r.SimDiode[1]*1e9,
-			r.Pred[BridgeRecovery]*1e3, r.Row.Sim[BridgeRecovery]*1e3, r.Pred[BridgeSwitching]*1e3, r.Row.Sim[BridgeSwitching]*1e3,
+			r.Pred[BridgeRecovery]*1e3, r.Sim[BridgeRecovery]*1e3, r.Pred[BridgeSwitching]*1e3, r.Sim[BridgeSwitching]*1e3,
 			r.PredGate, r.SimGate, r.Vth, r.SimShoot*1e3, r.ScreenNote)
 	}
 	return b.String()
