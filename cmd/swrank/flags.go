@@ -163,6 +163,7 @@ func registerStage(fs *flag.FlagSet, s *stage.Stage) {
 	fs.Var(qty[q.Frequency]{&s.F0}, "f0", "class D: resonant frequency of the tank, `Hz` (with --ql)")
 	fs.Var(opt[q.Ratio]{&s.Phase}, "phase", "class D: load phase at fsw, `RAD` (> 0 above resonance; instead of --f0 and --ql)")
 	fs.Var(qty[q.Inductance]{&s.LoopInductance}, "l-loop", "layout power-loop inductance added to the parts' own l_loop, `H` (default 0)")
+	fs.Var(qty[q.Inductance]{&s.CommonSourceInductance}, "l-cs", "layout common-source inductance (source trace shared by the gate and power loops) added to the parts' own l_cs, `H` (default 0)")
 	fs.Var(qty[q.Voltage]{&s.Driver.VOn}, "vdrive", "gate drive on level, `V` (required)")
 	fs.Var(qty[q.Voltage]{&s.Driver.VOff}, "vdrive-off", "gate drive off level, `V`; negative for bipolar drive (default 0)")
 	fs.Var(qty[q.Resistance]{&s.Driver.RSource}, "rsrc", "driver source (pull-up) resistance, `OHM` (default "+short(stage.DefaultRSource)+")")

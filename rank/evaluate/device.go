@@ -98,17 +98,18 @@ func (m *devModel) driverLimits(out *DeviceResult, vplPk q.Voltage) {
 	}
 }
 
-// parasitics sets the inductances of the hard edges: the package's
-// common-source inductance (the tr/tf method's measured times already
-// contain it) and the power loop of layout and packages.
+// parasitics sets the inductances of the hard edges: the common-source
+// inductance of package and layout (the tr/tf method's measured times
+// already contain the package's; the layout's is not counted there) and
+// the power loop of layout and packages.
 func (m *devModel) parasitics(out *DeviceResult, k *partnerCharge) {
 	d := m.d
 	if !m.hard || !m.driveOK {
 		return
 	}
-	if d.Method == fit.MethodGateCharge && d.Lcs > 0 {
-		m.lcs = d.Lcs
-		out.Lcs = d.Lcs
+	if lcs := d.Lcs + m.s.CommonSourceInductance; d.Method == fit.MethodGateCharge && lcs > 0 {
+		m.lcs = lcs
+		out.Lcs = lcs
 		out.Flags |= fit.FlagLcs
 		if !d.Part.Lcs.OK {
 			out.Flags |= fit.FlagLcsEstimated

@@ -2,6 +2,7 @@ package evaluate
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	q "swrank/devices/quantity"
@@ -305,4 +306,34 @@ func solveThermal(m *thermal.Model, ta q.Temperature, rth q.ThermalResistance, t
 	var s thermal.Solution
 	thermal.SolveJunction(&s, m, ta, rth, tjMax)
 	return s
+}
+
+// A common-source inductance of the layout (--l-cs) is the same
+// inductance in the gate loop as the package's: a part with l_cs = 1 nH
+// in a stage without one, and the same part with l_cs = 0 in a stage with
+// 1 nH of layout, have the same edges and losses (the gate-loop equation
+// of docs/second-order.md §1 sees their sum); and it slows the edges
+// against no inductance at all.
+func TestLayoutCommonSourceInductance(t *testing.T) {
+	pkg := testkit.HandCasePart()
+	pkg.Lcs = q.Some[q.Inductance](1e-9)
+	bare := testkit.HandCasePart()
+	bare.Lcs = q.Some[q.Inductance](0)
+	st := handCaseStage(25)
+	a := evalPart(t, pkg, st, nil)
+	layout := st
+	layout.CommonSourceInductance = 1e-9
+	b := evalPart(t, bare, layout, nil)
+	none := evalPart(t, bare, st, nil)
+	if a.Losses != b.Losses || a.Devices[0].Trans != b.Devices[0].Trans || b.Devices[0].Lcs != 1e-9 {
+		t.Errorf("package 1 nH: %+v, %+v; layout 1 nH: %+v, %+v (Lcs %v)", a.Losses, a.Devices[0].Trans, b.Losses, b.Devices[0].Trans, b.Devices[0].Lcs)
+	}
+	if !(b.Devices[0].Trans.Tif > none.Devices[0].Trans.Tif) || !(b.Losses.TurnOff > none.Losses.TurnOff) {
+		t.Errorf("1 nH of layout does not slow the current fall: %v against %v", b.Devices[0].Trans.Tif, none.Devices[0].Trans.Tif)
+	}
+	bad := st
+	bad.CommonSourceInductance = -1e-9
+	if _, err := bad.Resolve(); err == nil || !strings.Contains(err.Error(), "l-cs") {
+		t.Errorf("a negative layout l-cs: %v", err)
+	}
 }

@@ -86,6 +86,10 @@ func aboutDrive(pt *stage.Point) []string {
 		th += ", junctions pinned at " + q.Format(s.TjFixed.V, 3)
 	}
 	out = append(out, th)
+	if s.LoopInductance > 0 || s.CommonSourceInductance > 0 {
+		out = append(out, fmt.Sprintf("layout inductance added to the parts' own: power loop %s, common source %s",
+			s.LoopInductance, s.CommonSourceInductance))
+	}
 	return append(out, fmt.Sprintf("voltage derating limit: the peak drain voltage may reach %.0f %% of vds_max (--derate %s)",
 		100*float64(s.Derate), strconv.FormatFloat(float64(s.Derate), 'g', 3, 64)))
 }

@@ -38,6 +38,8 @@ var pointFields = []Field{
 	{"ta_default", "Ta default", "", KindBool, "", "the ambient is the default, not given"},
 	{"rth_ca_k_per_w", "Rth ca", "K/W", KindNumber, "", "case-to-ambient thermal resistance added to rth_jc"},
 	{"tj_fixed_c", "Tj pinned", "°C", KindNumber, "", "every junction pinned at this temperature"},
+	{"l_loop_h", "L loop", "H", KindNumber, "", "layout power-loop inductance added to the parts' own (when given)"},
+	{"l_cs_h", "L cs", "H", KindNumber, "", "layout common-source inductance added to the parts' own (when given)"},
 	{"derate", "derate", "", KindNumber, "", "derating limit: the fraction of vds_max the peak drain voltage may reach"},
 	{"rload_ohm", "Rload", "Ω", KindNumber, "", "class E and D: load resistance"},
 	{"ql", "QL", "", KindNumber, "", "class E and D: loaded Q (0: ideal)"},
@@ -135,6 +137,12 @@ func pointRecord(pt *stage.Point) (Record, map[string]Record) {
 	}
 	if s.TjFixed.OK {
 		r.Set("tj_fixed_c", Num(float64(s.TjFixed.V)))
+	}
+	if s.LoopInductance > 0 {
+		r.Set("l_loop_h", Num(float64(s.LoopInductance)))
+	}
+	if s.CommonSourceInductance > 0 {
+		r.Set("l_cs_h", Num(float64(s.CommonSourceInductance)))
 	}
 	r.Set("derate", Num(float64(s.Derate)))
 	r.Set("notes_list", List(pt.Notes))

@@ -316,7 +316,7 @@ func (s *Stage) fillCommon(bad complaint) {
 		{"ripple", float64(s.Ripple.V)}, {"inductance", float64(s.Inductance)}, {"dead-time", float64(s.DeadTime.V)},
 		{"vdrive", float64(s.Driver.VOn)}, {"vdrive-off", float64(s.Driver.VOff)}, {"ta", float64(s.Ambient)},
 		{"derate", float64(s.Derate)}, {"vblock", float64(s.Vblock)}, {"ion", float64(s.Ion)}, {"ioff", float64(s.Ioff)},
-		{"irms", float64(s.Irms)}, {"l-loop", float64(s.LoopInductance)}} {
+		{"irms", float64(s.Irms)}, {"l-loop", float64(s.LoopInductance)}, {"l-cs", float64(s.CommonSourceInductance)}} {
 		finite(f.n, f.v)
 	}
 	if s.Fsw <= 0 {
@@ -360,6 +360,9 @@ func (s *Stage) fillCommon(bad complaint) {
 	}
 	if s.LoopInductance < 0 {
 		bad("l-loop: loop inductance must be ≥ 0 H (got %s)", s.LoopInductance)
+	}
+	if s.CommonSourceInductance < 0 {
+		bad("l-cs: common-source inductance must be ≥ 0 H (got %s)", s.CommonSourceInductance)
 	}
 	if s.RthCA.OK && s.RthCA.V < 0 {
 		bad("rth-ca: must be ≥ 0 K/W")

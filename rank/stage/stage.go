@@ -163,6 +163,12 @@ type Stage struct {
 	// (their l_loop column) is added to it. ≥ 0; default 0 (no loop
 	// inductance counted). See docs/second-order.md.
 	LoopInductance q.Inductance
+	// CommonSourceInductance is the layout's common-source inductance:
+	// the stretch of source trace that the gate loop's return shares with
+	// the power loop, H. Each transistor's own l_cs is added to it (the
+	// gate-charge method's edges take it). ≥ 0; default 0. See
+	// docs/second-order.md.
+	CommonSourceInductance q.Inductance
 
 	// Custom stage: the switch stresses directly.
 	Vblock q.Voltage // blocking voltage at the hard edges, V; > 0
