@@ -48,7 +48,7 @@ type BridgeRow struct {
 	PredGate, SimGate, Vth float64
 	// SimShoot is the simulated shoot-through power: the synchronous
 	// channel's forward conduction (BridgeWave.ShootEnergy) times f, W.
-	SimShoot  float64
+	SimShoot      float64
 	Bench, Bench0 *spice.BenchResult // the simulation, and the one without stored charge
 }
 
