@@ -135,7 +135,7 @@ func TestCheckFiles(t *testing.T) {
 			`conditional.csv:3:28: rds_on_hot_tj: needed by rds_on_hot (its test condition)`,
 			`conditional.csv:4:16: cap_vds: needed by ciss, coss, crss (its test condition)`,
 			`conditional.csv:5:19: oss_vds: needed by qoss (its test condition)`,
-			`conditional.csv:6:11: qgd: no switching data: give qgs, qgd and v_plateau, or tr and tf`,
+			`conditional.csv:6:11: qgd: no switching data: give qgs, qgd and v_plateau (or gfs with gfs_id), or tr and tf`,
 			`conditional.csv:7:13: coss: no output-capacitance data: give coss with cap_vds, or qoss with oss_vds`,
 		}},
 	}
@@ -346,6 +346,10 @@ func TestValidate(t *testing.T) {
 			[]string{`part "row-one": eoss_loss_vds: needed by eoss_loss (its test condition)`}, ErrMissingValue},
 		{"qrr_hot needs tj", func(p *Part) { p.QrrHot = q.Some[q.Charge](30e-9) },
 			[]string{`part "row-one": qrr_hot_tj: needed by qrr_hot (its test condition)`}, ErrMissingValue},
+		{"gfs needs its current", func(p *Part) { p.Gfs = q.Some[q.Conductance](20) },
+			[]string{`part "row-one": gfs_id: needed by gfs (its test condition)`}, ErrMissingValue},
+		{"gfs in display units", func(p *Part) { p.Gfs, p.GfsId = q.Some[q.Conductance](20e3), q.Some[q.Current](10) },
+			[]string{`part "row-one": gfs: 20 kS: outside 1 mS–2 kS; was 20000 mS meant?`}, ErrImplausible},
 		{"eoss needs oss_vds", func(p *Part) { p.Eoss = q.Some[q.Energy](30e-9) },
 			[]string{`part "row-one": oss_vds: needed by eoss (its test condition)`}, ErrMissingValue},
 	}

@@ -160,16 +160,21 @@ type Part struct {
 	RdsDynVds q.Opt[q.Voltage]     `csv:"rds_dyn_vds"`   // off-state voltage at which rds_dyn was measured, V
 
 	// Gate charge, from the gate-charge curve at qg_vds and qg_id.
-	Qg       q.Charge            `csv:"qg"`        // total gate charge at qg_vgs, C
-	QgVgs    q.Voltage           `csv:"qg_vgs"`    // gate voltage of qg, V
-	QgVds    q.Opt[q.Voltage]    `csv:"qg_vds"`    // drain voltage of the gate-charge test, V; blank = 0.5·vds_max flagged
-	QgId     q.Opt[q.Current]    `csv:"qg_id"`     // drain current of the gate-charge test (and of the plateau), A; blank = id_max flagged
-	QgMax    q.Opt[q.Charge]     `csv:"qg_max"`    // maximum total gate charge, C
-	Qgs      q.Opt[q.Charge]     `csv:"qgs"`       // gate-source charge (to the plateau), C
-	Qgd      q.Opt[q.Charge]     `csv:"qgd"`       // gate-drain (Miller) charge, C
-	QgTh     q.Opt[q.Charge]     `csv:"qg_th"`     // gate charge at threshold, C; blank = qgs/2 flagged
-	VPlateau q.Opt[q.Voltage]    `csv:"v_plateau"` // Miller plateau voltage at qg_id, V
-	RgInt    q.Opt[q.Resistance] `csv:"rg_int"`    // internal gate resistance, Ω; blank = 0 flagged
+	Qg       q.Charge         `csv:"qg"`        // total gate charge at qg_vgs, C
+	QgVgs    q.Voltage        `csv:"qg_vgs"`    // gate voltage of qg, V
+	QgVds    q.Opt[q.Voltage] `csv:"qg_vds"`    // drain voltage of the gate-charge test, V; blank = 0.5·vds_max flagged
+	QgId     q.Opt[q.Current] `csv:"qg_id"`     // drain current of the gate-charge test (and of the plateau), A; blank = id_max flagged
+	QgMax    q.Opt[q.Charge]  `csv:"qg_max"`    // maximum total gate charge, C
+	Qgs      q.Opt[q.Charge]  `csv:"qgs"`       // gate-source charge (to the plateau), C
+	Qgd      q.Opt[q.Charge]  `csv:"qgd"`       // gate-drain (Miller) charge, C
+	QgTh     q.Opt[q.Charge]  `csv:"qg_th"`     // gate charge at threshold, C; blank = qgs/2 flagged
+	VPlateau q.Opt[q.Voltage] `csv:"v_plateau"` // Miller plateau voltage at qg_id, V
+	// Gfs is the forward transconductance at the drain current GfsId
+	// (the datasheet's transfer test, in saturation), S; it sets the
+	// plateau when v_plateau is blank.
+	Gfs   q.Opt[q.Conductance] `csv:"gfs"`
+	GfsId q.Opt[q.Current]     `csv:"gfs_id"` // drain current of the gfs test, A
+	RgInt q.Opt[q.Resistance]  `csv:"rg_int"` // internal gate resistance, Ω; blank = 0 flagged
 
 	// Capacitances, small-signal at cap_vds.
 	Ciss   q.Opt[q.Capacitance] `csv:"ciss"`    // input capacitance, F

@@ -89,6 +89,8 @@ var plausibleRanges = [...]plausible{
 	{col: "qgd", lo: 10e-12, hi: 5e-6, prefer: "n"},
 	{col: "qg_th", lo: 10e-12, hi: 5e-6, prefer: "n"},
 	{col: "v_plateau", lo: 0.2, hi: 20},
+	{col: "gfs", lo: 1e-3, hi: 2e3}, // 1 mS (small-signal) to 2 kS
+	{col: "gfs_id", lo: iTestLo, hi: iTestHi},
 	{col: "rg_int", lo: 10e-3, hi: 200, zero: true},
 
 	// Capacitances. Crss from 50 fF: high-voltage GaN parts reach 0.1 pF.

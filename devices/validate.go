@@ -125,6 +125,8 @@ func (v *validator) run() {
 	optPositive(v, "qgd", p.Qgd)
 	optPositive(v, "qg_th", p.QgTh)
 	optPositive(v, "v_plateau", p.VPlateau)
+	optPositive(v, "gfs", p.Gfs)
+	optPositive(v, "gfs_id", p.GfsId)
 	optNonNegative(v, "rg_int", p.RgInt)
 	optPositive(v, "ciss", p.Ciss)
 	optPositive(v, "coss", p.Coss)
@@ -290,6 +292,7 @@ func (v *validator) run() {
 	}
 	v.needs("eoss_loss", p.EossLoss.OK, "eoss_loss_vds", p.EossLossVds.OK)
 	v.needs("qrr_hot", p.QrrHot.OK, "qrr_hot_tj", p.QrrHotTj.OK)
+	v.needs("gfs", p.Gfs.OK, "gfs_id", p.GfsId.OK)
 	v.needs("vgs_th_hot", p.VgsThHot.OK, "vgs_th_hot_tj", p.VgsThHotTj.OK)
 	v.needs("vsd_hot", p.VsdHot.OK, "vsd_hot_tj", p.VsdHotTj.OK)
 	// Both fall with temperature in every technology swrank models
@@ -302,7 +305,8 @@ func (v *validator) run() {
 	}
 
 	// Data the models need.
-	if !(p.Qgs.OK && p.Qgd.OK && p.VPlateau.OK) && !(p.Tr.OK && p.Tf.OK) && v.ok("qgs", "qgd", "v_plateau", "tr", "tf") {
+	plateau := p.VPlateau.OK || p.Gfs.OK && p.GfsId.OK
+	if !(p.Qgs.OK && p.Qgd.OK && plateau) && !(p.Tr.OK && p.Tf.OK) && v.ok("qgs", "qgd", "v_plateau", "tr", "tf") {
 		field := "qgs"
 		switch {
 		case !p.Qgs.OK:
@@ -311,7 +315,7 @@ func (v *validator) run() {
 		default:
 			field = "v_plateau"
 		}
-		v.add(field, ErrMissingValue, "no switching data: give qgs, qgd and v_plateau, or tr and tf")
+		v.add(field, ErrMissingValue, "no switching data: give qgs, qgd and v_plateau (or gfs with gfs_id), or tr and tf")
 	}
 	if !(p.Coss.OK && p.CapVds.OK) && !(p.Qoss.OK && p.OssVds.OK) && v.ok("coss", "cap_vds", "qoss", "oss_vds") {
 		v.add("coss", ErrMissingValue, "no output-capacitance data: give coss with cap_vds, or qoss with oss_vds")

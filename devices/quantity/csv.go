@@ -101,6 +101,10 @@ func (v *Inductance) UnmarshalCSV(s string) (err error) {
 }
 func (v *Ratio) UnmarshalCSV(s string) (err error) { *v, err = Parse[Ratio](s); return }
 func (v *Slew) UnmarshalCSV(s string) (err error)  { *v, err = Parse[Slew](s); return }
+func (v *Conductance) UnmarshalCSV(s string) (err error) {
+	*v, err = Parse[Conductance](s)
+	return
+}
 
 func (v Voltage) MarshalCSV() (string, error)           { return marshal(float64(v)) }
 func (v Current) MarshalCSV() (string, error)           { return marshal(float64(v)) }
@@ -116,3 +120,4 @@ func (v ThermalResistance) MarshalCSV() (string, error) { return marshal(float64
 func (v Inductance) MarshalCSV() (string, error)        { return marshal(float64(v)) }
 func (v Ratio) MarshalCSV() (string, error)             { return marshal(float64(v)) }
 func (v Slew) MarshalCSV() (string, error)              { return marshal(float64(v)) }
+func (v Conductance) MarshalCSV() (string, error)       { return marshal(float64(v)) }

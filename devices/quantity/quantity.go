@@ -60,6 +60,10 @@ type Ratio float64
 // Slew is a rate of change of current in amperes per second.
 type Slew float64
 
+// Conductance is a conductance in siemens (a transconductance: amperes of
+// drain current per volt of gate drive).
+type Conductance float64
+
 // Kind names a physical quantity and the unit spellings accepted for it.
 type Kind struct {
 	Name   string   // the quantity, e.g. "capacitance"
@@ -87,6 +91,7 @@ var (
 	kindThermal     = Kind{Name: "thermal resistance", Symbol: "K/W", Units: []string{"K/W", "°C/W", "C/W"}}
 	kindInductance  = Kind{Name: "inductance", Symbol: "H", Units: []string{"H"}}
 	kindRatio       = Kind{Name: "ratio", Symbol: "", Units: []string{"%"}, NoPrefix: true}
+	kindConductance = Kind{Name: "conductance", Symbol: "S", Units: []string{"S", "A/V"}}
 	kindSlew        = Kind{Name: "current slew rate", Symbol: "A/s", Units: []string{"A/s"},
 		Scaled: map[string]float64{"A/ms": 1e3, "A/us": 1e6, "A/µs": 1e6, "A/μs": 1e6, "A/ns": 1e9}}
 )
@@ -106,6 +111,7 @@ func (ThermalResistance) Kind() Kind { return kindThermal }
 func (Inductance) Kind() Kind        { return kindInductance }
 func (Ratio) Kind() Kind             { return kindRatio }
 func (Slew) Kind() Kind              { return kindSlew }
+func (Conductance) Kind() Kind       { return kindConductance }
 
 // Quantity is the set of the named types above.
 type Quantity interface {
@@ -577,3 +583,4 @@ func (v ThermalResistance) String() string { return Format(v, 3) }
 func (v Inductance) String() string        { return Format(v, 3) }
 func (v Ratio) String() string             { return Format(v, 3) }
 func (v Slew) String() string              { return Format(v, 3) }
+func (v Conductance) String() string       { return Format(v, 3) }

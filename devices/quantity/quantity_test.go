@@ -36,7 +36,7 @@ func allParsers() []parser {
 		parserOf[Voltage](), parserOf[Current](), parserOf[Resistance](), parserOf[Capacitance](),
 		parserOf[Charge](), parserOf[Time](), parserOf[Frequency](), parserOf[Power](),
 		parserOf[Energy](), parserOf[Temperature](), parserOf[ThermalResistance](),
-		parserOf[Inductance](), parserOf[Ratio](), parserOf[Slew](),
+		parserOf[Inductance](), parserOf[Ratio](), parserOf[Slew](), parserOf[Conductance](),
 	}
 }
 

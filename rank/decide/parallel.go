@@ -24,9 +24,9 @@ const DefaultParallelMax = 4
 // their current equally, as one part: resistances divided by n
 // (on-resistances, internal gate resistance, each device's own thermal
 // resistance, package inductances), charges, capacitances, energies and
-// current ratings multiplied by n, voltages, times and temperatures
+// current ratings and transconductance multiplied by n, voltages, times and temperatures
 // unchanged. Test conditions stated per device move with it: the
-// gate-charge, diode and switching-time test currents are multiplied by n
+// gate-charge, gfs, diode and switching-time test currents are multiplied by n
 // and the switching-time test's gate resistances divided by n (n parts on
 // a generator of R/n switch in the same time as one part on R). The price
 // is n × price. The name becomes "NAME ×n". n = 1 returns a copy.
@@ -72,6 +72,8 @@ func ParallelPart(p *devices.Part, n int) (devices.Part, error) {
 	mulOpt(&c.Qgs, k)
 	mulOpt(&c.Qgd, k)
 	mulOpt(&c.QgTh, k)
+	mulOpt(&c.Gfs, k)
+	mulOpt(&c.GfsId, k)
 	mulOpt(&c.RgInt, 1/k)
 	mulOpt(&c.Ciss, k)
 	mulOpt(&c.Coss, k)

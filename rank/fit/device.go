@@ -342,10 +342,7 @@ func (d *Device) fitGateCharge() error {
 	if !p.QgId.OK {
 		d.Flags |= FlagQgIdAssumed
 	}
-	d.VplSpec = p.VPlateau.Or(p.VgsTh + 1)
-	if !p.VPlateau.OK {
-		d.Flags |= FlagPlateauEstimated
-	}
+	d.VplSpec = d.plateau(p.VgsTh + 1)
 	if p.Qgs.OK || p.Qgd.OK || !(p.Tr.OK && p.Tf.OK) {
 		// The gate-charge method, with what the row leaves blank estimated
 		// (estimates.go): a partial gate-charge curve is closer to the part

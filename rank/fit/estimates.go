@@ -2,6 +2,7 @@ package fit
 
 import (
 	"bytes"
+	"math"
 	"swrank/devices"
 	q "swrank/devices/quantity"
 	"swrank/rank/loss"
@@ -254,7 +255,7 @@ func (d *Device) gateChargeEstimates() (qgs, qgd q.Charge, vpl q.Voltage) {
 	if d.Low {
 		fs, fd = qgsPerQgLow, qgdPerQgLow
 	}
-	vpl = p.VPlateau.Or(p.VgsTh + plateauOverdrive(p.Technology, d.Low))
+	vpl = d.plateau(p.VgsTh + plateauOverdrive(p.Technology, d.Low))
 	if !p.Qgs.OK && p.QgTh.OK && p.VgsTh > 0 {
 		// The charge to the threshold fixes Cgs: Qgs = Qth·Vpl/Vth, the
 		// same constant-Cgs rule that estimates qg_th from qgs.
@@ -271,10 +272,28 @@ func (d *Device) gateChargeEstimates() (qgs, qgd q.Charge, vpl q.Voltage) {
 	if !p.Qgs.OK || !p.Qgd.OK {
 		d.Flags |= FlagGateChargeEstimated
 	}
-	if !p.VPlateau.OK {
-		d.Flags |= FlagPlateauEstimated
-	}
 	return qgs, qgd, vpl
+}
+
+// plateau is the Miller plateau at the gate-charge test's current d.QgId:
+// the part's v_plateau; else, from its transconductance gfs at gfs_id,
+// the square-law channel's gate voltage for that current,
+//
+//	V_pl = V_th + 2·√(I_qg·I_gfs)/g_fs
+//
+// (g_fs = 2·I/(V_gs − V_th) at the gfs test, so V_gs − V_th = 2·I_gfs/g_fs
+// there, scaled with √I; Sze & Ng, Physics of Semiconductor Devices, 3rd
+// ed., 2007, ch. 6, saturation); else the estimate est, flagged.
+func (d *Device) plateau(est q.Voltage) q.Voltage {
+	p := d.Part
+	switch {
+	case p.VPlateau.OK:
+		return p.VPlateau.V
+	case p.Gfs.OK && p.GfsId.OK && p.Gfs.V > 0 && p.GfsId.V > 0 && d.QgId > 0:
+		return p.VgsTh + q.Voltage(2*math.Sqrt(float64(d.QgId)*float64(p.GfsId.V))/float64(p.Gfs.V))
+	}
+	d.Flags |= FlagPlateauEstimated
+	return est
 }
 
 // The exponents of a one-point output-capacitance law C = K·v^(−N): from a

@@ -7,7 +7,9 @@ import (
 	"testing"
 
 	"swrank/devices"
+	q "swrank/devices/quantity"
 	"swrank/devices/synth"
+	"swrank/rank/internal/testkit"
 )
 
 // The package families' estimates are documented (docs/library.md, a
@@ -82,6 +84,42 @@ func TestFlagTexts(t *testing.T) {
 		}
 		if f.Codes() == "" || len(f.Sentences()) != 1 {
 			t.Errorf("flag %#x: code %q, sentences %q", uint64(f), f.Codes(), f.Sentences())
+		}
+	}
+}
+
+// The plateau from the transconductance when v_plateau is blank, by hand
+// with the square-law channel (Sze & Ng, Physics of Semiconductor Devices,
+// 3rd ed., 2007, ch. 6: g_fs = 2·I/(V_gs − V_th) in saturation): the
+// hand-case part (V_th 1.8 V, gate-charge test at 10 A) with g_fs = 20 S
+// at 10 A has V_gs − V_th = 2·10/20 = 1 V there, so its plateau is 2.8 V,
+// not an estimate; at 40 A for the gfs test, 1.8 + 2·√(10·40)/20 = 3.8 V.
+// Without gfs the plateau is estimated and flagged.
+func TestPlateauFromGfs(t *testing.T) {
+	for _, c := range []struct {
+		name      string
+		gfs, id   float64 // S, A; 0: blank
+		want      float64 // V
+		estimated bool
+	}{
+		{"gfs at the test current", 20, 10, 2.8, false},
+		{"gfs at another current", 20, 40, 3.8, false},
+		{"no gfs", 0, 0, 0, true},
+	} {
+		p := testkit.HandCasePart()
+		p.VPlateau = q.Opt[q.Voltage]{}
+		if c.gfs > 0 {
+			p.Gfs, p.GfsId = q.Some(q.Conductance(c.gfs)), q.Some(q.Current(c.id))
+		}
+		d, err := Prepare(&p)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if got := d.Flags&FlagPlateauEstimated != 0; got != c.estimated {
+			t.Errorf("%s: plateau estimated %v, want %v", c.name, got, c.estimated)
+		}
+		if !c.estimated {
+			testkit.Near(t, c.name, float64(d.VplSpec), c.want, 1e-12)
 		}
 	}
 }

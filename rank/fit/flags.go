@@ -70,7 +70,7 @@ var flagText = [...]struct{ code, text string }{
 	{"coss-sqrt", "output charge and energy from one value (a capacitance, a charge or an energy): a power law at both ends of its usual range"},
 	{"coss-far", "working voltage outside 0.5-2× the voltage of the output-capacitance data: low confidence"},
 	{"tsw-cond?", "test conditions of tr/tf not given: times used as given, not rescaled to your gate loop"},
-	{"vpl?", "plateau voltage not given: taken as threshold + 1 V (SiC: + 4 V)"},
+	{"vpl?", "plateau voltage not given (nor gfs with gfs_id): taken as threshold + 1 V (SiC: + 4 V)"},
 	{"gate-lin", "gate-charge curve unknown: linear gate, Qg scaled with the drive and half the energy per edge"},
 	{"rth-jc?", "rth_jc not given: the top of the package family's range is taken (docs/library.md)"},
 	{"rth?", "no thermal path (rth_ja; or rth_jc with --rth-ca; or a package swrank knows): junction taken at tj_max"},
