@@ -30,19 +30,7 @@ func (b *Bench) measure(tab *Table, n int) (*BenchResult, error) {
 		res.StepLimit = T / b.StepDivisor
 	}
 	// Energies of [a, c] by the trapezoidal rule, ends interpolated.
-	integ := func(a, c float64, f func(k int) float64) float64 {
-		var s float64
-		for k := 1; k < len(tm); k++ {
-			lo, hi := max(tm[k-1], a), min(tm[k], c)
-			if hi <= lo {
-				continue
-			}
-			fk, fj := f(k), f(k-1)
-			h := tm[k] - tm[k-1]
-			s += 0.5 * (fj + (fk-fj)*(lo-tm[k-1])/h + fj + (fk-fj)*(hi-tm[k-1])/h) * (hi - lo)
-		}
-		return s
-	}
+	integ := func(a, c float64, f func(k int) float64) float64 { return integrate(tm, a, c, f) }
 	var ePrev, eLast float64
 	win := b.gateWindows(t0)
 	for i := 0; i < b.places(); i++ {
@@ -138,13 +126,7 @@ func (b *Bench) labels(tm []float64, t0 float64, w [2]float64, hard [2]bool, vd,
 			lbl[k] = lblCond
 		}
 	}
-	at := func(t float64) int { // last sample before t
-		k := 0
-		for k+1 < len(tm) && tm[k+1] < t {
-			k++
-		}
-		return k
-	}
+	at := func(t float64) int { return sampleBefore(tm, t) }
 	vds := func(k int) float64 { return vd[k] - vs[k] }
 	// The edges of this period: the rise at w[0] and the fall at w[1]
 	// (wrapped into the period when it lies past its end).

@@ -64,13 +64,7 @@ func (b *Bench) bridgeWave(tab *Table, t0 float64) (*BridgeWave, error) {
 	// synchronous pulse before (it wraps past the period's end; the table
 	// holds the period before) to the control pulse's middle.
 	halves := [2][2]float64{{midCtrl, midSync}, {midSync - T, midCtrl}}
-	at := func(t float64) int {
-		k := 0
-		for k+1 < len(tm) && tm[k+1] < t {
-			k++
-		}
-		return k
-	}
+	at := func(t float64) int { return sampleBefore(tm, t) }
 	vChan := vds(at(midSync))
 	wave := &BridgeWave{}
 	for e, h := range halves {
@@ -96,12 +90,9 @@ func (b *Bench) bridgeWave(tab *Table, t0 float64) (*BridgeWave, error) {
 		}
 	}
 	if ich, err := tab.Col(syncChannel); err == nil {
-		for k := at(t0) + 1; k <= at(t0+T); k++ {
-			dt := tm[k] - tm[k-1]
-			i0, i1 := max(ich[k-1], 0), max(ich[k], 0)
-			wave.ShootCharge += dt * (i0 + i1) / 2
-			wave.ShootEnergy += dt * (i0*vds(k-1) + i1*vds(k)) / 2
-		}
+		fwd := func(k int) float64 { return max(ich[k], 0) }
+		wave.ShootCharge = integrate(tm, t0, t0+T, fwd)
+		wave.ShootEnergy = integrate(tm, t0, t0+T, func(k int) float64 { return fwd(k) * vds(k) })
 	}
 	if g, err := tab.Col(syncGate); err == nil {
 		gate = func(k int) float64 { return g[k] }

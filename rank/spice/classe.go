@@ -123,21 +123,7 @@ func measureClassE(tab *Table, x *ClassEParts) (*ClassEMeasured, error) {
 	}
 	// Means over [a, b] by the trapezoidal rule, the end points
 	// interpolated.
-	mean := func(a, b float64, f func(k int) float64) float64 {
-		var s float64
-		for k := 1; k < len(tm); k++ {
-			lo, hi := max(tm[k-1], a), min(tm[k], b)
-			if hi <= lo {
-				continue
-			}
-			fk, fj := f(k), f(k-1)
-			h := tm[k] - tm[k-1]
-			flo := fj + (fk-fj)*(lo-tm[k-1])/h
-			fhi := fj + (fk-fj)*(hi-tm[k-1])/h
-			s += 0.5 * (flo + fhi) * (hi - lo)
-		}
-		return s / (b - a)
-	}
+	mean := func(a, b float64, f func(k int) float64) float64 { return integrate(tm, a, b, f) / (b - a) }
 	m := &ClassEMeasured{VPeak: math.Inf(-1), VMin: math.Inf(1)}
 	for k := range tm {
 		if tm[k] >= t0 {
