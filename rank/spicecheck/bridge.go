@@ -73,12 +73,7 @@ func RunBridge(ctx context.Context, r *spice.Runner, cfg *BridgeConfig, set stri
 	if err := os.MkdirAll(filepath.Join(dir, "models"), 0o755); err != nil {
 		return nil, err
 	}
-	sheets := make([]*spice.Datasheet, len(models))
-	err := parallel(ctx, len(models), o.Workers, func(ctx context.Context, i int) error {
-		ds, err := spice.Characterise(ctx, r, &models[i])
-		sheets[i] = ds
-		return err
-	})
+	sheets, err := characteriseAll(ctx, r, models, o.Workers)
 	if err != nil {
 		return nil, err
 	}

@@ -29,14 +29,7 @@ func TestClassEHeldOut(t *testing.T) {
 	if testing.Short() {
 		t.Skip("skipping the held-out class E check in -short mode")
 	}
-	cell, err := LoadConfig(configPath)
-	if err != nil {
-		t.Fatal(err)
-	}
-	held, err := cell.HeldOut.Devices()
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, held := heldOutSet(t)
 	// The points: a 12 V stage at 6.78 MHz with a 5 V drive, and a 24 V
 	// stage at 500 kHz with a 10 V drive (invented operating points). The
 	// first carries the gaps docs/spice-crosscheck.md names (the Miller
@@ -49,12 +42,8 @@ func TestClassEHeldOut(t *testing.T) {
 	}
 	ctx, cancel := context.WithTimeout(context.Background(), 10*time.Minute)
 	defer cancel()
-	sheets := make([]*spice.Datasheet, len(held))
-	if err := parallel(ctx, len(held), 2, func(ctx context.Context, i int) error {
-		ds, err := spice.Characterise(ctx, r, &held[i])
-		sheets[i] = ds
-		return err
-	}); err != nil {
+	sheets, err := characteriseAll(ctx, r, held, 2)
+	if err != nil {
 		t.Fatal(err)
 	}
 	parts := make([]devices.Part, len(held))

@@ -3,6 +3,7 @@ package spicecheck
 import (
 	"context"
 	"path/filepath"
+	"swrank/rank/spice"
 	"testing"
 	"time"
 )
@@ -17,14 +18,7 @@ func TestCrossCheckHeldOut(t *testing.T) {
 	if testing.Short() {
 		t.Skip("skipping the held-out cross-check in -short mode")
 	}
-	cell, err := LoadConfig(configPath)
-	if err != nil {
-		t.Fatal(err)
-	}
-	held, err := cell.HeldOut.Devices()
-	if err != nil {
-		t.Fatal(err)
-	}
+	cell, held := heldOutSet(t)
 	cfg := &Config{Devices: held, Points: cell.Points}
 	for i := range cfg.Points {
 		p := &cfg.Points[i]
@@ -71,4 +65,19 @@ func TestCrossCheckHeldOut(t *testing.T) {
 			t.Errorf("%s: Kendall τ %.3f < 0.9", p.Point, p.Tau)
 		}
 	}
+}
+
+// heldOutSet returns the cell's configuration and its held-out devices
+// (cell.toml's [held_out]).
+func heldOutSet(t *testing.T) (*Config, []spice.Model) {
+	t.Helper()
+	cell, err := LoadConfig(configPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	held, err := cell.HeldOut.Devices()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return cell, held
 }

@@ -58,12 +58,7 @@ func RunSuite(ctx context.Context, r *spice.Runner, cfg *Config, o SuiteOptions)
 	s := &Suite{Config: cfg, Sheets: map[string]*spice.Datasheet{}, Compared: map[string][]Row{}}
 
 	// 1. Characterisation.
-	sheets := make([]*spice.Datasheet, len(cfg.Devices))
-	err := parallel(ctx, len(cfg.Devices), o.Workers, func(ctx context.Context, i int) error {
-		ds, err := spice.Characterise(ctx, r, &cfg.Devices[i])
-		sheets[i] = ds
-		return err
-	})
+	sheets, err := characteriseAll(ctx, r, cfg.Devices, o.Workers)
 	if err != nil {
 		return nil, err
 	}
@@ -241,6 +236,18 @@ func (c *Config) point(name string) *spice.Point {
 		}
 	}
 	return nil
+}
+
+// characteriseAll characterises every model (spice.Characterise) on at
+// most workers ngspice processes, in the models' order.
+func characteriseAll(ctx context.Context, r *spice.Runner, models []spice.Model, workers int) ([]*spice.Datasheet, error) {
+	sheets := make([]*spice.Datasheet, len(models))
+	err := parallel(ctx, len(models), workers, func(ctx context.Context, i int) error {
+		ds, err := spice.Characterise(ctx, r, &models[i])
+		sheets[i] = ds
+		return err
+	})
+	return sheets, err
 }
 
 // parallel runs fn(0..n-1) on at most workers goroutines and returns the
