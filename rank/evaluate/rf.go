@@ -56,29 +56,20 @@ func fallTime(d *fit.Device, drv *stage.Driver, i q.Current) q.Time {
 	return loss.ScaleSwitchingTime(d.Part.Tf.V, d.TswR, r, d.TswHead[1], vpl-drv.VOff)
 }
 
-// eTiming is a class E switch's gate timing: the delays from the drive's
-// edges to the channel's turn-on and to the start of its current fall, and
-// the channel's off interval, rad.
-type eTiming struct {
-	delayOn, delayOff q.Time
-	offAngle          float64
-}
-
-// classETiming times a class E switch from its gate circuit, with the
-// helpers that time a synchronous cell's dead times (deadtime.go): the
-// channel turns on when the gate reaches its threshold, onDelay after the
-// drive's rising edge (the drain at zero: no plateau), and its current
-// starts to fall when the gate has fallen to the plateau at the current
-// it carries, turnOffTimes' delay after the drive's falling edge. With the
-// drive's 50 % duty, the channel is off for π − ω·(t_d,off − t_d,on).
+// gateDelays times a resonant stage's switch from its gate circuit, with
+// the helpers that time a synchronous cell's dead times (deadtime.go): its
+// channel turns on when the gate reaches its threshold, on after the
+// drive's rising edge (the drain near zero: no plateau), and its current
+// starts to fall when the gate has fallen to the plateau at the current i
+// it carries, off after the drive's falling edge. Class E's channel is
+// then off for π − ω·(off − on) of each period; class D's node swings for
+// the dead time + on − off.
 //
-// Source: the RC gate delays (Balogh 2001) in the class E timing of
-// Sokal & Sokal 1975 (the switch's on interval sets the waveform).
-func classETiming(d *fit.Device, drv *stage.Driver, iOff q.Current, f q.Frequency) eTiming {
-	on := onDelay(d, drv, d.Vth)
-	off := turnOffTimes(d, drv, 0, iOff).delay
-	w := 2 * math.Pi * float64(f)
-	return eTiming{delayOn: on, delayOff: off, offAngle: math.Pi - w*float64(off-on)}
+// Source: the RC gate delays (Balogh 2001) in the timing of a switch
+// whose on interval sets the waveform (Sokal & Sokal 1975; Kazimierczuk
+// & Czarkowski 2011, ch. 2).
+func gateDelays(d *fit.Device, drv *stage.Driver, i q.Current) (on, off q.Time) {
+	return onDelay(d, drv, d.Vth), turnOffTimes(d, drv, 0, i).delay
 }
 
 // softGate fills the gate-drive losses of a switch whose edges are
@@ -166,9 +157,10 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		out.Screens |= ScreenShuntTooSmall
 	}
 	rf.Tf = fallTime(d, &s.Driver, e.IOff)
-	tm := classETiming(d, &s.Driver, e.IOff, s.Fsw)
-	rf.OnShare = q.Ratio(1 - tm.offAngle/(2*math.Pi) + float64(rf.Tf)*f)
-	to, err := resonant.ClassETurnOffTimed(*e, rf.Tf, tm.offAngle)
+	dOn, dOff := gateDelays(d, &s.Driver, e.IOff)
+	offAngle := math.Pi - 2*math.Pi*f*float64(dOff-dOn)
+	rf.OnShare = q.Ratio(1 - offAngle/(2*math.Pi) + float64(rf.Tf)*f)
+	to, err := resonant.ClassETurnOffTimed(*e, rf.Tf, offAngle)
 	if err != nil {
 		// Beyond the model's range (ω·t_f above MaxTurnOffAngle, or the
 		// gate's delays leave the channel no off interval): too slow to
@@ -203,7 +195,7 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		tr.add("control", "shunt", "device share of C1: Q_oss(V_peak)/V_peak with the part's own law; external capacitor = what is left",
 			T("V peak", sh.VPeak), T("C device", sh.CDevice), T("C external", sh.CExternal), T("excess reactance", sh.X), T("f max", sh.FMax))
 		tr.add("control", "switch timing", "the channel turns on at the gate's delay to its threshold after the drive's rise and its current starts to fall at the delay to the plateau after the drive's fall: off for π − ω·(t_d,off − t_d,on) of each period",
-			T("turn-on delay to Vth", tm.delayOn), T("turn-off delay to the plateau", tm.delayOff), N("channel on (share of the period)", float64(rf.OnShare)))
+			T("turn-on delay to Vth", dOn), T("turn-off delay to the plateau", dOff), N("channel on (share of the period)", float64(rf.OnShare)))
 		tr.add("control", "turn-off and turn-on", "linear current fall in t_f inside the periodic steady state at the channel's real off interval (≈ (ω·t_f)²/12·P_o at 50 %); a turn-on before the voltage is back at zero dumps the shunt: E = ½·C_ext·v² + E_oss(v)",
 			T("t_f", rf.Tf), T("P turn-off", out.Losses.TurnOff), T("V at turn-on", rf.VResidual), T("P turn-on", out.Losses.TurnOn))
 		note := "no eoss_loss column: output-capacitance hysteresis not counted"
@@ -231,8 +223,7 @@ func evalClassD(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	// half-bridge's timing helpers). A swing interval below zero is
 	// cross-conduction.
 	iEdge := q.Current(math.Abs(float64(pt.RF.D.ISwitch)))
-	dOff := turnOffTimes(d, &s.Driver, 0, iEdge).delay
-	dOn := onDelay(d, &s.Driver, d.Vth)
+	dOn, dOff := gateDelays(d, &s.Driver, iEdge)
 	swing := pt.RF.D.DeadTime + dOn - dOff
 	cdv := pt.RF.D.WithDeadTime(swing)
 	cd := &cdv

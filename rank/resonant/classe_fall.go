@@ -256,12 +256,11 @@ func (f *fallCircuit) solve() (fallResult, error) {
 	if err != nil {
 		return fallResult{}, err
 	}
-	hi, hhi := f.gate, hp
-	if hhi < 0 {
+	if hp < 0 {
 		// The voltage crossed zero before the gate turn-on: find where.
-		lo, hlo := hi, hhi
+		lo, hlo := f.gate, hp
 		for d := math.Sqrt(f.eps) / 4; ; d *= 2 {
-			lo = hi - d
+			lo = f.gate - d
 			if lo <= f.eps {
 				return fallResult{}, fmt.Errorf("switch voltage stays at or below zero after the fall")
 			}
@@ -279,7 +278,7 @@ func (f *fallCircuit) solve() (fallResult, error) {
 				bad = err
 			}
 			return v
-		}, lo, hi, hlo, hhi, 1e-12)
+		}, lo, f.gate, hlo, hp, 1e-12)
 		if bad != nil {
 			return fallResult{}, bad
 		}
