@@ -2,7 +2,6 @@ package spicecheck
 
 import (
 	"fmt"
-	"math"
 	"strings"
 
 	"swrank/rank/evaluate"
@@ -92,17 +91,7 @@ func (s *BridgeSuite) Summarise(cfg *BridgeConfig) BridgeSummary {
 // absStats are the median and worst of predicted − simulated (not
 // relative) for one component.
 func absStats(rows []Row, comp string) Stats {
-	var abs []float64
-	s := Stats{N: len(rows)}
-	for _, r := range rows {
-		e := r.Pred[comp] - r.Sim[comp]
-		abs = append(abs, math.Abs(e))
-		if math.Abs(e) >= s.Worst {
-			s.Worst, s.WorstSigned, s.WorstAt = math.Abs(e), e, r.Device+" @ "+r.Point
-		}
-	}
-	s.Median = median(abs)
-	return s
+	return statsOf(rows, func(r *Row) float64 { return r.Pred[comp] - r.Sim[comp] })
 }
 
 // screenVerdict compares the row's cross-conduction and false turn-on

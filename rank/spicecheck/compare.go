@@ -176,10 +176,17 @@ type Stats struct {
 
 // ErrStats summarises the relative errors of a component over rows.
 func ErrStats(rows []Row, comp string) Stats {
+	return statsOf(rows, func(r *Row) float64 { return r.Err(comp) })
+}
+
+// statsOf summarises the error err of each row: the median |error| and
+// the worst, with its sign and place.
+func statsOf(rows []Row, err func(*Row) float64) Stats {
 	var abs []float64
 	s := Stats{}
-	for _, r := range rows {
-		e := r.Err(comp)
+	for i := range rows {
+		r := &rows[i]
+		e := err(r)
 		abs = append(abs, math.Abs(e))
 		if math.Abs(e) >= s.Worst {
 			s.Worst, s.WorstSigned, s.WorstAt = math.Abs(e), e, r.Device+" @ "+r.Point
