@@ -18,7 +18,7 @@ func TestClosestColumns(t *testing.T) {
 		{"rdson", []string{"rds_on"}},
 		{"qg_vsg", []string{"qg_vgs"}}, // two characters swapped: one edit
 		{"vgsth_max", []string{"vgs_th_max"}},
-		{"coss_", []string{"coss"}},
+		{"coss_", []string{"coss", "coss2"}}, // one edit from each
 		{"tx", []string{"tr", "tf"}},
 		{"colour", nil},
 		{"vendor_ref", nil},

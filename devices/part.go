@@ -182,6 +182,12 @@ type Part struct {
 	Crss   q.Opt[q.Capacitance] `csv:"crss"`    // reverse transfer capacitance, F
 	CapVds q.Opt[q.Voltage]     `csv:"cap_vds"` // drain voltage of ciss/coss/crss, V
 
+	// The capacitances at a second drain voltage, read off the
+	// datasheet's C–V curve (docs/models.md, "Miller law").
+	Coss2   q.Opt[q.Capacitance] `csv:"coss2"`    // output capacitance at cap2_vds, F
+	Crss2   q.Opt[q.Capacitance] `csv:"crss2"`    // reverse transfer capacitance at cap2_vds, F
+	Cap2Vds q.Opt[q.Voltage]     `csv:"cap2_vds"` // drain voltage of coss2/crss2, V; not cap_vds
+
 	// Output charge and energy, integrated from 0 V to oss_vds.
 	Qoss   q.Opt[q.Charge]  `csv:"qoss"`    // output charge, C
 	Eoss   q.Opt[q.Energy]  `csv:"eoss"`    // energy stored in the output capacitance, J

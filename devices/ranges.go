@@ -98,6 +98,9 @@ var plausibleRanges = [...]plausible{
 	{col: "coss", lo: 0.5e-12, hi: 100e-9, prefer: "p"},
 	{col: "crss", lo: 50e-15, hi: 100e-9, prefer: "p"},
 	{col: "cap_vds", lo: vTestLo, hi: vRating},
+	{col: "coss2", lo: 0.5e-12, hi: 100e-9, prefer: "p"},
+	{col: "crss2", lo: 50e-15, hi: 100e-9, prefer: "p"},
+	{col: "cap2_vds", lo: vTestLo, hi: vRating},
 
 	// Output charge and energy.
 	{col: "qoss", lo: 10e-12, hi: 50e-6, prefer: "n"},

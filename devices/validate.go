@@ -132,6 +132,9 @@ func (v *validator) run() {
 	optPositive(v, "coss", p.Coss)
 	optPositive(v, "crss", p.Crss)
 	optPositive(v, "cap_vds", p.CapVds)
+	optPositive(v, "coss2", p.Coss2)
+	optPositive(v, "crss2", p.Crss2)
+	optPositive(v, "cap2_vds", p.Cap2Vds)
 	optPositive(v, "qoss", p.Qoss)
 	optPositive(v, "eoss", p.Eoss)
 	optPositive(v, "oss_vds", p.OssVds)
@@ -267,6 +270,20 @@ func (v *validator) run() {
 		if len(by) > 0 {
 			v.add("cap_vds", ErrMissingValue, "needed by %s (its test condition)", strings.Join(by, ", "))
 		}
+	}
+	v.needs("coss2", p.Coss2.OK, "cap2_vds", p.Cap2Vds.OK)
+	v.needs("crss2", p.Crss2.OK, "cap2_vds", p.Cap2Vds.OK)
+	if p.Cap2Vds.OK && p.CapVds.OK && v.ok("cap2_vds", "cap_vds") && p.Cap2Vds.V == p.CapVds.V {
+		v.add("cap2_vds", ErrInconsistent, "%s: the same voltage as cap_vds; the second point must be at another voltage", fmtq(p.Cap2Vds.V))
+	}
+	if p.Crss2.OK && !p.Crss.OK && v.ok("crss2", "crss") {
+		v.add("crss", ErrMissingValue, "needed by crss2 (the second point of the same curve)")
+	}
+	if p.Coss2.OK && !(p.Coss.OK || p.Qoss.OK || p.Eoss.OK) && v.ok("coss2", "coss", "qoss", "eoss") {
+		v.add("coss", ErrMissingValue, "needed by coss2 (the second point of the same curve)")
+	}
+	if p.Crss2.OK && p.Coss2.OK && v.ok("crss2", "coss2") && p.Crss2.V > p.Coss2.V {
+		v.add("crss2", ErrInconsistent, "%s: exceeds coss2 (%s)", fmtq(p.Crss2.V), fmtq(p.Coss2.V))
 	}
 	if p.Crss.OK && p.Coss.OK && v.ok("crss", "coss") && p.Crss.V > p.Coss.V {
 		v.add("crss", ErrInconsistent, "%s: exceeds coss (%s)", fmtq(p.Crss.V), fmtq(p.Coss.V))

@@ -78,6 +78,8 @@ func ParallelPart(p *devices.Part, n int) (devices.Part, error) {
 	mulOpt(&c.Ciss, k)
 	mulOpt(&c.Coss, k)
 	mulOpt(&c.Crss, k)
+	mulOpt(&c.Coss2, k)
+	mulOpt(&c.Crss2, k)
 	mulOpt(&c.Qoss, k)
 	mulOpt(&c.Eoss, k)
 	mulOpt(&c.EossLoss, k)
