@@ -57,7 +57,7 @@ func (m *devModel) prepare() {
 	if d.HasMiller {
 		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
 		if m.hard {
-			m.rise = d.Rise.AtPoint(m.oss)
+			m.rise = d.Rise.AtPoint(&d.Miller, m.oss)
 			m.risePow = loss.NewPowNear(&d.RisePow)
 			m.cossSmall = q.Capacitance(m.rise.CossTop())
 		}

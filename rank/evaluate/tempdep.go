@@ -80,6 +80,11 @@ func (m *devModel) transitionsAt(a *tempState) (igOn, igOff q.Current) {
 		hOff := max((vth+a.vplOff)/2-drv.VOff, 1e-3)
 		a.trans.Tir = loss.CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, m.lcs, st.IOn)
 		a.trans.Tif = loss.CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, m.lcs, st.IOff)
+		a.tir0, a.tif0 = a.trans.Tir, a.trans.Tif
+		if m.lcs > 0 {
+			a.tir0 = loss.CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, 0, st.IOn)
+			a.tif0 = loss.CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, 0, st.IOff)
+		}
 		a.trans.Tvf = chargeTime(m.qgdV, igOn)
 		a.trans.Tvr = chargeTime(m.qgdV, igOff)
 		a.tRise, a.tFall = a.trans.Tir, a.trans.Tif
@@ -102,6 +107,7 @@ func (m *devModel) transitionsAt(a *tempState) (igOn, igOff q.Current) {
 	// The loop current changes over the whole stated time: a
 	// lower bound on di/dt (docs/second-order.md).
 	a.tRise, a.tFall = ton, toff
+	a.tir0, a.tif0 = ton, toff
 	return igOn, igOff
 }
 
@@ -116,16 +122,20 @@ func (m *devModel) overlapAt(a *tempState, igOn, igOff q.Current) {
 	if st.HardOn {
 		eMiller := loss.OverlapEnergy(v, st.IOn, 0, a.trans.Tvf)
 		if d.HasMiller {
-			eMiller = loss.MillerFallEnergy(d.Miller, v, st.IOn, igOn)
+			eMiller = loss.MillerFallEnergy(&d.Miller, v, st.IOn, igOn)
 		}
 		if d.Method == fit.MethodGateCharge {
-			a.eon = loss.CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop) + eMiller
+			a.eon = loss.SquareLawRiseEnergy(v, st.IOn, a.tir0, a.trans.Tir-a.tir0, m.lloop) + eMiller
 		} else {
 			a.eon = eMiller
 		}
 	}
 	if st.HardOff {
-		a.eoff = loss.CurrentFallEnergy(v, st.IOff, a.tFall, m.lloop)
+		if d.Method == fit.MethodGateCharge {
+			a.eoff = loss.SquareLawFallEnergy(v, st.IOff, a.tif0, a.tFall-a.tif0, m.lloop)
+		} else {
+			a.eoff = loss.CurrentFallEnergy(v, st.IOff, a.tFall, m.lloop)
+		}
 		if d.HasMiller {
 			// The load current charges Coss while the voltage rises:
 			// the channel keeps only the rest (the Miller rise energy, loss.RiseIntegral).
@@ -134,7 +144,7 @@ func (m *devModel) overlapAt(a *tempState, igOn, igOff q.Current) {
 			// The loop's stored ½·L·I² is counted in the switch
 			// (docs/second-order.md; the ngspice cells agree within
 			// the suite's tolerance, docs/spice-crosscheck.md).
-			a.eoff = evr + loss.CurrentFallEnergy(v, iTop, a.tFall, 0) +
+			a.eoff = evr + loss.SquareLawFallEnergy(v, iTop, a.tif0, a.tFall-a.tif0, 0) +
 				q.Energy(0.5*float64(m.lloop)*float64(st.IOff)*float64(st.IOff))
 		} else if d.Method == fit.MethodGateCharge {
 			a.iTop = st.IOff
@@ -148,34 +158,28 @@ func (m *devModel) overlapAt(a *tempState, igOn, igOff q.Current) {
 // finish adds to a, computed by at, what the thermal loop does not need:
 // the shares of the common-source and loop inductances and the drain peak.
 func (m *devModel) finish(a *tempState) {
-	d, st, drv := m.d, m.st, m.drv
+	d, st := m.d, m.st
 	a.vpeak = st.V
-	a.tir0, a.tif0 = a.trans.Tir, a.trans.Tif
 	a.elcsOn, a.elcsOff, a.eloop = 0, 0, 0
 	if !m.hard || !m.driveOK {
 		return
 	}
 	v := st.V
-	if m.lcs > 0 { // gate-charge method only
-		hOn := max(drv.VOn-(a.vth+a.vplOn)/2, 1e-3)
-		hOff := max((a.vth+a.vplOff)/2-drv.VOff, 1e-3)
-		a.tir0 = loss.CurrentTransitionTime(m.qgs2On, hOn, m.rOn, drv.IPeakSource, 0, st.IOn)
-		a.tif0 = loss.CurrentTransitionTime(m.qgs2Off, hOff, m.rOff, drv.IPeakSink, 0, st.IOff)
-	}
 	if st.HardOn && d.Method == fit.MethodGateCharge {
-		eir := loss.CurrentRiseEnergy(v, st.IOn, a.trans.Tir, m.lloop)
+		tL := a.trans.Tir - a.tir0 // the common-source inductance's share (transitionsAt)
+		eir := loss.SquareLawRiseEnergy(v, st.IOn, a.tir0, tL, m.lloop)
 		if m.lcs > 0 {
-			a.elcsOn = eir - loss.CurrentRiseEnergy(v, st.IOn, a.tir0, m.lloop)
+			a.elcsOn = eir - loss.SquareLawRiseEnergy(v, st.IOn, a.tir0, 0, m.lloop)
 		}
 		if m.lloop > 0 {
-			a.eloop = eir - loss.CurrentRiseEnergy(v, st.IOn, a.trans.Tir, 0)
+			a.eloop = eir - loss.SquareLawRiseEnergy(v, st.IOn, a.tir0, tL, 0)
 		}
 	}
 	if !st.HardOff {
 		return
 	}
 	if m.lcs > 0 {
-		a.elcsOff = loss.OverlapEnergy(v, a.iTop, a.trans.Tif-a.tif0, 0)
+		a.elcsOff = loss.SquareLawFallEnergy(v, a.iTop, 0, a.trans.Tif-a.tif0, 0)
 	}
 	if m.lloop > 0 {
 		a.eloop += q.Energy(0.5 * float64(m.lloop) * float64(st.IOff) * float64(st.IOff))

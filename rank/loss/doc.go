@@ -4,10 +4,11 @@
 //	conduction.go   on-resistance against gate voltage, I²·R, dynamic on-resistance
 //	temperature.go  laws of on-resistance, threshold and ratings against temperature
 //	gate.go         the gate-charge curve, gate energy and its split, gate currents
-//	overlap.go      hard-switching intervals and V·I overlap, the Miller law
+//	overlap.go      hard-switching intervals and V·I overlap, the turn-off voltage rise
+//	miller.go       the Miller law of Cgd(v) and the turn-on voltage fall
 //	oss.go          output-capacitance laws and their energies at hard and soft turn-on
 //	diode.go        reverse conduction in the dead time, recovery
-//	parasitic.go    common-source and loop inductance, gate bounce
+//	parasitic.go    common-source and loop inductance, square-law current edges, gate bounce
 //	series.go       numeric speed helpers of the hot path (no physics)
 //
 // Each function's doc comment names its published source; docs/models.md

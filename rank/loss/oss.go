@@ -166,3 +166,14 @@ func SwingResidual(s, k OssLaw, v q.Voltage, dq q.Charge) q.Voltage {
 func OssFromEnergy(eoss q.Energy, v q.Voltage, n float64) OssLaw {
 	return OssLaw{K: float64(eoss) * (2 - n) / math.Pow(float64(v), 2-n), N: n}
 }
+
+// OssExponent is the exponent N of C = K·v^(−N) through two small-signal
+// points of the datasheet's capacitance curve, ln(c1/c2)/ln(v2/v1),
+// within the law's [0, 0.95].
+//
+// Source: the power law of OssLaw read off two points of a log-log
+// curve (Erickson & Maksimović 2001, ch. 4, for the law).
+func OssExponent(c1 q.Capacitance, v1 q.Voltage, c2 q.Capacitance, v2 q.Voltage) float64 {
+	n := math.Log(float64(c1/c2)) / math.Log(float64(v2/v1))
+	return min(max(n, 0), 0.95)
+}

@@ -81,128 +81,120 @@ func ScaleSwitchingTime(tSpec q.Time, rSpec, rNew q.Resistance, headSpec, headNe
 	return q.Time(t)
 }
 
-// MillerLaw is the gate-drain capacitance along the voltage transition as
-// two constants with a knee: Clo below the knee voltage Vk (the drift region
-// not yet depleted, Cgd large) and Chi above it (Crss as the datasheet
-// states it at its test voltage). Clo is chosen so that the charge from 0 to
-// the gate-charge test voltage equals the datasheet Qgd.
-//
-// Source: the shape of Cgd(v) of a power MOSFET, large below Vds ≈ Vgs − Vth
-// and small above (Baliga 2008, ch. 6); the use of Cgd(v) along the
-// transition instead of one lumped Qgd follows Ren, Xu, Zhou, Lee,
-// "Analytical loss model of power MOSFET", IEEE Trans. Power Electronics,
-// 2006 (from memory). The two-constant construction from datasheet numbers
-// is swrank's own, checked against ngspice (docs/spice-crosscheck.md).
-type MillerLaw struct {
-	Vk       q.Voltage     // knee voltage, V; > 0
-	Clo, Chi q.Capacitance // below and above the knee, F; Clo ≥ Chi > 0
-}
-
-// FitMillerLaw builds the law from Qgd at vqg, Crss and the plateau vpl
-// (the knee is at the plateau, or at vqg if lower).
-func FitMillerLaw(qgd q.Charge, vqg q.Voltage, crss q.Capacitance, vpl q.Voltage) MillerLaw {
-	vk := min(vpl, vqg)
-	if vk <= 0 {
-		vk = vqg
-	}
-	clo := (float64(qgd) - float64(crss)*math.Max(0, float64(vqg-vk))) / float64(vk)
-	return MillerLaw{Vk: vk, Clo: q.Capacitance(math.Max(clo, float64(crss))), Chi: crss}
-}
-
-// Charge is ∫₀^v Cgd dx, the Miller charge of a transition of v.
-func (m MillerLaw) Charge(v q.Voltage) q.Charge {
-	if v <= m.Vk {
-		return q.Charge(float64(m.Clo) * float64(max(v, 0)))
-	}
-	return q.Charge(float64(m.Clo)*float64(m.Vk) + float64(m.Chi)*float64(v-m.Vk))
-}
-
-// moment is ∫₀^v x·Cgd(x) dx, J/V·V = C·V.
-func (m MillerLaw) moment(v q.Voltage) float64 {
-	if v <= m.Vk {
-		return float64(m.Clo) * float64(v) * float64(v) / 2
-	}
-	return float64(m.Clo)*float64(m.Vk)*float64(m.Vk)/2 + float64(m.Chi)*(float64(v)*float64(v)-float64(m.Vk)*float64(m.Vk))/2
-}
-
-// MillerFallEnergy is the V·I overlap energy of a hard turn-on's voltage
-// fall when the gate current ig moves the drain through Cgd(v): the time to
-// move by dv is Cgd(v)·dv/ig, so E = (i/ig)·∫₀^V v·Cgd(v) dv.
-//
-// Source: Ren et al., IEEE TPEL 2006 (from memory); derived from the
-// gate-charge method (Balogh 2001) with a voltage-dependent Cgd.
-func MillerFallEnergy(m MillerLaw, v q.Voltage, i, ig q.Current) q.Energy {
-	if ig <= 0 || i <= 0 {
-		return 0
-	}
-	return q.Energy(float64(i) / float64(ig) * m.moment(v))
-}
-
 // millerRiseEnergy is the turn-off voltage-rise energy when the load current
-// i also charges the output capacitance: while the gate current ig sets the
-// rate dv/dt = ig/Cgd(v), the capacitances take Coss(v)·dv/dt of the load
-// current and the channel carries the rest, i − ig·Coss(v)/Cgd(v) (not less
-// than 0). The channel loss is ∫ v·i_ch dt = ∫₀^V v·max(0, (i/ig)·Cgd(v) −
-// Coss(v)) dv, in closed form for the power-law Coss. iTop is the channel
-// current left when the voltage reaches V, which the current-fall interval
-// then turns off. At light load the channel is off before the drain moves
-// and the turn-off is nearly lossless.
+// i also charges the drain's capacitances: while the gate current ig sets
+// the rate dv/dt = ig/Cgd(v) (Cgd on the plateau), the gate-drain
+// capacitance takes ig itself and the drain-source capacitance
+// Cds(v)·dv/dt of the load current, and the channel carries the rest,
+// i − ig − ig·Cds(v)/Cgd(v) (not less than 0). The channel loss is
+// ∫ v·i_ch dt = ∫₀^V v·max(0, (i/ig − 1)·Cgd(v) − Cds(v)) dv, in closed form
+// for a power-law Cds. Cds is the datasheet's Coss less its Crss, taken as
+// the share cdsShare of Coss at every voltage (1 − Crss/Coss at the
+// capacitance test's voltage): the datasheet Coss holds the small-signal
+// Cgd at Vdg = Vds, below the plateau's Cgd at Vdg = Vds − Vpl, which the
+// gate current already moves. iTop is the channel current left when the
+// voltage reaches V, which the current-fall interval then turns off. At
+// light load the channel is off before the drain moves and the turn-off is
+// nearly lossless.
 //
 // Source: Ren et al., IEEE TPEL 2006 (from memory: Coss charging shortens
-// the channel's current overlap); the closed form is derived here for
-// C_oss = K·v^(−N) and a two-constant Cgd, and checked against ngspice
+// the channel's current overlap); Kirchhoff's current law at the drain
+// node, the closed form for C_ds = K·v^(−N) and a piecewise-constant Cgd
+// (MillerLaw) derived here and checked against ngspice
 // (docs/spice-crosscheck.md).
-func millerRiseEnergy(m MillerLaw, oss OssLaw, v q.Voltage, i, ig q.Current) (q.Energy, q.Current) {
-	r := newRiseIntegral(m, oss, v)
+func millerRiseEnergy(m MillerLaw, oss OssLaw, cdsShare float64, v q.Voltage, i, ig q.Current) (q.Energy, q.Current) {
+	r := newRiseIntegral(&m, oss, cdsShare, v)
 	return r.Energy(i, ig)
 }
 
 // RiseIntegral is millerRiseEnergy with the parts that do not depend on the
 // currents worked out once (the thermal loop changes only the gate
-// current).
+// current). Its device part is the device's RiseTable and Miller law.
 type RiseIntegral struct {
-	m       MillerLaw
-	k, n    float64    // output-capacitance law
-	v, vk   float64    // switched voltage and min(knee, v), V
-	pvk, pv float64    // vk^(2−N) and v^(2−N)
-	xc      [2]float64 // (K/Clo)^(1/N), (K/Chi)^(1/N): the crossing for a = 1
-	epsN    float64    // riseEps^N
-	// Bounds on a = i/ig that decide a segment without a power evaluation:
-	// at or below zero[k] the segment's integrand is nowhere positive; at or
-	// above full[k] it is positive on the whole segment (for the first
-	// segment, from riseEps·vk on: the part below adds under riseEps²
-	// relative).
-	zero, full [2]float64
-	cossTop    float64 // Coss(v), F
-	cgdTop     float64 // Cgd at v, F
-	cossPerCgd float64 // cossTop/cgdTop
-	kInv, kN   float64 // 1/K and K/(2 − N), for the segments without dividing
-	positive   bool    // v > 0
+	t         *RiseTable
+	m         *MillerLaw
+	v, pv     float64 // switched voltage, V, and v^(2−N)
+	top       int     // the Miller law's segment holding v
+	zeroTop   float64 // zero bound of the top segment, which ends at v
+	fullTop   float64 // full bound of the top segment
+	cossTop   float64 // Coss(v), F
+	cgdTop    float64 // Cgd at v, F
+	cdsPerCgd float64 // Cds(v)/cgdTop
+	positive  bool    // v > 0
+}
+
+// RiseTable is a RiseIntegral's device part (RiseBase): the drain-source
+// capacitance law and, per segment of the device's Miller law, the powers
+// and bounds that make an evaluation cheap. It holds no Miller law of its
+// own: At takes the one it was made from.
+type RiseTable struct {
+	k, n     float64 // drain-source capacitance law, Cds = K·v^−N
+	cossK    float64 // the output-capacitance law's K (Coss = cossK·v^−N)
+	kInv, kN float64 // 1/K and K/(2 − N), for the segments without dividing
+	epsN     float64 // riseEps^N
+	// Per segment: its lower bound's power lo^(2−N); xc = (K/C)^(1/N),
+	// the crossing for a = 1; and the bounds on a = i/ig − 1 that decide
+	// a whole segment (ending at the next bound) without a power
+	// evaluation: at or below zero[k] the integrand is nowhere positive;
+	// at or above full[k] it is positive on the whole segment (for the
+	// first segment, from riseEps·hi on: the part below adds under
+	// riseEps² relative).
+	plo, xc, zero, full [millerMax]float64
 }
 
 // newRiseIntegral prepares millerRiseEnergy for law m, output capacitance
-// oss and switched voltage v.
-func newRiseIntegral(m MillerLaw, oss OssLaw, v q.Voltage) RiseIntegral {
-	b := RiseBase(m, oss)
-	return b.At(v)
+// oss, its drain-source share and switched voltage v.
+func newRiseIntegral(m *MillerLaw, oss OssLaw, cdsShare float64, v q.Voltage) RiseIntegral {
+	b := RiseBase(m, oss, cdsShare)
+	return b.At(m, v)
+}
+
+// CdsShare is the drain-source share of the output capacitance at the
+// capacitance test's voltage, 1 − Crss/Coss, within [0, 1].
+func CdsShare(crss, coss q.Capacitance) float64 {
+	if !(coss > 0) {
+		return 1
+	}
+	return min(max(1-float64(crss/coss), 0), 1)
 }
 
 // RiseBase is the part of a RiseIntegral that belongs to the device alone
-// (worked out once per part); At completes it for a voltage.
-func RiseBase(m MillerLaw, oss OssLaw) RiseIntegral {
-	r := RiseIntegral{m: m, k: oss.K, n: oss.N, vk: float64(m.Vk)}
-	if r.k > 0 {
-		r.kInv = 1 / r.k
+// (worked out once per part, for its Miller law m); At completes it for a
+// voltage. cdsShare is CdsShare at the capacitance test.
+func RiseBase(m *MillerLaw, oss OssLaw, cdsShare float64) RiseTable {
+	t := RiseTable{k: oss.K * cdsShare, n: oss.N, cossK: oss.K}
+	if t.k > 0 {
+		t.kInv = 1 / t.k
 	}
-	r.kN = r.k / (2 - r.n)
-	if m.Vk > 0 {
-		r.pvk = math.Pow(r.vk, 2-r.n)
+	t.kN = t.k / (2 - t.n)
+	if t.n > 0 {
+		t.epsN = powPos(riseEps, t.n)
 	}
-	if r.n > 0 {
-		r.xc = [2]float64{math.Pow(r.k/float64(m.Clo), 1/r.n), math.Pow(r.k/float64(m.Chi), 1/r.n)}
-		r.epsN = math.Pow(riseEps, r.n)
+	for s := 0; s < m.n; s++ {
+		if lo := m.lo[s]; lo > 0 {
+			t.plo[s] = powPos(lo, 2-t.n)
+		}
 	}
-	return r
+	for s := 0; s < m.n && t.n > 0; s++ {
+		c := m.c[s]
+		if !(c > 0) {
+			continue
+		}
+		t.xc[s] = powPos(t.k/c, 1/t.n)
+		// x^N = x²/x^(2−N).
+		if s+1 < m.n {
+			hi := m.lo[s+1]
+			hiN := hi * hi / t.plo[s+1]
+			t.zero[s] = t.k / (c * hiN)
+			if s == 0 {
+				t.full[s] = t.k / (c * t.epsN * hiN)
+			}
+		}
+		if lo := m.lo[s]; s > 0 {
+			t.full[s] = t.k / (c * lo * lo / t.plo[s])
+		}
+	}
+	return t
 }
 
 // riseEps bounds the part of the first segment that Energy may neglect
@@ -210,85 +202,97 @@ func RiseBase(m MillerLaw, oss OssLaw) RiseIntegral {
 // which holds under riseEps² of the segment.
 const riseEps = 1e-4
 
-// At completes a RiseBase for switched voltage v (one power evaluation).
-func (b *RiseIntegral) At(v q.Voltage) RiseIntegral {
+// At completes the table, made from Miller law m, for switched voltage v
+// (one power evaluation).
+func (t *RiseTable) At(m *MillerLaw, v q.Voltage) RiseIntegral {
 	pv := 0.0
 	if v > 0 {
-		pv = powPos(float64(v), 2-b.n)
+		pv = powPos(float64(v), 2-t.n)
 	}
-	return b.AtPower(v, pv)
+	return t.AtPower(m, v, pv)
 }
 
 // AtPower is At with v^(2−N) given (OssPoint's, for the same law).
-func (b *RiseIntegral) AtPower(v q.Voltage, pv float64) RiseIntegral {
-	r := *b
+func (t *RiseTable) AtPower(m *MillerLaw, v q.Voltage, pv float64) RiseIntegral {
+	r := RiseIntegral{t: t, m: m}
 	r.v, r.positive = float64(v), v > 0
 	if !r.positive {
 		return r
 	}
 	r.pv = pv
-	r.cossTop = r.k * r.pv / (r.v * r.v) // K·v^−N
-	r.cgdTop = float64(r.m.Chi)
-	if v <= r.m.Vk {
-		r.vk, r.pvk = r.v, r.pv
-		r.cgdTop = float64(r.m.Clo)
-	}
-	r.cossPerCgd = r.cossTop / r.cgdTop
-	if r.n > 0 && r.vk > 0 {
+	cdsTop := t.k * r.pv / (r.v * r.v) // K·v^−N
+	r.cossTop = t.cossK * r.pv / (r.v * r.v)
+	r.top = m.seg(r.v)
+	r.cgdTop = m.c[r.top]
+	r.cdsPerCgd = cdsTop / r.cgdTop
+	if t.n > 0 {
 		// x ≥ xs = (K/(a·c))^(1/N) ⇔ a ≥ K/(c·x^N); x^N = x²/x^(2−N).
-		vkN, vN := r.vk*r.vk/r.pvk, r.v*r.v/r.pv
-		clo, chi := float64(r.m.Clo), float64(r.m.Chi)
-		r.zero = [2]float64{r.k / (clo * vkN), r.k / (chi * vN)}
-		r.full = [2]float64{r.k / (clo * r.epsN * vkN), r.k / (chi * vkN)}
+		vN := r.v * r.v / r.pv
+		r.zeroTop = t.k / (r.cgdTop * vN)
+		r.fullTop = t.full[r.top]
+		if r.top == 0 {
+			r.fullTop = t.k / (r.cgdTop * t.epsN * vN)
+		}
 	}
 	return r
 }
 
 // Energy returns the channel's voltage-rise energy and the current left
-// when the voltage reaches v (millerRiseEnergy). With a = i/ig the
+// when the voltage reaches v (millerRiseEnergy). With a = i/ig − 1 the
 // integrand of a segment of Cgd = c is positive above xs = (K/(a·c))^(1/N)
-// = xc·a^(−1/N): one power evaluation serves both segments.
+// = xc·a^(−1/N): one power evaluation serves every segment.
 func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 	return r.EnergyNear(i, ig, nil)
 }
 
-// energy is Energy with the power a^(−1/N) taken from pw when it is given
-// (the thermal loop's repeated calls; PowNear to RiseTol). The crossing
-// xs = xc·a^(−1/N) enters the energy at first order (through
+// EnergyNear is Energy with the power a^(−1/N) taken from pw when it is
+// given (the thermal loop's repeated calls; PowNear to RiseTol). The
+// crossing xs = xc·a^(−1/N) enters the energy at first order (through
 // xs^(2−N) = xs²·a·c/K, exact only at the exact crossing), so the energy
 // keeps about the same relative error, 10⁻¹².
 func (r *RiseIntegral) EnergyNear(i, ig q.Current, pw *PowNear) (q.Energy, q.Current) {
 	if ig <= 0 || i <= 0 || !r.positive {
 		return 0, max(i, 0)
 	}
-	a := float64(i) / float64(ig)
-	// xs per segment: 0 (positive throughout), +Inf (nowhere), or
-	// xc·a^(−1/N) when a lies between the segment's bounds.
-	var xs [2]float64
-	s := math.NaN()
-	for k := range xs {
+	t, m := r.t, r.m
+	iTop := math.Max(float64(i)-float64(ig)*(1+r.cdsPerCgd), 0)
+	a := float64(i)/float64(ig) - 1
+	if a <= 0 {
+		return 0, q.Current(iTop)
+	}
+	s := math.NaN() // a^(−1/N), computed once when a segment needs it
+	e := 0.0
+	for k := 0; k <= r.top; k++ {
+		zero, full := t.zero[k], t.full[k]
+		lo, hi, plo, phi := m.lo[k], 0.0, t.plo[k], 0.0
+		if k == r.top {
+			zero, full, hi, phi = r.zeroTop, r.fullTop, r.v, r.pv
+		} else {
+			hi, phi = m.lo[k+1], t.plo[k+1]
+		}
+		// xs: 0 (positive throughout), +Inf (nowhere), or xc·a^(−1/N)
+		// when a lies between the segment's bounds.
+		xs := 0.0
 		switch {
-		case r.n == 0:
-		case a <= r.zero[k]:
-			xs[k] = math.Inf(1)
-		case a >= r.full[k]:
+		case t.n == 0:
+		case a <= zero:
+			continue
+		case a >= full:
 		default:
-			if s != s { // one power evaluation serves both segments
-				if r.n == 0.5 {
+			if s != s {
+				if t.n == 0.5 {
 					s = 1 / (a * a) // the √ law: a^−2
 				} else if pw != nil && pw.s != nil {
 					s = pw.at(a)
 				} else {
-					s = powPos(a, -1/r.n)
+					s = powPos(a, -1/t.n)
 				}
 			}
-			xs[k] = r.xc[k] * s
+			xs = t.xc[k] * s
 		}
+		e += r.seg(a*m.c[k], xs, lo, hi, plo, phi)
 	}
-	e := r.seg(a*float64(r.m.Clo), xs[0], 0, r.vk, 0, r.pvk) +
-		r.seg(a*float64(r.m.Chi), xs[1], r.vk, r.v, r.pvk, r.pv)
-	iTop := float64(i) - float64(ig)*r.cossPerCgd
-	return q.Energy(e), q.Current(math.Max(iTop, 0))
+	return q.Energy(e), q.Current(iTop)
 }
 
 // seg integrates x·(ac − K·x^−N) over [lo, hi] where it is positive, that
@@ -297,20 +301,21 @@ func (r *RiseIntegral) seg(ac, xs, lo, hi, plo, phi float64) float64 {
 	if hi <= lo || ac <= 0 {
 		return 0
 	}
-	if r.n == 0 {
-		if ac <= r.k {
+	t := r.t
+	if t.n == 0 {
+		if ac <= t.k {
 			return 0
 		}
-		return (ac - r.k) * (hi*hi - lo*lo) / 2
+		return (ac - t.k) * (hi*hi - lo*lo) / 2
 	}
 	if xs > lo {
 		if xs >= hi {
 			return 0
 		}
 		// xs^(2−N) = xs²/xs^N = xs²·ac/K.
-		lo, plo = xs, xs*xs*ac*r.kInv
+		lo, plo = xs, xs*xs*ac*t.kInv
 	}
-	return ac*(hi*hi-lo*lo)/2 - r.kN*(phi-plo)
+	return ac*(hi*hi-lo*lo)/2 - t.kN*(phi-plo)
 }
 
 // RiseSeries prepares the power series of the turn-off integral's
@@ -320,7 +325,7 @@ func RiseSeries(oss OssLaw) PowSeries { return NewPowSeries(-1/oss.N, RiseTol) }
 
 // AtPoint is At(p.V) with the output-capacitance power already computed
 // for p (the evaluation computes one OssPoint per device and voltage).
-func (b *RiseIntegral) AtPoint(p OssPoint) RiseIntegral { return b.AtPower(p.V, p.pv) }
+func (t *RiseTable) AtPoint(m *MillerLaw, p OssPoint) RiseIntegral { return t.AtPower(m, p.V, p.pv) }
 
 // CossTop is the small-signal output capacitance at the integral's
 // voltage, F.

@@ -74,6 +74,53 @@ func CurrentFallEnergy(v q.Voltage, i q.Current, t q.Time, l q.Inductance) q.Ene
 	return q.Energy(0.5*float64(v)*float64(i)*float64(max(t, 0)) + 0.5*float64(l)*float64(i)*float64(i))
 }
 
+// SquareLawRiseEnergy is CurrentRiseEnergy for a channel that follows the
+// square law, i ∝ x² with x the gate's fraction of the way from threshold
+// to plateau, in the gate-charge method's current interval of length
+// tR + tL: tR = r·Qgs2/head is the gate loop's own share and tL =
+// lcs·i/head the common-source inductance's (CurrentTransitionTime). The
+// gate moves by dx in (tR + 2·tL·x)·dx (the source inductance takes
+// lcs·di/dt = lcs·gm·dv_gs/dt, gm ∝ x, out of the headroom), so the current
+// stays small at first and ∫i dt = i·(tR/3 + tL/2): two thirds of the linear
+// ramp's ½·i·t without common-source inductance, the linear ramp's when
+// it dominates. With loop inductance l the switch sees v − l·di/dt, which
+// grows along the interval: the energy is v·i·(tR·x*³/3 + tL·x*⁴/2) −
+// ½·l·i²·x*⁴, with x* = 1 unless the switch voltage reaches zero first, at
+// x* = v·tR/(2·(l·i − v·tL)).
+//
+// Source: the square-law channel, i ∝ (v_gs − V_th)² in saturation
+// (Shichman & Hodges, "Modeling and simulation of insulated-gate
+// field-effect transistor switching circuits", IEEE J. Solid-State
+// Circuits, 1968), with the gate loop of the gate-charge method (Balogh
+// 2001) and the source-inductance feedback of Ren et al., IEEE TPEL 2006
+// (from memory), integrated here; checked against ngspice VDMOS cells
+// (docs/spice-crosscheck.md).
+func SquareLawRiseEnergy(v q.Voltage, i q.Current, tR, tL q.Time, l q.Inductance) q.Energy {
+	if tR+tL <= 0 || i <= 0 || v <= 0 {
+		return 0
+	}
+	vv, ii, tr, tl := float64(v), float64(i), float64(tR), float64(tL)
+	x := 1.0
+	if d := 2 * (float64(l)*ii - vv*tl); d > 0 {
+		x = min(1, vv*tr/d)
+	}
+	x3 := x * x * x
+	return q.Energy(vv*ii*(tr*x3/3+tl*x3*x/2) - 0.5*float64(l)*ii*ii*x3*x)
+}
+
+// SquareLawFallEnergy is CurrentFallEnergy for the square-law channel of
+// SquareLawRiseEnergy: the current falls from i along the same path in
+// reverse, ∫i dt = i·(tR/3 + tL/2), and the switch absorbs the loop's
+// ½·l·i² as well: v·i·(tR/3 + tL/2) + ½·l·i².
+//
+// Source: as SquareLawRiseEnergy.
+func SquareLawFallEnergy(v q.Voltage, i q.Current, tR, tL q.Time, l q.Inductance) q.Energy {
+	if i <= 0 {
+		return 0
+	}
+	return q.Energy(float64(v)*float64(i)*(float64(max(tR, 0))/3+float64(max(tL, 0))/2) + 0.5*float64(l)*float64(i)*float64(i))
+}
+
 // LoopOvershoot is the peak voltage across a switch turning off current i
 // through loop inductance l. The channel's share iTop falls linearly in t
 // and adds l·iTop/t; the rest, i − iTop, which the output capacitance was

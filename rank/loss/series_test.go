@@ -24,11 +24,14 @@ func TestPowNear(t *testing.T) {
 			}
 		}
 	}
-	m := MillerLaw{Clo: 400e-12, Chi: 20e-12, Vk: 6}
+	m, err := FitMillerLaw(MillerData{Qgd: 4e-9, VQg: 40, Knee: 6, Crss: []CapPoint{{40, 20e-12}}, M: 0.5, Phi: 0.7, VMax: 60})
+	if err != nil {
+		t.Fatal(err)
+	}
 	for _, n := range []float64{0.4, 0.62, 0.8} {
 		oss := OssLaw{K: 1.2e-9, N: n}
-		base := RiseBase(m, oss)
-		r := base.At(48)
+		base := RiseBase(&m, oss, 0.7)
+		r := base.At(&m, 48)
 		ps := NewPowSeries(-1/n, RiseTol)
 		pw := NewPowNear(&ps)
 		for _, x := range path {

@@ -19,6 +19,7 @@ type Datasheet struct {
 	Vsd               float64 // body-diode drop at ITest, V; > 0
 
 	Ciss, Coss, Crss, CapVds float64 // small-signal capacitances at 1 MHz (F) and their drain bias CapVds (V, half the rating)
+	Coss2, Crss2, Cap2Vds    float64 // Coss and Crss (F) at a second drain bias Cap2Vds (V, a tenth of the rating)
 	RgInt                    float64 // gate resistance at 1 MHz, drain shorted to source, Ω
 	Qoss, Eoss, OssVds       float64 // output charge (C) and energy (J) from 0 V to OssVds (V, half the rating)
 
@@ -134,7 +135,7 @@ func (u *dut) run(ctx context.Context, r *Runner, name, deck string, outputs ...
 }
 
 func characterise(ctx context.Context, r *Runner, m *Model, u *dut) (*Datasheet, error) {
-	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, CapVds: m.VdsMax / 2, OssVds: m.VdsMax / 2,
+	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, CapVds: m.VdsMax / 2, Cap2Vds: m.VdsMax / 10, OssVds: m.VdsMax / 2,
 		QgVgs: vgsHigh, QgVds: m.VdsMax / 2, QgId: m.ITest,
 		TswVdd: m.VdsMax / 2, TswId: m.ITest, TswVgs: vgsHigh, TswRg: tswRg, TswRgen: tswRgen,
 		VthCurrent: vthCurrent}
@@ -198,9 +199,9 @@ func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) err
 }
 
 // capacitances: Ciss (gate driven, drain AC-shorted at CapVds), Coss and
-// Crss (drain driven at CapVds, gate AC-shorted to source) at 1 MHz, and the
-// gate resistance as the real part of the gate impedance with the drain
-// shorted to the source.
+// Crss (drain driven at CapVds, and again at Cap2Vds, gate AC-shorted to
+// source) at 1 MHz, and the gate resistance as the real part of the gate
+// impedance with the drain shorted to the source.
 func capacitances(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
 	var b strings.Builder
 	b.WriteString("* small-signal capacitances\n")
@@ -214,18 +215,21 @@ func capacitances(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datashee
 	// model file.
 	b.WriteString(u.inst("4", "d4", "g4", "0") + "vd4 d4 0 dc 0\nvg4 g4 0 dc 0 ac 1\n")
 	b.WriteString(u.inst("5", "d5", "g5", "0") + "vd5 d5 0 dc 0 ac 1\nvg5 g5 0 dc 0\n")
+	fmt.Fprintf(&b, u.inst("6", "d6", "g6", "0")+"vd6 d6 0 dc %s ac 1\nvg6 g6 0 dc 0\n", num(ds.Cap2Vds))
 	fmt.Fprintf(&b, ".control\n%sac lin 1 %s %s\n", deckPrologue, num(capFreq), num(capFreq))
 	fmt.Fprintf(&b, "let w = 2*pi*%s\n", num(capFreq))
 	b.WriteString("let z1 = -1/i(vg1)\nlet ciss = -1/(w*imag(z1))\n")
 	b.WriteString("let coss = imag(-i(vd2))/w\nlet crss = imag(i(vg2))/w\n")
 	b.WriteString("let z3 = -1/i(vg3)\nlet rgint = real(z3)\n")
 	b.WriteString("let z4 = -1/i(vg4)\nlet ciss0 = -1/(w*imag(z4))\nlet crss0 = imag(i(vg5))/w\n")
-	b.WriteString("wrdata caps.dat ciss coss crss rgint ciss0 crss0\nquit 0\n.endc\n.end\n")
+	b.WriteString("let coss2 = imag(-i(vd6))/w\nlet crss2 = imag(i(vg6))/w\n")
+	b.WriteString("wrdata caps.dat ciss coss crss rgint ciss0 crss0 coss2 crss2\nquit 0\n.endc\n.end\n")
 	t, err := u.run(ctx, r, m.Name+" capacitances", b.String(), "caps.dat")
 	if err != nil {
 		return err
 	}
-	vals := map[string]*float64{"ciss": &ds.Ciss, "coss": &ds.Coss, "crss": &ds.Crss, "rgint": &ds.RgInt}
+	vals := map[string]*float64{"ciss": &ds.Ciss, "coss": &ds.Coss, "crss": &ds.Crss, "rgint": &ds.RgInt,
+		"coss2": &ds.Coss2, "crss2": &ds.Crss2}
 	for n, p := range vals {
 		c, err := t["caps.dat"].Col(n)
 		if err != nil {
@@ -503,6 +507,9 @@ func (ds *Datasheet) Part(m *Model) devices.Part {
 		// energy: no soft-switching hysteresis).
 		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
 		EossLoss: q.Some[q.Energy](0), EossLossVds: v(ds.OssVds),
+	}
+	if ds.Cap2Vds > 0 && ds.Coss2 > 0 && ds.Crss2 > 0 {
+		p.Coss2, p.Crss2, p.Cap2Vds = q.Some(q.Capacitance(ds.Coss2)), q.Some(q.Capacitance(ds.Crss2)), v(ds.Cap2Vds)
 	}
 	// The delay times, when the switching-time test measured them.
 	if ds.TswTdOn > 0 && ds.TswTdOff > 0 {

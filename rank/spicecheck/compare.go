@@ -231,6 +231,31 @@ func Order(rows []Row, pred bool) []string {
 	return out
 }
 
+// BestTie is the simulated margin within which the part swrank puts first
+// counts as the best: 1 % of the simulated best's total loss, well inside
+// the part-to-part spread of a datasheet's typical values (common
+// practice), so that a near tie in the simulation is not scored as a
+// wrong choice. Reports print the margin whenever it is used.
+const BestTie = 0.01
+
+// BestGap is how much more the part swrank puts first loses in the
+// simulation than the simulated best, relative to the latter: 0 when they
+// are the same part.
+func BestGap(rows []Row) float64 {
+	if len(rows) == 0 {
+		return 0
+	}
+	best, pred := math.Inf(1), 0.0
+	first := Order(rows, true)[0]
+	for _, r := range rows {
+		best = min(best, r.Sim[CompTotal])
+		if r.Device == first {
+			pred = r.Sim[CompTotal]
+		}
+	}
+	return pred/best - 1
+}
+
 // Pairs counts the concordant and discordant pairs of the two orderings of
 // rows by total loss (ties count as neither).
 func Pairs(rows []Row) (conc, disc int) {

@@ -3,9 +3,12 @@ package spicecheck
 import (
 	"context"
 	"path/filepath"
-	"swrank/rank/spice"
 	"testing"
 	"time"
+
+	"swrank/devices"
+	q "swrank/devices/quantity"
+	"swrank/rank/spice"
 )
 
 // TestCrossCheckHeldOut runs the held-out devices (HeldOut, drawn from
@@ -55,6 +58,30 @@ func TestCrossCheckHeldOut(t *testing.T) {
 				c.comp, pct(st.Median), 100*c.median, pct(st.WorstSigned), st.WorstAt, 100*c.worst, st.N)
 		}
 	}
+	checkPoints(t, &sum)
+
+	// The same simulations predicted from the datasheet's table alone (no
+	// second capacitance point: the Cgd and Coss shapes estimated). Held
+	// to looser limits: the estimate's spread is the price of the
+	// missing curve (docs/spice-crosscheck.md).
+	one := onePoint(t, s, out)
+	for _, c := range []struct {
+		comp          string
+		median, worst float64
+	}{{CompTotal, 0.05, 0.20}, {CompSwitching, 0.10, 0.30}} {
+		st := one.Comp[c.comp]
+		if st.N == 0 || st.Median > c.median || st.Worst > c.worst {
+			t.Errorf("one capacitance point: %s: median |error| %s (limit %.0f%%), worst %s at %s (limit %.0f%%) over %d rows",
+				c.comp, pct(st.Median), 100*c.median, pct(st.WorstSigned), st.WorstAt, 100*c.worst, st.N)
+		}
+	}
+	checkPoints(t, &one)
+}
+
+// checkPoints holds every point of a held-out summary to ≥ 3 parts
+// compared, the same best part (BestTie) and Kendall τ ≥ 0.9.
+func checkPoints(t *testing.T, sum *Summary) {
+	t.Helper()
 	for _, p := range sum.Points {
 		switch {
 		case p.N < 3:
@@ -65,6 +92,26 @@ func TestCrossCheckHeldOut(t *testing.T) {
 			t.Errorf("%s: Kendall τ %.3f < 0.9", p.Point, p.Tau)
 		}
 	}
+}
+
+// onePoint compares suite s again with the second capacitance point
+// (coss2, crss2, cap2_vds) left blank, writes its report beside the
+// suite's as report-one-point.txt and returns its summary.
+func onePoint(t *testing.T, s *Suite, out string) Summary {
+	t.Helper()
+	one, err := s.Without(func(p *devices.Part) {
+		p.Coss2, p.Crss2, p.Cap2Vds = q.Opt[q.Capacitance]{}, q.Opt[q.Capacitance]{}, q.Opt[q.Voltage]{}
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := one.Summarise()
+	rep := filepath.Join(out, "report-one-point.txt")
+	if err := one.WriteReport(rep, &sum); err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("one capacitance point: %s\n%s", rep, sum.SummaryText())
+	return sum
 }
 
 // heldOutSet returns the cell's configuration and its held-out devices

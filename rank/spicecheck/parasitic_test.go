@@ -179,7 +179,7 @@ func proposedOvershoot(p *devices.Part, pt *spice.Point, r *Row) (float64, error
 	v, i := q.Voltage(e.VBlock), q.Current(pt.Current)
 	rOff := q.Resistance(pt.RSink+pt.RgExt) + dev.RgInt
 	vpl := loss.PlateauAt(dev.Vth, dev.VplSpec, dev.QgId, i)
-	rise := dev.Rise.At(v)
+	rise := dev.Rise.At(&dev.Miller, v)
 	_, iTop := rise.Energy(i, loss.GateCurrent(0, vpl, rOff, 0))
 	c := float64(dev.Oss.C(v))
 	tif := float64(r.Trans.Tif)

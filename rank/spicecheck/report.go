@@ -22,7 +22,8 @@ type PointSummary struct {
 	MedianTotalErr     float64  // median |relative error| of the total
 	WorstTotalErr      float64  // largest relative error of the total, signed
 	WorstTotalDevice   string   // where it is, "device @ point"
-	BestAgrees         bool     // swrank and the simulation put the same device first
+	BestAgrees         bool     // swrank's first device is the simulated best, or within BestTie of it
+	BestGap            float64  // BestGap of the compared rows
 	SwitchingDominates bool     // the median compared device has a switching share ≥ 40 %
 }
 
@@ -71,7 +72,8 @@ func (s *Suite) Summarise() Summary {
 			ps.Conc, ps.Disc = Pairs(rows)
 			ps.Tau = KendallTau(ps.Conc, ps.Disc, len(rows))
 			ps.PredOrder, ps.SimOrder = Order(rows, true), Order(rows, false)
-			ps.BestAgrees = ps.PredOrder[0] == ps.SimOrder[0]
+			ps.BestGap = BestGap(rows)
+			ps.BestAgrees = ps.BestGap <= BestTie
 			st := ErrStats(rows, CompTotal)
 			ps.MedianTotalErr, ps.WorstTotalErr, ps.WorstTotalDevice = st.Median, st.WorstSigned, st.WorstAt
 			shares := make([]float64, len(rows))
@@ -165,8 +167,9 @@ func (sum *Summary) SummaryText() string {
 		best := "n/a"
 		if p.N > 0 {
 			best = p.PredOrder[0]
-			if !p.BestAgrees {
-				best = fmt.Sprintf("predicted %s, simulated %s", p.PredOrder[0], p.SimOrder[0])
+			if p.PredOrder[0] != p.SimOrder[0] {
+				best = fmt.Sprintf("predicted %s, simulated %s (the predicted loses %.2f%% more in simulation; a tie within %.0f%%: %v)",
+					p.PredOrder[0], p.SimOrder[0], 100*p.BestGap, 100*BestTie, p.BestAgrees)
 			}
 		}
 		fmt.Fprintf(&b, "  %-18s n=%-2d τ=%+.3f  switching share median %.0f%% (min %.0f%%)  total err median %.1f%% worst %s  best %s\n",

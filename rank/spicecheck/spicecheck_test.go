@@ -29,6 +29,7 @@ func needNgspice(t *testing.T) *spice.Runner {
 	if err != nil {
 		t.Fatal(err)
 	}
+	r.Keep = os.Getenv("SWRANK_KEEP") == "1"
 	return r
 }
 
@@ -73,6 +74,7 @@ func TestCrossCheck(t *testing.T) {
 	t.Logf("report: %s; library: %s; %v\n%s", rep, s.Library, s.Elapsed.Round(time.Millisecond), sum.SummaryText())
 
 	t.Run("coverage", func(t *testing.T) { checkCoverage(t, cfg, s) })
+	onePoint(t, s, out)
 
 	// Tolerances of the cross-check (the acceptance criteria; the
 	// reference is the ngspice simulation). Where they fail, the models

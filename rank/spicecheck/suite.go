@@ -29,6 +29,13 @@ type SuiteOptions struct {
 
 // Suite is the outcome of a full cross-check run.
 type Suite struct {
+	// The simulations and the library rows the predictions come from
+	// (RunSuite; Without changes the rows).
+	jobs   []suiteJob
+	sims   []*spice.CellEnergies
+	nPlain int
+	parts  map[string]*devices.Part
+
 	Config   *Config                     // the configuration run
 	Sheets   map[string]*spice.Datasheet // by device name
 	Library  string                      // path of the characterised parts CSV
@@ -101,19 +108,13 @@ func RunSuite(ctx context.Context, r *spice.Runner, cfg *Config, o SuiteOptions)
 
 	// 3. Cell simulations of every device rated for each point, then the
 	// cells with parasitic inductance.
-	type job struct {
-		p    *spice.Point
-		m    *spice.Model
-		v    *Variant // nil: the plain cell
-		part string   // the library row swrank evaluates
-	}
-	var jobs []job
+	var jobs []suiteJob
 	for pi := range cfg.Points {
 		p := &cfg.Points[pi]
 		for di := range cfg.Devices {
 			m := &cfg.Devices[di]
 			if p.Candidate(m) {
-				jobs = append(jobs, job{p: p, m: m, part: m.Name})
+				jobs = append(jobs, suiteJob{p: p, m: m, part: m.Name})
 			}
 		}
 	}
@@ -131,7 +132,7 @@ func RunSuite(ctx context.Context, r *spice.Runner, cfg *Config, o SuiteOptions)
 				if v.Lcs > 0 {
 					part = PackagedName(m.Name, v)
 				}
-				jobs = append(jobs, job{p: p, m: m, v: v, part: part})
+				jobs = append(jobs, suiteJob{p: p, m: m, v: v, part: part})
 			}
 		}
 	}
@@ -150,13 +151,33 @@ func RunSuite(ctx context.Context, r *spice.Runner, cfg *Config, o SuiteOptions)
 	}
 
 	// 4. swrank's prediction for the same cell.
-	for i, j := range jobs {
-		res, err := Predict(byName[j.part], j.p, sims[i])
+	s.jobs, s.sims, s.nPlain, s.parts = jobs, sims, nPlain, byName
+	if err := s.predict(); err != nil {
+		return nil, err
+	}
+	s.Elapsed = time.Since(start)
+	return s, nil
+}
+
+// suiteJob is one cell simulation of the suite.
+type suiteJob struct {
+	p    *spice.Point
+	m    *spice.Model
+	v    *Variant // nil: the plain cell
+	part string   // the library row swrank evaluates
+}
+
+// predict pairs every simulation with swrank's prediction from the
+// library rows s.parts.
+func (s *Suite) predict() error {
+	s.Rows, s.ParRows, s.Compared = nil, nil, map[string][]Row{}
+	for i, j := range s.jobs {
+		res, err := Predict(s.parts[j.part], j.p, s.sims[i])
 		if err != nil {
-			return nil, err
+			return err
 		}
-		row := NewRow(j.m.Name, j.p, &res, sims[i])
-		if i >= nPlain {
+		row := NewRow(j.m.Name, j.p, &res, s.sims[i])
+		if i >= s.nPlain {
 			row.Variant, row.Part = j.v.Name, j.part
 			s.ParRows = append(s.ParRows, row)
 			continue
@@ -166,8 +187,25 @@ func RunSuite(ctx context.Context, r *spice.Runner, cfg *Config, o SuiteOptions)
 			s.Compared[j.p.Name] = append(s.Compared[j.p.Name], row)
 		}
 	}
-	s.Elapsed = time.Since(start)
-	return s, nil
+	return nil
+}
+
+// Without is the suite's comparison again, on the same simulations, with
+// blank applied to a copy of each library row: what swrank predicts for a
+// user who leaves those values out of the CSV (the datasheet's table
+// without its curves, say).
+func (s *Suite) Without(blank func(p *devices.Part)) (*Suite, error) {
+	w := *s
+	w.parts = make(map[string]*devices.Part, len(s.parts))
+	for n, p := range s.parts {
+		c := *p
+		blank(&c)
+		w.parts[n] = &c
+	}
+	if err := w.predict(); err != nil {
+		return nil, err
+	}
+	return &w, nil
 }
 
 // AllCompared returns the compared rows over all points, in config order.
