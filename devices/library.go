@@ -429,8 +429,10 @@ func (l *loader) checkRow(p *Part, rec []string, line int, errs []cellErr) (Prob
 	p.Package = strings.TrimSpace(p.Package)
 	p.Notes = strings.TrimSpace(p.Notes)
 	p.RdsCurve = strings.TrimSpace(p.RdsCurve)
+	p.CossCurve, p.CrssCurve = strings.TrimSpace(p.CossCurve), strings.TrimSpace(p.CrssCurve)
 	if l.dialect.DecimalComma {
 		p.RdsCurve = curveDecimalCommas(p.RdsCurve)
+		p.CossCurve, p.CrssCurve = curveDecimalCommas(p.CossCurve), curveDecimalCommas(p.CrssCurve)
 	}
 	var probs ProblemList
 	fatal := l.missing != nil // without a required column no part is complete

@@ -187,6 +187,9 @@ type Part struct {
 	Coss2   q.Opt[q.Capacitance] `csv:"coss2"`    // output capacitance at cap2_vds, F
 	Crss2   q.Opt[q.Capacitance] `csv:"crss2"`    // reverse transfer capacitance at cap2_vds, F
 	Cap2Vds q.Opt[q.Voltage]     `csv:"cap2_vds"` // drain voltage of coss2/crss2, V; not cap_vds
+	// Whole curves, "V:C" points (ParseCVCurve).
+	CossCurve string `csv:"coss_curve"` // output capacitance against drain voltage, "1:2.4n 10:770p 40:390p"
+	CrssCurve string `csv:"crss_curve"` // reverse transfer capacitance against drain voltage, "1:490p 10:195p 40:100p"
 
 	// Output charge and energy, integrated from 0 V to oss_vds.
 	Qoss   q.Opt[q.Charge]  `csv:"qoss"`    // output charge, C

@@ -21,6 +21,7 @@ var (
 	ErrInconsistent    = errors.New("inconsistent with another column")
 	ErrMissingValue    = errors.New("missing value")
 	ErrCurve           = errors.New("bad rds_on_curve")
+	ErrCVCurve         = errors.New("bad capacitance curve")
 	ErrNoParts         = errors.New("no parts")
 )
 

@@ -232,6 +232,7 @@ func (v *validator) run() {
 	}
 
 	v.checkSpice()
+	v.checkCVCurves()
 
 	// Gate charge.
 	if p.QgMax.OK && v.ok("qg_max", "qg") && p.QgMax.V < p.Qg {

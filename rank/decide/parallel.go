@@ -80,6 +80,13 @@ func ParallelPart(p *devices.Part, n int) (devices.Part, error) {
 	mulOpt(&c.Crss, k)
 	mulOpt(&c.Coss2, k)
 	mulOpt(&c.Crss2, k)
+	var err error
+	if c.CossCurve, err = devices.ScaleCVCurve(c.CossCurve, k); err != nil {
+		return devices.Part{}, fmt.Errorf("part %q: coss_curve: %w", p.Name, err)
+	}
+	if c.CrssCurve, err = devices.ScaleCVCurve(c.CrssCurve, k); err != nil {
+		return devices.Part{}, fmt.Errorf("part %q: crss_curve: %w", p.Name, err)
+	}
 	mulOpt(&c.Qoss, k)
 	mulOpt(&c.Eoss, k)
 	mulOpt(&c.EossLoss, k)

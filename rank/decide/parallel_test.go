@@ -172,6 +172,7 @@ func TestParallelPartColumns(t *testing.T) {
 		}
 	}
 	p.Name, p.Price = "cols", devices.Price{V: 1.5, OK: true}
+	p.CossCurve, p.CrssCurve = "1:2e-9 10:5e-10", "1:4e-10 10:1e-10"
 	c, err := ParallelPart(&p, 3)
 	if err != nil {
 		t.Fatal(err)
@@ -188,6 +189,12 @@ func TestParallelPartColumns(t *testing.T) {
 			continue
 		case "Price":
 			testkit.Within(t, "price", c.Price.V, 4.5, 1e-12)
+			continue
+		case "CossCurve", "CrssCurve": // the capacitances ×3, the voltages kept
+			want := map[string]string{"CossCurve": "1:6e-09 10:1.5e-09", "CrssCurve": "1:1.2e-09 10:3e-10"}[name]
+			if got := cv.Field(i).String(); got != want {
+				t.Errorf("%s %q, want %q", name, got, want)
+			}
 			continue
 		}
 		k, scaled := scale[name]
