@@ -310,39 +310,6 @@ func (d *Device) fitTempLaw() error {
 	return nil
 }
 
-// fitOss fits the output-capacitance law: from charge and energy, or from
-// charge, energy or one capacitance point with the exponent of two
-// capacitance points (coss, coss2), else an estimated one
-// (FlagOssSqrtLaw).
-func (d *Device) fitOss() error {
-	p := d.Part
-	n, from := 0.0, fromCharge
-	exponent := func() float64 {
-		if p.Coss.OK && p.CapVds.OK && p.Coss2.OK && p.Cap2Vds.OK {
-			return loss.OssExponent(p.Coss.V, p.CapVds.V, p.Coss2.V, p.Cap2Vds.V)
-		}
-		d.Flags |= FlagOssSqrtLaw
-		return ossExponent(from, d.Low)
-	}
-	switch {
-	case p.Qoss.OK && p.Eoss.OK && p.OssVds.OK:
-		d.Oss, d.OssV = loss.OssFromChargeEnergy(p.Qoss.V, p.Eoss.V, p.OssVds.V), p.OssVds.V
-	case p.Qoss.OK && p.OssVds.OK:
-		n = exponent()
-		d.Oss, d.OssV = loss.OssFromCharge(p.Qoss.V, p.OssVds.V, n), p.OssVds.V
-	case p.Eoss.OK && p.OssVds.OK:
-		n = exponent()
-		d.Oss, d.OssV = loss.OssFromEnergy(p.Eoss.V, p.OssVds.V, n), p.OssVds.V
-	case p.Coss.OK && p.CapVds.OK:
-		from = fromCapacitance
-		n = exponent()
-		d.Oss, d.OssV = loss.OssFromCapacitance(p.Coss.V, p.CapVds.V, n), p.CapVds.V
-	default:
-		return fmt.Errorf("part %q: needs coss with cap_vds, or qoss or eoss with oss_vds", p.Name)
-	}
-	return nil
-}
-
 // fitGateCharge takes the gate-charge curve and chooses the method of the
 // hard edges: gate-charge intervals when qgs, qgd and v_plateau are given,
 // else the datasheet tr/tf with their test conditions.
@@ -392,37 +359,6 @@ func (d *Device) fitGateCharge() error {
 		} else {
 			d.Flags |= FlagTswNoConditions
 		}
-	}
-	return nil
-}
-
-// fitMiller fits the law of Cgd(v) (loss.MillerLaw) and prepares the
-// turn-off integral, when the gate-charge method has crss; else the Miller
-// charge stays one lump (FlagMillerLumped).
-func (d *Device) fitMiller() error {
-	if d.Method == MethodGateCharge && d.Crss > 0 && d.QgVds > 0 && d.Qgd > 0 {
-		p := d.Part
-		pts, n := [2]loss.CapPoint{{V: d.CrssV, C: d.Crss}}, 1
-		if p.Crss2.OK && p.Cap2Vds.OK && p.Cap2Vds.V != d.CrssV {
-			pts[1], n = loss.CapPoint{V: p.Cap2Vds.V, C: p.Crss2.V}, 2
-			if pts[1].V < pts[0].V {
-				pts[0], pts[1] = pts[1], pts[0]
-			}
-		} else {
-			d.Flags |= FlagCgdShape
-		}
-		law, err := loss.FitMillerLaw(loss.MillerData{Qgd: d.Qgd, VQg: d.QgVds, Knee: d.VplSpec, Crss: pts[:n],
-			M: loss.OnePointExponent, Phi: loss.BuiltIn, VMax: p.VdsMax})
-		if err != nil {
-			return fmt.Errorf("part %q: %w", d.Part.Name, err)
-		}
-		d.Miller, d.HasMiller = law, true
-		d.Rise = loss.RiseBase(&d.Miller, d.Oss, loss.CdsShare(d.Crss, d.Oss.C(d.CrssV)))
-		if d.Oss.N > 0 {
-			d.RisePow = loss.RiseSeries(d.Oss)
-		}
-	} else if d.Method == MethodGateCharge {
-		d.Flags |= FlagMillerLumped
 	}
 	return nil
 }

@@ -167,13 +167,21 @@ func OssFromEnergy(eoss q.Energy, v q.Voltage, n float64) OssLaw {
 	return OssLaw{K: float64(eoss) * (2 - n) / math.Pow(float64(v), 2-n), N: n}
 }
 
-// OssExponent is the exponent N of C = K·v^(−N) through two small-signal
-// points of the datasheet's capacitance curve, ln(c1/c2)/ln(v2/v1),
-// within the law's [0, 0.95].
+// OssExponent is the exponent N of C = K·v^(−N) fitted to small-signal
+// points of the datasheet's capacitance curve (at least two, voltages
+// distinct): the least-squares slope of ln C against ln v, within the
+// law's [0, 0.95]; through two points, ln(c1/c2)/ln(v2/v1).
 //
-// Source: the power law of OssLaw read off two points of a log-log
-// curve (Erickson & Maksimović 2001, ch. 4, for the law).
-func OssExponent(c1 q.Capacitance, v1 q.Voltage, c2 q.Capacitance, v2 q.Voltage) float64 {
-	n := math.Log(float64(c1/c2)) / math.Log(float64(v2/v1))
-	return min(max(n, 0), 0.95)
+// Source: the power law of OssLaw (Erickson & Maksimović 2001, ch. 4)
+// read off a log-log curve by a straight-line least-squares fit (common
+// practice).
+func OssExponent(pts []CapPoint) float64 {
+	var sx, sy, sxx, sxy float64
+	for _, p := range pts {
+		x, y := math.Log(float64(p.V)), math.Log(float64(p.C))
+		sx, sy, sxx, sxy = sx+x, sy+y, sxx+x*x, sxy+x*y
+	}
+	n := float64(len(pts))
+	slope := (n*sxy - sx*sy) / (n*sxx - sx*sx)
+	return min(max(-slope, 0), 0.95)
 }

@@ -1,0 +1,126 @@
+package fit
+
+import (
+	"fmt"
+	"slices"
+
+	"swrank/devices"
+	q "swrank/devices/quantity"
+	"swrank/rank/loss"
+)
+
+// capPoints gathers a capacitance's points, at most loss.MaxCapPoints, by
+// increasing voltage: the table's value at its test voltage, the second
+// point, and the curve's points (a curve point at the voltage of a table
+// value gives way to it). The points live in buf.
+func capPoints(buf *[loss.MaxCapPoints]loss.CapPoint, c1 q.Opt[q.Capacitance], v1 q.Opt[q.Voltage],
+	c2 q.Opt[q.Capacitance], v2 q.Opt[q.Voltage], curve []devices.CVPoint) []loss.CapPoint {
+	pts := buf[:0]
+	add := func(v q.Voltage, c q.Capacitance) {
+		if !(v > 0) || !(c > 0) || len(pts) == len(buf) {
+			return
+		}
+		for _, p := range pts {
+			if p.V == v {
+				return
+			}
+		}
+		pts = append(pts, loss.CapPoint{V: v, C: c})
+	}
+	if c1.OK && v1.OK {
+		add(v1.V, c1.V)
+	}
+	if c2.OK && v2.OK {
+		add(v2.V, c2.V)
+	}
+	for _, p := range curve {
+		add(p.V, p.C)
+	}
+	slices.SortFunc(pts, func(a, b loss.CapPoint) int { return cmpVoltage(a.V, b.V) })
+	return pts
+}
+
+func cmpVoltage(a, b q.Voltage) int {
+	switch {
+	case a < b:
+		return -1
+	case a > b:
+		return 1
+	}
+	return 0
+}
+
+// fitOss fits the output-capacitance law: from charge and energy; or from
+// charge, energy or one capacitance point with the exponent fitted to the
+// capacitance points (coss, coss2, coss_curve) when there are two or more,
+// else an estimated one (FlagOssSqrtLaw).
+func (d *Device) fitOss() error {
+	p := d.Part
+	n, from := 0.0, fromCharge
+	exponent := func() (float64, error) {
+		curve, err := p.CossCurvePoints()
+		if err != nil {
+			return 0, fmt.Errorf("part %q: coss_curve: %w", p.Name, err)
+		}
+		var buf [loss.MaxCapPoints]loss.CapPoint
+		if pts := capPoints(&buf, p.Coss, p.CapVds, p.Coss2, p.Cap2Vds, curve); len(pts) >= 2 {
+			return loss.OssExponent(pts), nil
+		}
+		d.Flags |= FlagOssSqrtLaw
+		return ossExponent(from, d.Low), nil
+	}
+	var err error
+	switch {
+	case p.Qoss.OK && p.Eoss.OK && p.OssVds.OK:
+		d.Oss, d.OssV = loss.OssFromChargeEnergy(p.Qoss.V, p.Eoss.V, p.OssVds.V), p.OssVds.V
+	case p.Qoss.OK && p.OssVds.OK:
+		n, err = exponent()
+		d.Oss, d.OssV = loss.OssFromCharge(p.Qoss.V, p.OssVds.V, n), p.OssVds.V
+	case p.Eoss.OK && p.OssVds.OK:
+		n, err = exponent()
+		d.Oss, d.OssV = loss.OssFromEnergy(p.Eoss.V, p.OssVds.V, n), p.OssVds.V
+	case p.Coss.OK && p.CapVds.OK:
+		from = fromCapacitance
+		n, err = exponent()
+		d.Oss, d.OssV = loss.OssFromCapacitance(p.Coss.V, p.CapVds.V, n), p.CapVds.V
+	default:
+		return fmt.Errorf("part %q: needs coss with cap_vds, or qoss or eoss with oss_vds", p.Name)
+	}
+	return err
+}
+
+// fitMiller fits the law of Cgd(v) (loss.MillerLaw) to crss, crss2 and
+// crss_curve and prepares the turn-off integral, when the gate-charge
+// method has crss; with crss alone the exponent is estimated
+// (FlagCgdShape); without crss the Miller charge stays one lump
+// (FlagMillerLumped).
+func (d *Device) fitMiller() error {
+	if d.Method != MethodGateCharge {
+		return nil
+	}
+	if !(d.Crss > 0 && d.QgVds > 0 && d.Qgd > 0) {
+		d.Flags |= FlagMillerLumped
+		return nil
+	}
+	p := d.Part
+	curve, err := p.CrssCurvePoints()
+	if err != nil {
+		return fmt.Errorf("part %q: crss_curve: %w", p.Name, err)
+	}
+	var buf [loss.MaxCapPoints]loss.CapPoint
+	pts := capPoints(&buf, q.Some(d.Crss), q.Some(d.CrssV), p.Crss2, p.Cap2Vds, curve)
+	if len(pts) < 2 {
+		d.Flags |= FlagCgdShape
+	}
+	law, err := loss.FitMillerLaw(loss.MillerData{Qgd: d.Qgd, VQg: d.QgVds, Knee: d.VplSpec, Crss: pts,
+		M: loss.OnePointExponent, Phi: loss.BuiltIn, VMax: p.VdsMax})
+	if err != nil {
+		return fmt.Errorf("part %q: %w", p.Name, err)
+	}
+	d.Miller, d.HasMiller = law, true
+	d.Rise = loss.RiseBase(&d.Miller, d.Oss, loss.CdsShare(d.Crss, d.Oss.C(d.CrssV)))
+	if d.Oss.N > 0 {
+		d.RisePow = loss.RiseSeries(d.Oss)
+	}
+	return nil
+}
