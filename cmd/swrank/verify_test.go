@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -70,6 +71,39 @@ func TestVerifyRoundTrip(t *testing.T) {
 	l, err := devices.Load(lib)
 	if err != nil || len(l.Parts) != 3 || !strings.Contains(l.Parts[0].Notes, "characterised from the model") {
 		t.Fatalf("library: %v, %+v", err, l)
+	}
+	// The second temperature and the second capacitance point (the
+	// datasheet's hot column and C–V curve): the on-resistance rises and
+	// the diode drop falls with temperature (common practice); the
+	// threshold falls 4 mV/K on slate-30-lo's card (tcvth), while the other
+	// cards have no threshold coefficient, so their hot threshold, which
+	// would not fall, stays blank; Crss and Coss are larger at a tenth of
+	// the rating than at half of it (a depleting junction, Sze & Ng 2007
+	// ch. 2).
+	for _, p := range l.Parts {
+		hasTC := p.Name == "slate-30-lo"
+		if hasTC && !(p.VgsThHot.OK && math.Abs(float64(p.VgsTh-p.VgsThHot.V)-0.4) < 0.05) {
+			t.Errorf("%s: threshold %v → %v at 125 °C, want 0.4 V lower", p.Name, p.VgsTh, p.VgsThHot)
+		}
+		if !p.RdsHot.OK || p.RdsHotTj.V != 125 || !(p.RdsHot.V > p.RdsOn) || p.VgsThHot.OK != hasTC ||
+			!p.VsdHot.OK || !(p.VsdHot.V < p.Vsd.V) || p.VsdHotTj.V != 125 {
+			t.Errorf("%s: hot rds %v at %v, vth %v, vsd %v (cold %v)", p.Name, p.RdsHot, p.RdsHotTj, p.VgsThHot, p.VsdHot, p.Vsd)
+		}
+		if !p.Cap2Vds.OK || p.Cap2Vds.V != p.VdsMax/10 || !(p.Crss2.V > p.Crss.V) || !(p.Coss2.V > p.Coss.V) {
+			t.Errorf("%s: second point %v: crss2 %v (crss %v), coss2 %v (coss %v)", p.Name, p.Cap2Vds, p.Crss2, p.Crss, p.Coss2, p.Coss)
+		}
+		for _, c := range []string{p.CossCurve, p.CrssCurve} {
+			pts, err := devices.ParseCVCurve(c)
+			if err != nil || len(pts) != 8 || pts[7].V != p.VdsMax {
+				t.Errorf("%s: curve %q: %v", p.Name, c, err)
+				continue
+			}
+			for i := 1; i < len(pts); i++ {
+				if !(pts[i].C < pts[i-1].C) {
+					t.Errorf("%s: curve %q rises at %v", p.Name, c, pts[i].V)
+				}
+			}
+		}
 	}
 	out.Reset()
 	errb.Reset()

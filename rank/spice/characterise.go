@@ -17,11 +17,17 @@ type Datasheet struct {
 	RdsOn2, RdsOn2Vgs float64 // on-resistance (Ω) at the second gate voltage (V, the model's Vgs2)
 	Vth               float64 // gate threshold at VthCurrent, Vds = Vgs, V
 	Vsd               float64 // body-diode drop at ITest, V; > 0
+	// The static tests again at the junction temperature HotTj (°C, 125):
+	// on-resistance at RdsOnVgs, threshold, body-diode drop.
+	RdsOnHot, VthHot, VsdHot, HotTj float64
 
 	Ciss, Coss, Crss, CapVds float64 // small-signal capacitances at 1 MHz (F) and their drain bias CapVds (V, half the rating)
 	Coss2, Crss2, Cap2Vds    float64 // Coss and Crss (F) at a second drain bias Cap2Vds (V, a tenth of the rating)
-	RgInt                    float64 // gate resistance at 1 MHz, drain shorted to source, Ω
-	Qoss, Eoss, OssVds       float64 // output charge (C) and energy (J) from 0 V to OssVds (V, half the rating)
+	// The C–V curves: Coss and Crss (F) at the drain biases CVVds (V, the
+	// fractions cvFractions of the rating).
+	CVVds, CossCV, CrssCV []float64
+	RgInt                 float64 // gate resistance at 1 MHz, drain shorted to source, Ω
+	Qoss, Eoss, OssVds    float64 // output charge (C) and energy (J) from 0 V to OssVds (V, half the rating)
 
 	// Body-diode reverse recovery (gate shorted to source; the recovery
 	// step): Qrr is the recovered charge without the capacitances' charge
@@ -142,7 +148,7 @@ func characterise(ctx context.Context, r *Runner, m *Model, u *dut) (*Datasheet,
 	steps := []struct {
 		name string
 		fn   func(context.Context, *Runner, *Model, *dut, *Datasheet) error
-	}{{"static", static}, {"capacitances", capacitances}, {"output charge", outputCharge},
+	}{{"static", static}, {"hot static", hotStatic}, {"capacitances", capacitances}, {"output charge", outputCharge},
 		{"recovery", recovery}, {"gate charge", gateCharge}, {"switching times", switchingTimes}}
 	for _, s := range steps {
 		if err := s.fn(ctx, r, m, u, ds); err != nil {
@@ -152,38 +158,24 @@ func characterise(ctx context.Context, r *Runner, m *Model, u *dut) (*Datasheet,
 	return ds, nil
 }
 
+// cvFractions are the drain biases of the C–V curves, fractions of the
+// rating: eight points spread over the curve a datasheet draws (log-spaced
+// from 2 % of the rating, common practice).
+func cvFractions() [8]float64 { return [...]float64{0.02, 0.05, 0.1, 0.2, 0.35, 0.5, 0.75, 1} }
+
+// hotTj is the junction temperature of the hot static tests, °C: the
+// usual second temperature of a datasheet's Rds(on), Vgs(th) and Vsd
+// (common practice).
+const hotTj = 125.0
+
 // static: Rds(on) at two gate voltages (a current forced into the drain),
 // Vgs(th) with gate tied to drain at 250 µA, and the body-diode drop.
 func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
-	var b strings.Builder
-	b.WriteString("* static characterisation\n")
-	b.WriteString(u.card)
-	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
-	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
-	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(vthCurrent))
-	fmt.Fprintf(&b, u.inst("4", "d4", "0", "0")+"i4 d4 0 dc %s\n", num(m.ITest))
-	b.WriteString(".control\n" + deckPrologue + "op\nwrdata static.dat v(d1) v(d2) v(d3) v(d4)\nquit 0\n.endc\n.end\n")
-	t, err := u.run(ctx, r, m.Name+" static", b.String(), "static.dat")
+	v, err := staticAt(ctx, r, m, u, ds, 25)
 	if err != nil {
 		return err
 	}
-	get := func(n string) (float64, error) {
-		c, err := t["static.dat"].Col(n)
-		if err != nil {
-			return 0, err
-		}
-		return c[0], nil
-	}
-	v1, err1 := get("v(d1)")
-	v2, err2 := get("v(d2)")
-	v3, err3 := get("v(d3)")
-	v4, err4 := get("v(d4)")
-	for _, e := range []error{err1, err2, err3, err4} {
-		if e != nil {
-			return e
-		}
-	}
+	v1, v2, v3, v4 := v[0], v[1], v[2], v[3]
 	ds.RdsOn, ds.RdsOn2, ds.Vth, ds.Vsd = v1/m.ITest, v2/m.ITest, v3, -v4
 	// A datasheet Rds(on) is a linear-region figure: the drain voltage must
 	// stay well below the overdrive.
@@ -196,6 +188,45 @@ func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) err
 			ds.RdsOn2Vgs, m.ITest, v2)
 	}
 	return nil
+}
+
+// hotStatic: the static tests at hotTj (the model's own temperature laws;
+// the simulator's temp option, with tnom at 25 °C).
+func hotStatic(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
+	v, err := staticAt(ctx, r, m, u, ds, hotTj)
+	if err != nil {
+		return err
+	}
+	ds.RdsOnHot, ds.VthHot, ds.VsdHot, ds.HotTj = v[0]/m.ITest, v[2], -v[3], hotTj
+	return nil
+}
+
+// staticAt runs the static deck at junction temperature tj (°C) and
+// returns the drain voltages of the two Rds(on) tests, the threshold test
+// and the diode test.
+func staticAt(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet, tj float64) ([4]float64, error) {
+	var b strings.Builder
+	b.WriteString("* static characterisation\n")
+	b.WriteString(u.card)
+	b.WriteString(strings.Replace(optionsLine, "temp=25 ", "temp="+num(tj)+" ", 1))
+	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
+	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
+	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(vthCurrent))
+	fmt.Fprintf(&b, u.inst("4", "d4", "0", "0")+"i4 d4 0 dc %s\n", num(m.ITest))
+	b.WriteString(".control\n" + deckPrologue + "op\nwrdata static.dat v(d1) v(d2) v(d3) v(d4)\nquit 0\n.endc\n.end\n")
+	var v [4]float64
+	t, err := u.run(ctx, r, fmt.Sprintf("%s static %s °C", m.Name, num(tj)), b.String(), "static.dat")
+	if err != nil {
+		return v, err
+	}
+	for i, n := range []string{"v(d1)", "v(d2)", "v(d3)", "v(d4)"} {
+		c, err := t["static.dat"].Col(n)
+		if err != nil {
+			return v, err
+		}
+		v[i] = c[0]
+	}
+	return v, nil
 }
 
 // capacitances: Ciss (gate driven, drain AC-shorted at CapVds), Coss and
@@ -216,6 +247,12 @@ func capacitances(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datashee
 	b.WriteString(u.inst("4", "d4", "g4", "0") + "vd4 d4 0 dc 0\nvg4 g4 0 dc 0 ac 1\n")
 	b.WriteString(u.inst("5", "d5", "g5", "0") + "vd5 d5 0 dc 0 ac 1\nvg5 g5 0 dc 0\n")
 	fmt.Fprintf(&b, u.inst("6", "d6", "g6", "0")+"vd6 d6 0 dc %s ac 1\nvg6 g6 0 dc 0\n", num(ds.Cap2Vds))
+	ds.CVVds = ds.CVVds[:0]
+	for i, f := range cvFractions() {
+		ds.CVVds = append(ds.CVVds, f*m.VdsMax)
+		fmt.Fprintf(&b, u.inst(fmt.Sprint("c", i), fmt.Sprint("dc", i), fmt.Sprint("gc", i), "0")+"vdc%d dc%d 0 dc %s ac 1\nvgc%d gc%d 0 dc 0\n",
+			i, i, num(ds.CVVds[i]), i, i)
+	}
 	fmt.Fprintf(&b, ".control\n%sac lin 1 %s %s\n", deckPrologue, num(capFreq), num(capFreq))
 	fmt.Fprintf(&b, "let w = 2*pi*%s\n", num(capFreq))
 	b.WriteString("let z1 = -1/i(vg1)\nlet ciss = -1/(w*imag(z1))\n")
@@ -223,7 +260,12 @@ func capacitances(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datashee
 	b.WriteString("let z3 = -1/i(vg3)\nlet rgint = real(z3)\n")
 	b.WriteString("let z4 = -1/i(vg4)\nlet ciss0 = -1/(w*imag(z4))\nlet crss0 = imag(i(vg5))/w\n")
 	b.WriteString("let coss2 = imag(-i(vd6))/w\nlet crss2 = imag(i(vg6))/w\n")
-	b.WriteString("wrdata caps.dat ciss coss crss rgint ciss0 crss0 coss2 crss2\nquit 0\n.endc\n.end\n")
+	cv := ""
+	for i := range len(cvFractions()) {
+		fmt.Fprintf(&b, "let cossc%d = imag(-i(vdc%d))/w\nlet crssc%d = imag(i(vgc%d))/w\n", i, i, i, i)
+		cv += fmt.Sprintf(" cossc%d crssc%d", i, i)
+	}
+	b.WriteString("wrdata caps.dat ciss coss crss rgint ciss0 crss0 coss2 crss2" + cv + "\nquit 0\n.endc\n.end\n")
 	t, err := u.run(ctx, r, m.Name+" capacitances", b.String(), "caps.dat")
 	if err != nil {
 		return err
@@ -239,6 +281,15 @@ func capacitances(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datashee
 			return fmt.Errorf("%s = %g, want > 0", n, c[0])
 		}
 		*p = c[0]
+	}
+	ds.CossCV, ds.CrssCV = make([]float64, len(cvFractions())), make([]float64, len(cvFractions()))
+	for i := range len(cvFractions()) {
+		co, err1 := t["caps.dat"].Col(fmt.Sprint("cossc", i))
+		cr, err2 := t["caps.dat"].Col(fmt.Sprint("crssc", i))
+		if err1 != nil || err2 != nil || !(co[0] > 0) || !(cr[0] > 0) {
+			return fmt.Errorf("no capacitance at %s V for the C–V curve", num(ds.CVVds[i]))
+		}
+		ds.CossCV[i], ds.CrssCV[i] = co[0], cr[0]
 	}
 	if math.IsNaN(u.cin) {
 		c0, err1 := t["caps.dat"].Col("ciss0")
@@ -507,6 +558,29 @@ func (ds *Datasheet) Part(m *Model) devices.Part {
 		// energy: no soft-switching hysteresis).
 		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
 		EossLoss: q.Some[q.Energy](0), EossLossVds: v(ds.OssVds),
+	}
+	// The hot column, each value only where the model moves it the way a
+	// part does (a VDMOS card without a threshold coefficient raises its
+	// 250 µA threshold slightly as the mobility falls): the rest stays
+	// blank, for swrank's flagged default.
+	if t := q.Some(q.Temperature(ds.HotTj)); ds.HotTj > 25 {
+		if ds.RdsOnHot > ds.RdsOn {
+			p.RdsHot, p.RdsHotTj = q.Some(q.Resistance(ds.RdsOnHot)), t
+		}
+		if ds.VthHot > 0 && ds.VthHot < ds.Vth {
+			p.VgsThHot, p.VgsThHotTj = q.Some(q.Voltage(ds.VthHot)), t
+		}
+		if ds.VsdHot > 0 && ds.VsdHot < ds.Vsd {
+			p.VsdHot, p.VsdHotTj = q.Some(q.Voltage(ds.VsdHot)), t
+		}
+	}
+	if n := len(ds.CVVds); n >= 2 && len(ds.CossCV) == n && len(ds.CrssCV) == n {
+		co, cr := make([]devices.CVPoint, n), make([]devices.CVPoint, n)
+		for i, v := range ds.CVVds {
+			co[i] = devices.CVPoint{V: q.Voltage(v), C: q.Capacitance(ds.CossCV[i])}
+			cr[i] = devices.CVPoint{V: q.Voltage(v), C: q.Capacitance(ds.CrssCV[i])}
+		}
+		p.CossCurve, p.CrssCurve = devices.FormatCVCurve(co), devices.FormatCVCurve(cr)
 	}
 	if ds.Cap2Vds > 0 && ds.Coss2 > 0 && ds.Crss2 > 0 {
 		p.Coss2, p.Crss2, p.Cap2Vds = q.Some(q.Capacitance(ds.Coss2)), q.Some(q.Capacitance(ds.Crss2)), v(ds.Cap2Vds)

@@ -61,7 +61,8 @@ func TestCrossCheckHeldOut(t *testing.T) {
 	checkPoints(t, &sum)
 
 	// The same simulations predicted from the datasheet's table alone (no
-	// second capacitance point: the Cgd and Coss shapes estimated). Held
+	// second capacitance point, no curves: the Cgd and Coss shapes
+	// estimated). Held
 	// to looser limits: the estimate's spread is the price of the
 	// missing curve (docs/spice-crosscheck.md).
 	one := onePoint(t, s, out)
@@ -94,13 +95,14 @@ func checkPoints(t *testing.T, sum *Summary) {
 	}
 }
 
-// onePoint compares suite s again with the second capacitance point
-// (coss2, crss2, cap2_vds) left blank, writes its report beside the
+// onePoint compares suite s again with the second capacitance point and
+// the curves (coss2, crss2, cap2_vds, coss_curve, crss_curve) left blank, writes its report beside the
 // suite's as report-one-point.txt and returns its summary.
 func onePoint(t *testing.T, s *Suite, out string) Summary {
 	t.Helper()
 	one, err := s.Without(func(p *devices.Part) {
 		p.Coss2, p.Crss2, p.Cap2Vds = q.Opt[q.Capacitance]{}, q.Opt[q.Capacitance]{}, q.Opt[q.Voltage]{}
+		p.CossCurve, p.CrssCurve = "", ""
 	})
 	if err != nil {
 		t.Fatal(err)
