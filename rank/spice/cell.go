@@ -131,7 +131,7 @@ func cellDeck(m *Model, p *Point, o CellOptions) (string, float64, float64) {
 	fmt.Fprintf(&b, "* clamped-inductive cell: %s at %s\n", m.Name, p.Name)
 	b.WriteString(m.card("dut"))
 	b.WriteString(clampCard)
-	b.WriteString(optionsLine)
+	b.WriteString(optionsAt(p.Tj))
 	switch x := o.Par; {
 	case x.Lloop > 0 && x.Rloop > 0:
 		fmt.Fprintf(&b, "vbus vb 0 dc %s\nlloop vb vl %s\nrloop vl bus %s\n", num(p.Vbus), num(x.Lloop), num(x.Rloop))
@@ -148,7 +148,10 @@ func cellDeck(m *Model, p *Point, o CellOptions) (string, float64, float64) {
 	default:
 		fmt.Fprintf(&b, "vbus bus 0 dc %s\n", num(p.Vbus))
 	}
-	fmt.Fprintf(&b, "il bus d dc %s\ndcl d bus dclamp\n", num(p.Current))
+	// The clamp is an ideal diode at 25 °C whatever the device's
+	// temperature: its n = 0.3 card would otherwise scale its saturation
+	// current with the temperature past what the solver takes.
+	fmt.Fprintf(&b, "il bus d dc %s\ndcl d bus dclamp temp=25\n", num(p.Current))
 	if o.Par.Lcs > 0 {
 		fmt.Fprintf(&b, "vmd d dd 0\nm1 dd g s s dut\nlcs s 0 %s\n", num(o.Par.Lcs))
 	} else {

@@ -208,7 +208,7 @@ func staticAt(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet, t
 	var b strings.Builder
 	b.WriteString("* static characterisation\n")
 	b.WriteString(u.card)
-	b.WriteString(strings.Replace(optionsLine, "temp=25 ", "temp="+num(tj)+" ", 1))
+	b.WriteString(optionsAt(tj))
 	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
 	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
 	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(vthCurrent))

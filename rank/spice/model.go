@@ -43,6 +43,11 @@ type Model struct {
 	// manual, diode and VDMOS models), which gives the reverse recovery
 	// of a half-bridge.
 	Tt float64 `toml:"tt"`
+	// Tcvth is the threshold's temperature coefficient, V/K; ≥ 0; default
+	// 0: vto falls by Tcvth per kelvin above tnom (ngspice 39 manual,
+	// VDMOS model), as a part's threshold does (a few mV/K, common
+	// practice). Written into the card only when > 0.
+	Tcvth float64 `toml:"tcvth"`
 }
 
 // Point is one operating point of the switching cell. Its candidates are
@@ -60,6 +65,10 @@ type Point struct {
 	RSink   float64 `toml:"rsink"`   // driver pull-down resistance, Ω; > 0
 	RgExt   float64 `toml:"rg_ext"`  // external gate resistor, Ω; > 0
 	Derate  float64 `toml:"derate"`  // voltage derating for the candidate set; (0, 1]; default 0.8
+	// Tj is the junction temperature the cell is simulated at (the
+	// simulator's temp, tnom 25 °C) and swrank pinned to, °C; [−40,
+	// 175]; default 25.
+	Tj float64 `toml:"tj"`
 	// MaxRating leaves out parts rated above it, V (a designer does not
 	// put a 100 V part on a 20 V bus); ≥ 0; 0 = no limit.
 	MaxRating float64 `toml:"max_rating"`
@@ -104,6 +113,9 @@ func (m *Model) Check() error {
 			return fmt.Errorf("%s must be > 0 (got %g)", p.n, p.v)
 		}
 	}
+	if !(m.Tcvth >= 0) || m.Tcvth > 0.02 {
+		return fmt.Errorf("tcvth must be within [0, 0.02] V/K (got %g)", m.Tcvth)
+	}
 	if !(m.Tt >= 0) || math.IsInf(m.Tt, 0) {
 		return fmt.Errorf("tt must be ≥ 0 (got %g)", m.Tt)
 	}
@@ -121,6 +133,9 @@ func (p *Point) SetDefaults() {
 	if p.Derate == 0 {
 		p.Derate = 0.8
 	}
+	if p.Tj == 0 {
+		p.Tj = 25
+	}
 }
 
 // Check returns an error naming the first field out of its range.
@@ -134,6 +149,9 @@ func (p *Point) Check() error {
 		if !(x.v > 0) || math.IsInf(x.v, 0) {
 			return fmt.Errorf("%s must be > 0 (got %g)", x.n, x.v)
 		}
+	}
+	if p.Tj < -40 || p.Tj > 175 {
+		return fmt.Errorf("tj must be within [-40, 175] °C (got %g)", p.Tj)
 	}
 	if p.Duty < 0.1 || p.Duty > 0.8 {
 		return fmt.Errorf("duty must be within [0.1, 0.8] (got %g)", p.Duty)
@@ -174,6 +192,9 @@ func (m *Model) card(name string) string {
 		b.WriteByte('=')
 		b.WriteString(num(x.v))
 	}
+	if m.Tcvth > 0 {
+		b.WriteString(" tcvth=" + num(m.Tcvth))
+	}
 	b.WriteString(")\n")
 	return b.String()
 }
@@ -189,4 +210,12 @@ const optionsLine = ".options temp=25 tnom=25 method=gear reltol=1e-5 vntol=1e-7
 
 // clampCard is the clamp (freewheel) diode: no stored charge, no junction
 // capacitance, a small drop.
+// optionsAt is optionsLine with the device temperature tj, °C (25 when 0).
+func optionsAt(tj float64) string {
+	if tj == 0 || tj == 25 {
+		return optionsLine
+	}
+	return strings.Replace(optionsLine, "temp=25 ", "temp="+num(tj)+" ", 1)
+}
+
 const clampCard = ".model dclamp D(is=1e-9 n=0.3 rs=1m tt=0 cjo=0)\n"

@@ -1,6 +1,7 @@
 package spicecheck
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"sort"
@@ -37,7 +38,7 @@ func Components() []string {
 // voltage the simulation applied (bus plus clamp drop), the load current at
 // both edges, the rms current of a flat on-state current over the gate duty,
 // the same driver, an ideal partner, and the junction pinned to the
-// simulation's 25 °C.
+// simulation's temperature (25 °C unless the point says otherwise).
 func Stage(p *spice.Point, e *spice.CellEnergies) stage.Stage {
 	return stage.Stage{
 		Topology: stage.Custom,
@@ -47,7 +48,7 @@ func Stage(p *spice.Point, e *spice.CellEnergies) stage.Stage {
 		Fsw:  q.Frequency(p.Fsw),
 		Driver: stage.Driver{VOn: q.Voltage(p.VOn), VOff: 0,
 			RSource: q.Resistance(p.RSource), RSink: q.Resistance(p.RSink), RgExt: q.Resistance(p.RgExt)},
-		TjFixed: q.Some[q.Temperature](25),
+		TjFixed: q.Some(q.Temperature(cmp.Or(p.Tj, 25))),
 		Derate:  q.Ratio(p.Derate),
 		// The loop inductance in series with the supply is the layout's
 		// (the package's common-source inductance comes with the part).

@@ -35,7 +35,9 @@ type HeldOut struct {
 //   - body-diode grading 0.3-0.6, junction potential 0.5-1.0 V, transit
 //     time 4-60 ns;
 //   - gate resistance 0.3-4 Ω; Cgs and the channel's transconductance
-//     each ±40 % about the size's value.
+//     each ±40 % about the size's value;
+//   - the threshold's temperature coefficient 1.5-6 mV/K (a second
+//     stream of the seed, so that the other draws stay as they were).
 func (h HeldOut) Devices() ([]spice.Model, error) {
 	if h.Count < 1 {
 		return nil, fmt.Errorf("held-out set: count must be ≥ 1 (got %d)", h.Count)
@@ -50,6 +52,7 @@ func (h HeldOut) Devices() ([]spice.Model, error) {
 		}
 	}
 	rng := rand.New(rand.NewPCG(h.Seed, 0x5eed))
+	tc := rand.New(rand.NewPCG(h.Seed, 0x7c))
 	uni := func(lo, hi float64) float64 { return lo + (hi-lo)*rng.Float64() }
 	logUni := func(lo, hi float64) float64 { return math.Exp(uni(math.Log(lo), math.Log(hi))) }
 	out := make([]spice.Model, h.Count)
@@ -70,6 +73,7 @@ func (h HeldOut) Devices() ([]spice.Model, error) {
 			Vj:     uni(0.5, 1.0),
 			M:      uni(0.3, 0.6),
 			Tt:     logUni(4e-9, 60e-9),
+			Tcvth:  1.5e-3 + 4.5e-3*tc.Float64(),
 		}
 		m.Cgdmin = m.Cgdmax / logUni(6, 40)
 		rd := 2.0e-3 * rv / s
