@@ -33,32 +33,35 @@ func Evaluate(pt *stage.Point, dev, partner *fit.Device, tr *Trace) Result {
 // copying it out.
 //
 // A part that leaves blank a value whose estimate has no unfavourable end
-// has a twin with the other end of that estimate (fit.Device.Alt): both are
-// evaluated and the worse result is kept, set aside before passing, then
-// the higher loss (FlagEstimateLow says the twin's was kept).
+// has twins with the other ends of those estimates (fit.Device.Alt, a
+// chain): each is evaluated and the worst result is kept, set aside before
+// passing, then the higher loss (FlagEstimateLow says a twin's was kept).
+// A partner with twins steps along its chain with the part (the last twin
+// of the shorter chain stays).
 func EvaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trace) {
 	if dev.Alt == nil && (partner == nil || partner.Alt == nil) {
 		evaluateInto(r, pt, dev, partner, tr)
 		return
 	}
+	evaluateInto(r, pt, dev, partner, nil)
+	first := r.Losses.Total()
+	kept := 0
 	var alt Result
-	evaluateInto(&alt, pt, twin(dev), twin(partner), nil)
-	if tr == nil {
-		evaluateInto(r, pt, dev, partner, nil)
-		if !worse(&alt, r) {
-			return
+	for k := 1; k < max(chainLen(dev), chainLen(partner)); k++ {
+		evaluateInto(&alt, pt, nth(dev, k), nth(partner, k), nil)
+		if worse(&alt, r) {
+			*r, kept = alt, k
 		}
-		*r = alt
-	} else {
-		var main Result
-		evaluateInto(&main, pt, dev, partner, nil)
-		if !worse(&alt, &main) {
-			evaluateInto(r, pt, dev, partner, tr)
-			return
+	}
+	if tr != nil {
+		evaluateInto(r, pt, nth(dev, kept), nth(partner, kept), tr)
+		if kept > 0 {
+			tr.add("", "estimates", "a blank value with no unfavourable end was taken at both ends of its range; the other end gives the worse result, shown here",
+				T("total, first end", first), T("total, this end", r.Losses.Total()))
 		}
-		evaluateInto(r, pt, twin(dev), twin(partner), tr)
-		tr.add("", "estimates", "a blank value with no unfavourable end was taken at both ends of its range; the other end gives the worse result, shown here",
-			T("total, first end", main.Losses.Total()), T("total, this end", r.Losses.Total()))
+	}
+	if kept == 0 {
+		return
 	}
 	// The result names the part's own devices, not the twins.
 	r.Dev, r.Flags = dev, r.Flags|fit.FlagEstimateLow
@@ -68,20 +71,30 @@ func EvaluateInto(r *Result, pt *stage.Point, dev, partner *fit.Device, tr *Trac
 	for i := 0; i < r.N; i++ {
 		d := &r.Devices[i]
 		switch d.Dev {
-		case dev.Alt:
+		case nth(dev, kept):
 			d.Dev = dev
-		case twin(partner):
+		case nth(partner, kept):
 			d.Dev = partner
 		}
 	}
 }
 
-// twin is the low-end twin of d when it has one, else d (nil for nil).
-func twin(d *fit.Device) *fit.Device {
-	if d != nil && d.Alt != nil {
-		return d.Alt
+// nth is the k-th twin of d's chain (d itself for k = 0, the last twin
+// when the chain is shorter; nil for nil).
+func nth(d *fit.Device, k int) *fit.Device {
+	for ; k > 0 && d != nil && d.Alt != nil; k-- {
+		d = d.Alt
 	}
 	return d
+}
+
+// chainLen is the number of devices in d's chain, d included (0 for nil).
+func chainLen(d *fit.Device) int {
+	n := 0
+	for ; d != nil; d = d.Alt {
+		n++
+	}
+	return n
 }
 
 // worse reports whether a ranks below b: set aside where b passes, or the

@@ -67,7 +67,7 @@ func (d *Device) fitOss() error {
 			return loss.OssExponent(pts), nil
 		}
 		d.Flags |= FlagOssSqrtLaw
-		return ossExponent(from, d.Low), nil
+		return ossExponent(from, d.LowCap), nil
 	}
 	var err error
 	switch {

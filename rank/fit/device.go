@@ -177,11 +177,18 @@ type Device struct {
 	// part gives eoss_loss).
 	HysteresisFraction float64
 
-	// Low is true in the twin that takes the low end of the bracketed
-	// estimates; Alt is that twin (nil when the part leaves none of them
-	// blank). The evaluation keeps the worse of the two.
-	Low bool
-	Alt *Device
+	// Low is true in a twin that takes the low end of the bracketed
+	// estimates of the gate (rg_int, l_cs, the threshold's temperature law,
+	// the gate-charge split, the plateau), LowCap in one that takes the low
+	// end of the capacitances' (the output capacitance's exponent, the
+	// Miller charge without crss). Alt is the first twin, both ends low;
+	// when the part leaves values of both groups blank, its Alt holds the
+	// twin with the gate's low ends alone, and that one's Alt the twin with
+	// the capacitances' alone, since the two groups can move the loss in
+	// opposite directions. nil when the part leaves none of them blank.
+	// The evaluation keeps the worst of the chain.
+	Low, LowCap bool
+	Alt         *Device
 
 	Flags Flags // fallbacks that belong to the part, whatever the operating point
 }
@@ -190,22 +197,37 @@ type Device struct {
 // a value blank that can make its edges faster or slower (Alt), it also
 // prepares the twin with the other end of each such estimate.
 func Prepare(p *devices.Part) (Device, error) {
-	d, err := prepare(p, false)
-	if err != nil || !d.bracketed() {
+	d, err := prepare(p, false, false)
+	if err != nil {
 		return d, err
 	}
-	alt, err := prepare(p, true)
+	gate, caps := d.bracketed()
+	if !gate && !caps {
+		return d, nil
+	}
+	alt, err := prepare(p, gate, caps)
 	if err != nil {
 		return Device{}, err
 	}
 	d.Alt = &alt
+	if gate && caps {
+		g, err := prepare(p, true, false)
+		if err != nil {
+			return Device{}, err
+		}
+		c, err := prepare(p, false, true)
+		if err != nil {
+			return Device{}, err
+		}
+		g.Alt, alt.Alt = &c, &g
+	}
 	return d, nil
 }
 
 // prepare fits the laws with each estimate at its high end (the end that
 // costs more loss), or at its low end when low is true.
-func prepare(p *devices.Part, low bool) (Device, error) {
-	d := Device{Part: p, Low: low, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
+func prepare(p *devices.Part, low, lowCap bool) (Device, error) {
+	d := Device{Part: p, Low: low, LowCap: lowCap, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
 	if !p.RgInt.OK {
 		d.Flags |= FlagRgIntAssumed
 	}

@@ -320,12 +320,14 @@ func ossExponent(from int, low bool) float64 {
 }
 
 // bracketed reports whether the part leaves blank a value whose estimate
-// has no unfavourable end (see Prepare and the twin Alt).
-func (d *Device) bracketed() bool {
+// has no unfavourable end (see Prepare and the twins Alt), of the gate and
+// of the capacitances.
+func (d *Device) bracketed() (gate, caps bool) {
 	p := d.Part
-	return !p.RgInt.OK || !p.Lcs.OK || !(p.VgsThHot.OK && p.VgsThHotTj.OK) ||
-		d.Flags&(FlagGateChargeEstimated|FlagPlateauEstimated|FlagOssSqrtLaw) != 0 ||
-		d.Method == MethodGateCharge && !d.HasMiller
+	gate = !p.RgInt.OK || !p.Lcs.OK || !(p.VgsThHot.OK && p.VgsThHotTj.OK) ||
+		d.Flags&(FlagGateChargeEstimated|FlagPlateauEstimated) != 0
+	caps = d.Flags&FlagOssSqrtLaw != 0 || d.Method == MethodGateCharge && !d.HasMiller
+	return gate, caps
 }
 
 // MillerChargeAt is the Miller charge moved by a swing from 0 to v: from
@@ -333,7 +335,10 @@ func (d *Device) bracketed() bool {
 // whole charge below its test voltage (loss.MillerChargeAt), or in the low
 // twin the √ law (loss.MillerChargeSqrt).
 func (d *Device) MillerChargeAt(v q.Voltage) q.Charge {
-	if d.Low {
+	if d.HasMiller {
+		return d.Miller.Charge(v)
+	}
+	if d.LowCap {
 		return loss.MillerChargeSqrt(d.Qgd, d.QgVds, v)
 	}
 	return loss.MillerChargeAt(d.Qgd, d.QgVds, v)
