@@ -1,6 +1,7 @@
 package fit
 
 import (
+	"cmp"
 	"fmt"
 	"slices"
 
@@ -36,18 +37,8 @@ func capPoints(buf *[loss.MaxCapPoints]loss.CapPoint, c1 q.Opt[q.Capacitance], v
 	for _, p := range curve {
 		add(p.V, p.C)
 	}
-	slices.SortFunc(pts, func(a, b loss.CapPoint) int { return cmpVoltage(a.V, b.V) })
+	slices.SortFunc(pts, func(a, b loss.CapPoint) int { return cmp.Compare(a.V, b.V) })
 	return pts
-}
-
-func cmpVoltage(a, b q.Voltage) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // fitOss fits the output-capacitance law: from charge and energy; or from

@@ -2,6 +2,7 @@ package spicecheck
 
 import (
 	"context"
+	"fmt"
 	"path/filepath"
 	"testing"
 	"time"
@@ -44,12 +45,7 @@ func TestCrossCheckHeldOut(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sum := s.Summarise()
-	rep := filepath.Join(out, "report.txt")
-	if err := s.WriteReport(rep, &sum); err != nil {
-		t.Fatal(err)
-	}
-	t.Logf("report: %s; %v\n%s", rep, s.Elapsed.Round(time.Millisecond), sum.SummaryText())
+	sum := report(t, s, filepath.Join(out, "report.txt"), fmt.Sprintf("held-out cells, %v", s.Elapsed.Round(time.Millisecond)))
 
 	// The targets of the unseen-parts work on a held-out set: total
 	// within 5 % median and 15 % worst, the edges (switching) within 10 %
@@ -117,12 +113,18 @@ func onePoint(t *testing.T, s *Suite, out string) Summary {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sum := one.Summarise()
-	rep := filepath.Join(out, "report-one-point.txt")
-	if err := one.WriteReport(rep, &sum); err != nil {
+	return report(t, one, filepath.Join(out, "report-one-point.txt"), "one capacitance point")
+}
+
+// report summarises suite s, writes its report to path and logs the
+// summary under title.
+func report(t *testing.T, s *Suite, path, title string) Summary {
+	t.Helper()
+	sum := s.Summarise()
+	if err := s.WriteReport(path, &sum); err != nil {
 		t.Fatal(err)
 	}
-	t.Logf("one capacitance point: %s\n%s", rep, sum.SummaryText())
+	t.Logf("%s: %s\n%s", title, path, sum.SummaryText())
 	return sum
 }
 

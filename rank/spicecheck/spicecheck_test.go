@@ -3,6 +3,7 @@ package spicecheck
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -66,12 +67,7 @@ func TestCrossCheck(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sum := s.Summarise()
-	rep := filepath.Join(out, "report.txt")
-	if err := s.WriteReport(rep, &sum); err != nil {
-		t.Fatal(err)
-	}
-	t.Logf("report: %s; library: %s; %v\n%s", rep, s.Library, s.Elapsed.Round(time.Millisecond), sum.SummaryText())
+	sum := report(t, s, filepath.Join(out, "report.txt"), fmt.Sprintf("development cells (library %s), %v", s.Library, s.Elapsed.Round(time.Millisecond)))
 
 	t.Run("coverage", func(t *testing.T) { checkCoverage(t, cfg, s) })
 	onePoint(t, s, out)

@@ -1,6 +1,7 @@
 package verify
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -292,7 +293,7 @@ func (r *Report) order() {
 	}
 	by := func(f func(kv) float64) []string {
 		s := slices.Clone(xs)
-		slices.SortStableFunc(s, func(a, b kv) int { return cmpFloat(f(a), f(b)) })
+		slices.SortStableFunc(s, func(a, b kv) int { return cmp.Compare(f(a), f(b)) })
 		out := make([]string, len(s))
 		for i, x := range s {
 			out[i] = x.name
@@ -302,16 +303,6 @@ func (r *Report) order() {
 	r.PredictedOrder = by(func(x kv) float64 { return x.pred })
 	r.SimulatedOrder = by(func(x kv) float64 { return x.sim })
 	r.OrderAgrees = slices.Equal(r.PredictedOrder, r.SimulatedOrder)
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // ModelPath is where a part's spice_model is found: as written when
