@@ -54,16 +54,11 @@ func (m *devModel) prepare() {
 	m.odOn, m.qgs2On = od(st.IOn)
 	m.odOff, m.qgs2Off = od(st.IOff)
 	m.odPk, m.qgs2Pk = od(st.IPeak)
-	if d.HasMiller {
-		m.qgdV, m.qgdGate = d.Miller.Charge(st.V), d.Miller.Charge(m.vdsGate)
-		if m.hard {
-			m.rise = d.Rise.AtPoint(&d.Miller, m.oss)
-			m.risePow = loss.NewPowNear(&d.RisePow)
-			m.cossSmall = q.Capacitance(m.rise.CossTop())
-		}
-	} else {
-		m.qgdV = d.MillerChargeAt(st.V)
-		m.qgdGate = d.MillerChargeAt(m.vdsGate)
+	m.qgdV, m.qgdGate = d.MillerChargeAt(st.V), d.MillerChargeAt(m.vdsGate)
+	if d.HasMiller && m.hard {
+		m.rise = d.Rise.AtPoint(&d.Miller, m.oss)
+		m.risePow = loss.NewPowNear(&d.RisePow)
+		m.cossSmall = q.Capacitance(m.rise.CossTop())
 	}
 	if m.cossSmall == 0 && st.V > 0 && m.lloop > 0 {
 		m.cossSmall = m.oss.C()

@@ -135,9 +135,11 @@ func FitMillerLaw(d MillerData) (MillerLaw, error) {
 			dep.mBelow = m
 			return cox() - dep.at(0)
 		}
-		if gap(0) > 0 {
-			if r, err := numeric.FindRoot(gap, 0, hi, 0, 1e-9); err == nil {
-				dep.mBelow = r.X
+		if gap(0) > 0 { // gap(hi) < 0: a sign change FindRoot cannot miss
+			r, err := numeric.FindRoot(gap, 0, hi, 0, 1e-9)
+			dep.mBelow = r.X
+			if err != nil {
+				dep.mBelow = 0
 			}
 		}
 	}
