@@ -228,6 +228,8 @@ type Part struct {
 	QrrHot     q.Opt[q.Charge]      `csv:"qrr_hot"`           // recovery charge hot, C
 	QrrHotTj   q.Opt[q.Temperature] `csv:"qrr_hot_tj"`        // junction temperature of qrr_hot, °C
 	QrrHasCoss Flag                 `csv:"qrr_includes_coss"` // yes when the qrr figure includes the output-capacitance charge
+	Trr        q.Opt[q.Time]        `csv:"trr"`               // reverse-recovery time of the qrr test, s
+	Irrm       q.Opt[q.Current]     `csv:"irrm"`              // peak reverse-recovery current of the qrr test, A
 
 	// Package parasitics.
 	Lcs   q.Opt[q.Inductance] `csv:"l_cs"`   // common-source inductance, H

@@ -136,6 +136,8 @@ var plausibleRanges = [...]plausible{
 	{col: "qrr_tj", lo: tTestLo, hi: tTestHi},
 	{col: "qrr_hot", lo: 10e-12, hi: 100e-6, zero: true, prefer: "n"},
 	{col: "qrr_hot_tj", lo: tTestLo, hi: tTestHi},
+	{col: "trr", lo: 1e-9, hi: 10e-6, prefer: "n"},
+	{col: "irrm", lo: 10e-3, hi: 1e3},
 
 	// Package parasitics.
 	{col: "l_cs", lo: 10e-12, hi: 100e-9, zero: true, prefer: "n"},

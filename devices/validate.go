@@ -135,6 +135,8 @@ func (v *validator) run() {
 	optPositive(v, "coss2", p.Coss2)
 	optPositive(v, "crss2", p.Crss2)
 	optPositive(v, "cap2_vds", p.Cap2Vds)
+	optPositive(v, "trr", p.Trr)
+	optPositive(v, "irrm", p.Irrm)
 	optPositive(v, "qoss", p.Qoss)
 	optPositive(v, "eoss", p.Eoss)
 	optPositive(v, "oss_vds", p.OssVds)

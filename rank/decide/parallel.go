@@ -98,6 +98,7 @@ func ParallelPart(p *devices.Part, n int) (devices.Part, error) {
 	mulOpt(&c.QrrIf, k)
 	mulOpt(&c.QrrDidt, k)
 	mulOpt(&c.QrrHot, k)
+	mulOpt(&c.Irrm, k)
 	mulOpt(&c.Lcs, 1/k)
 	mulOpt(&c.Lloop, 1/k)
 	return c, nil

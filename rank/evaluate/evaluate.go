@@ -212,7 +212,7 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Curre
 			p.flags |= fit.FlagQrrCondEstimated
 		}
 	}
-	if !k.Part.Qrr.OK {
+	if k.QrrEst > 0 {
 		p.flags |= fit.FlagQrrEstimated
 	}
 	p.flags |= fit.FlagQrrInModel

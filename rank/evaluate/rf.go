@@ -261,7 +261,7 @@ func evalClassD(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		out.Edead = q.Energy(float64(vsd) * float64(i) * float64(edge.TDiode))
 		out.Losses.DeadTime = q.Power(float64(out.Edead) * f)
 		if edge.PartnerDiode && d.Part.Technology != devices.GaN {
-			if !d.Part.Qrr.OK {
+			if d.QrrEst > 0 {
 				out.Flags |= fit.FlagQrrEstimated
 			}
 			out.Erec = loss.RecoveryEnergy(d.Qrr.At(25), s.Vin)

@@ -421,16 +421,17 @@ func (d *Device) prepareSecondOrder() error {
 	}
 
 	// Recovery (GaN has none).
-	if p.Technology != devices.GaN && p.Qrr.OK {
-		if p.Qrr.V < 0 {
-			return bad("qrr", "must be ≥ 0 C (got %s)", p.Qrr.V)
+	qrr := d.qrrGiven()
+	if p.Technology != devices.GaN && qrr.OK {
+		if qrr.V < 0 {
+			return bad("qrr", "must be ≥ 0 C (got %s)", qrr.V)
 		}
 		t0 := p.QrrTj.Or(25)
 		hot := p.QrrHot.OK && p.QrrHotTj.OK
 		if hot && (p.QrrHot.V < 0 || p.QrrHotTj.V == t0) {
 			return bad("qrr_hot", "needs a charge ≥ 0 at a qrr_hot_tj other than qrr_tj (%s)", t0)
 		}
-		d.Qrr, d.QrrHot = loss.FitQrrLaw(p.Qrr.V, t0, p.QrrHot.V, p.QrrHotTj.V, hot), hot
+		d.Qrr, d.QrrHot = loss.FitQrrLaw(qrr.V, t0, p.QrrHot.V, p.QrrHotTj.V, hot), hot
 
 	}
 

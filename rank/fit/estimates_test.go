@@ -123,3 +123,46 @@ func TestPlateauFromGfs(t *testing.T) {
 		}
 	}
 }
+
+// A part without qrr but with trr and irrm of the recovery test takes
+// Q_rr = ½·I_rrm·t_rr (the triangular recovery current, Mohan, Undeland,
+// Robbins 2003 ch. 20, from memory): 20 ns and 3 A give 30 nC, flagged
+// qrr-tri and not estimated; a part that gives qrr keeps it; one with
+// neither has it estimated from its output charge.
+func TestQrrFromTrr(t *testing.T) {
+	for _, c := range []struct {
+		name               string
+		qrr, trr, irrm     float64 // C, s, A; 0: blank
+		want               float64 // C at 25 °C
+		fromTrr, estimated bool
+	}{
+		{"trr and irrm", 0, 20e-9, 3, 30e-9, true, false},
+		{"qrr given as well", 20e-9, 20e-9, 3, 20e-9, false, false},
+		{"trr alone", 0, 20e-9, 0, 0, false, true},
+	} {
+		p := testkit.HandCasePart()
+		p.Qrr = q.Opt[q.Charge]{}
+		if c.qrr > 0 {
+			p.Qrr = q.Some(q.Charge(c.qrr))
+		}
+		if c.trr > 0 {
+			p.Trr = q.Some(q.Time(c.trr))
+		}
+		if c.irrm > 0 {
+			p.Irrm = q.Some(q.Current(c.irrm))
+		}
+		d, err := Prepare(&p)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if got := d.Flags&FlagQrrFromTrr != 0; got != c.fromTrr {
+			t.Errorf("%s: qrr-tri %v, want %v", c.name, got, c.fromTrr)
+		}
+		if got := d.QrrEst > 0; got != c.estimated {
+			t.Errorf("%s: estimated %v, want %v", c.name, got, c.estimated)
+		}
+		if !c.estimated {
+			testkit.Near(t, c.name, float64(d.Qrr.At(25)), c.want, 1e-12)
+		}
+	}
+}

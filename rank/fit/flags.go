@@ -56,6 +56,7 @@ const (
 	FlagQrrCondEstimated                      // qrr_if or qrr_didt missing: the recovery test at a quarter of id_max and 100 A/µs
 	FlagTdNoConditions                        // informational: td_on or td_off not used (test conditions missing, or not an RC gate's delay)
 	FlagCgdShape                              // no crss2 or crss_curve: Cgd's fall with voltage by the abrupt-junction law through crss
+	FlagQrrFromTrr                            // informational: qrr blank, taken as ½·irrm·trr
 	flagCount
 )
 
@@ -104,6 +105,7 @@ var flagText = [...]struct{ code, text string }{
 	{"qrr-cond?", "qrr_if or qrr_didt not given: the recovery test taken at a quarter of id_max and 100 A/µs (the unfavourable ends of the usual test) when the charge is moved to the working current and di/dt; or qrr_includes_coss without qrr_vr: no output charge taken out"},
 	{"td-cond?", "td_on or td_off not used (test conditions tsw_vgs, tsw_id, tsw_rg or tsw_rgen missing, or no RC gate takes that time under them): dead-time gate delays from the gate charge"},
 	{"cgd-shape?", "crss at one voltage (no crss2 or crss_curve): Cgd above the plateau taken to fall as (0.7 V + Vdg)^−½ through it, the abrupt junction and the steep end of the usual ⅓ to ½ (more Miller charge in the middle of the edge); below the plateau the oxide value that keeps qgd"},
+	{"qrr-tri", "qrr not given: the recovered charge taken as ½·irrm·trr of the same test (a triangular recovery current)"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".

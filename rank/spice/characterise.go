@@ -595,6 +595,9 @@ func (ds *Datasheet) Part(m *Model) devices.Part {
 	if ds.QrrIf > 0 && ds.QrrDidt > 0 {
 		p.Qrr, p.QrrIf, p.QrrDidt = q.Some(q.Charge(ds.Qrr)), q.Some(q.Current(ds.QrrIf)), q.Some(q.Slew(ds.QrrDidt))
 		p.QrrTj, p.QrrHasCoss = q.Some[q.Temperature](25), false
+		if ds.Trr > 0 && ds.Irrm > 0 {
+			p.Trr, p.Irrm = q.Some(q.Time(ds.Trr)), q.Some(q.Current(ds.Irrm))
+		}
 	}
 	return p
 }
