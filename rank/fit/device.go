@@ -421,8 +421,11 @@ func (d *Device) prepareSecondOrder() error {
 	}
 
 	// Recovery (GaN has none).
-	qrr := d.qrrGiven()
+	qrr, fromTrr := d.qrrGiven()
 	if p.Technology != devices.GaN && qrr.OK {
+		if fromTrr {
+			d.Flags |= FlagQrrFromTrr
+		}
 		if qrr.V < 0 {
 			return bad("qrr", "must be ≥ 0 C (got %s)", qrr.V)
 		}

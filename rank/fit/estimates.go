@@ -144,7 +144,7 @@ func (d *Device) estimate() {
 	}
 
 	// Recovered charge of a body diode, from the output charge.
-	if p.Technology != devices.GaN && !d.qrrGiven().OK {
+	if qrr, _ := d.qrrGiven(); p.Technology != devices.GaN && !qrr.OK {
 		k := qrrPerQossSiHV
 		switch {
 		case p.Technology == devices.SiC:
@@ -363,18 +363,17 @@ func hotPointLaw(t0 q.Temperature, alpha float64, t1 q.Temperature, f1 float64) 
 	return l
 }
 
-// qrrGiven is the recovered charge the part gives: qrr, or with qrr blank
-// ½·irrm·trr of the same test (FlagQrrFromTrr), the charge of a recovery
+// qrrGiven is the recovered charge the part gives, and whether it is
+// ½·irrm·trr of the same test (qrr blank), the charge of a recovery
 // current that rises to irrm and falls back linearly within trr.
 //
 // Source: the triangular reverse-recovery waveform, Q_rr ≈ ½·I_rrm·t_rr
 // (Mohan, Undeland, Robbins, "Power Electronics: Converters, Applications
 // and Design", 3rd ed., 2003, ch. 20; from memory).
-func (d *Device) qrrGiven() q.Opt[q.Charge] {
+func (d *Device) qrrGiven() (qrr q.Opt[q.Charge], fromTrr bool) {
 	p := d.Part
 	if p.Qrr.OK || !(p.Trr.OK && p.Irrm.OK) {
-		return p.Qrr
+		return p.Qrr, false
 	}
-	d.Flags |= FlagQrrFromTrr
-	return q.Some(q.Charge(0.5 * float64(p.Irrm.V) * float64(p.Trr.V)))
+	return q.Some(q.Charge(0.5 * float64(p.Irrm.V) * float64(p.Trr.V))), true
 }

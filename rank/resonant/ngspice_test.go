@@ -165,28 +165,13 @@ func TestNgspiceClassETurnOff(t *testing.T) {
 	const cycles = 60
 	n := float64(cycles)
 	idc := float64(r.Po+r.TurnOff+r.TurnOn) / float64(d.VDD) // supply current of the steady state with the fall
-	netlist := fmt.Sprintf(`* class E turn-off with a linear current fall
-I1 0 d DC %.10g
-Vsw d s 0
-B1 s 0 I = min(V(s)/1m, V(lim))
-Vlim lim 0 PWL(0 100 %.10g 100 %.10g %.10g %.10g 0 %.10g 0 %.10g 100 r=0)
-Bp p 0 V = V(d)*I(Vsw)
-C1 d 0 %.10g
-L1 d a %.10g
-C2 a b %.10g
-Vs b c 0
-R1 c 0 %.10g
-.options method=gear reltol=1e-6 abstol=1e-12 vntol=1e-9
-.tran %.10g %.10g %.10g %.10g uic
-.meas tran eoff INTEG v(p) FROM=%.10g TO=%.10g
+	lim := fmt.Sprintf("0 100 %.10g 100 %.10g %.10g %.10g 0 %.10g 0 %.10g 100", T/2-1e-12, T/2, float64(r.IOff), T/2+tf, T-1e-12, T)
+	meas := fmt.Sprintf(`.meas tran eoff INTEG v(p) FROM=%.10g TO=%.10g
 .meas tran irms RMS i(Vs) FROM=%.10g TO=%.10g
 .meas tran vavg AVG v(d) FROM=%.10g TO=%.10g
 .meas tran ipre FIND i(Vsw) AT=%.10g
-.end
-`, idc, T/2-1e-12, T/2, float64(r.IOff), T/2+tf, T-1e-12, T,
-		float64(d.C1), float64(d.L), float64(d.C2), float64(d.R),
-		T/4000, n*T, (n-2)*T, T/4000,
-		(n-0.5)*T, (n-0.5)*T+2*tf, (n-1)*T, n*T, (n-1)*T, n*T, (n-0.5)*T-2e-12)
+`, (n-0.5)*T, (n-0.5)*T+2*tf, (n-1)*T, n*T, (n-1)*T, n*T, (n-0.5)*T-2e-12)
+	netlist := limitedSwitchNetlist("class E turn-off with a linear current fall", d, idc, lim, n, n-2, meas)
 	m := runNgspice(t, netlist, "eoff", "irms", "vavg", "ipre")
 	const src = "ngspice 39 transient, behavioural switch with a linear fall"
 	ptf := m["eoff"] * float64(d.F)
@@ -275,4 +260,29 @@ R1 c 0 %.10g
 	}
 	t.Logf("junction shunt: predicted V_pk %.4g V (linear 42.74 V), ngspice %.4g V; V_avg %.4g V; v_on %.3g V; C_ext %s, C_dev %s, X %s",
 		float64(sh.VPeak), m["vpk"], m["vavg"], m["von"], sh.CExternal, sh.CDevice, sh.X)
+}
+
+// limitedSwitchNetlist is the class E stage d of the ngspice tests: a supply
+// current idc into the drain (an ideal choke), the switch as a
+// behavioural current min(v/1 mΩ, v(lim)) whose limit follows the PWL
+// points lim, the shunt, the series tank and the load, run for n periods
+// from rest with the waveform saved from period from on, and the .meas
+// lines meas.
+func limitedSwitchNetlist(title string, d ClassE, idc float64, lim string, n, from float64, meas string) string {
+	T := 1 / float64(d.F)
+	return fmt.Sprintf(`* %s
+I1 0 d DC %.10g
+Vsw d s 0
+B1 s 0 I = min(V(s)/1m, V(lim))
+Vlim lim 0 PWL(%s r=0)
+Bp p 0 V = V(d)*I(Vsw)
+C1 d 0 %.10g
+L1 d a %.10g
+C2 a b %.10g
+Vs b c 0
+R1 c 0 %.10g
+.options method=gear reltol=1e-6 abstol=1e-12 vntol=1e-9
+.tran %.10g %.10g %.10g %.10g uic
+%s.end
+`, title, idc, lim, float64(d.C1), float64(d.L), float64(d.C2), float64(d.R), T/4000, n*T, from*T, T/4000, meas)
 }

@@ -42,30 +42,15 @@ func classETimed(t *testing.T, early float64) {
 	n := float64(cycles)
 	idc := float64(r.Po+r.TurnOff+r.TurnOn) / float64(d.VDD)
 	on := ton // the channel's turn-on after the start of the fall, which opens each period
-	netlist := fmt.Sprintf(`* class E with a shifted turn-on
-I1 0 d DC %.10g
-Vsw d s 0
-B1 s 0 I = min(V(s)/1m, V(lim))
-Vlim lim 0 PWL(0 %.10g %.10g 0 %.10g 0 %.10g 100 %.10g 100 %.10g %.10g r=0)
-Bp p 0 V = V(d)*I(Vsw)
-C1 d 0 %.10g
-L1 d a %.10g
-C2 a b %.10g
-Vs b c 0
-R1 c 0 %.10g
-.options method=gear reltol=1e-6 abstol=1e-12 vntol=1e-9
-.tran %.10g %.10g %.10g %.10g uic
-.meas tran eoff INTEG v(p) FROM=%.10g TO=%.10g
+	lim := fmt.Sprintf("0 %.10g %.10g 0 %.10g 0 %.10g 100 %.10g 100 %.10g %.10g", float64(r.IOff), tf, on-1e-12, on, T-1e-12, T, float64(r.IOff))
+	meas := fmt.Sprintf(`.meas tran eoff INTEG v(p) FROM=%.10g TO=%.10g
 .meas tran eon INTEG v(p) FROM=%.10g TO=%.10g
 .meas tran von FIND v(d) AT=%.10g
 .meas tran irms RMS i(Vs) FROM=%.10g TO=%.10g
 .meas tran vavg AVG v(d) FROM=%.10g TO=%.10g
-.end
-`, idc, float64(r.IOff), tf, on-1e-12, on, T-1e-12, T, float64(r.IOff),
-		float64(d.C1), float64(d.L), float64(d.C2), float64(d.R),
-		T/4000, n*T, (n-3)*T, T/4000,
-		(n-1)*T, (n-1)*T+2*tf, (n-2)*T+on-1e-11, (n-2)*T+on+T/50, (n-2)*T+on-2e-12,
+`, (n-1)*T, (n-1)*T+2*tf, (n-2)*T+on-1e-11, (n-2)*T+on+T/50, (n-2)*T+on-2e-12,
 		(n-1)*T, n*T, (n-1)*T, n*T)
+	netlist := limitedSwitchNetlist("class E with a shifted turn-on", d, idc, lim, n, n-3, meas)
 	m := runNgspice(t, netlist, "eoff", "eon", "von", "irms", "vavg")
 	const src = "ngspice 39 transient, behavioural switch with a linear fall and a shifted turn-on"
 	// A late gate: the voltage dips to zero, the switch conducts in

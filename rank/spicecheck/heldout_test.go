@@ -15,8 +15,9 @@ import (
 // TestCrossCheckHeldOut runs the held-out devices (HeldOut, drawn from
 // cell.toml's seed over wider ranges and never used to choose a constant)
 // through the hard-switched cell at the cell's points (two of them with a
-// hot junction), each rated at most 4× its bus (reference tool: ngspice 39, the Debian package, VDMOS
-// model). Its figures are the headline of docs/spice-crosscheck.md.
+// hot junction), each rated at most 4× its bus (reference tool: ngspice
+// 39, the Debian package, VDMOS model). Its figures are the headline of
+// docs/spice-crosscheck.md.
 func TestCrossCheckHeldOut(t *testing.T) {
 	r := needNgspice(t)
 	if testing.Short() {
