@@ -125,9 +125,14 @@ func GateEnergy(c GateCurve, vOff, vOn q.Voltage) q.Energy {
 }
 
 // GateSplit is the gate-drive energy per cycle divided among the three
-// resistances it flows through.
+// resistances it flows through and, when the driver's own voltage ramps,
+// the driver's output stage while it ramps.
 type GateSplit struct {
 	Driver, Rext, Rint q.Energy // J per cycle
+	// Edge is the share the driver's output stage takes while its voltage
+	// ramps (DriveRamp), J per cycle: drawn from the driver's supply like
+	// the rest, dissipated in the driver, not in the three resistances.
+	Edge q.Energy
 }
 
 // SplitGateEnergy divides the gate-drive energy per cycle among the driver's
@@ -139,8 +144,21 @@ type GateSplit struct {
 //
 // Source: Balogh 2001 (only the Rg,int share heats the transistor).
 func SplitGateEnergy(total, stored q.Energy, rOnDrv, rOffDrv, rExt, rInt q.Resistance) GateSplit {
-	eOn := float64(total - stored)
-	eOff := float64(stored)
+	return SplitGateEnergyRamp(total, stored, rOnDrv, rOffDrv, rExt, rInt, 1, 1)
+}
+
+// SplitGateEnergyRamp is SplitGateEnergy for a driver whose voltage ramps:
+// of each edge's energy only the share gOn (turn-on) or gOff (turn-off)
+// reaches the loop's resistances (RampShare); the rest is dissipated in
+// the driver's output stage while it ramps (GateSplit.Edge). The energy
+// drawn from the driver's supply is the same, [Qg(Von) − Qg(Voff)]·ΔV,
+// whatever the edge: only its place moves.
+//
+// Source: energy conservation over the gate loop (Balogh 2001) with the
+// ramp-driven RC of RampShare.
+func SplitGateEnergyRamp(total, stored q.Energy, rOnDrv, rOffDrv, rExt, rInt q.Resistance, gOn, gOff float64) GateSplit {
+	eOn := float64(total-stored) * gOn
+	eOff := float64(stored) * gOff
 	ron := float64(rOnDrv + rExt + rInt)
 	roff := float64(rOffDrv + rExt + rInt)
 	var s GateSplit
@@ -158,6 +176,7 @@ func SplitGateEnergy(total, stored q.Energy, rOnDrv, rOffDrv, rExt, rInt q.Resis
 	} else {
 		s.Driver += q.Energy(eOff)
 	}
+	s.Edge = q.Energy(float64(total-stored)*(1-gOn) + float64(stored)*(1-gOff))
 	return s
 }
 
@@ -200,4 +219,157 @@ func GateDelay(r q.Resistance, c q.Capacitance, vDrive, vFrom, vTo q.Voltage) q.
 		return q.Time(math.Inf(1)) // the drive never reaches vTo
 	}
 	return q.Time(float64(r) * float64(c) * math.Log(num/den))
+}
+
+// DriveRamp is a driver's open-circuit output at one edge: it moves
+// linearly from From to To in Edge, then holds To. Edge 0 is a step.
+type DriveRamp struct {
+	From, To q.Voltage // the off and the on level of this edge (To < From at turn-off), V
+	Edge     q.Time    // the driver's own 0–100 % edge, without its load, s; ≥ 0
+}
+
+// RampShare is the share of a step-driven edge's resistive energy that a
+// gate of time constant tau (the loop's R times the gate's charge per
+// volt) dissipates in its loop when the driver's voltage ramps over edge
+// instead: the ramp-driven RC dissipates
+//
+//	E_R = C·ΔV²·(τ/t_e)·[1 − (τ/t_e)·(1 − e^(−t_e/τ))]
+//
+// against ½·C·ΔV² for a step, so g = 2x·[1 − x·(1 − e^(−1/x))] with
+// x = τ/t_e: 1 for a step, 1 − 1/(3x) + 1/(12x²) for a short edge, and 2τ/t_e for an
+// edge much slower than the gate.
+//
+// Source: the series RC circuit driven by a linear ramp, solved in closed
+// form (common practice); its slow-edge limit E = (RC/T)·C·V² is the
+// adiabatic-charging result of Athas, Svensson, Koller, Tzartzanis & Chou,
+// "Low-power digital systems based on adiabatic-switching principles",
+// IEEE Trans. VLSI Systems 2(4), 1994 (from memory). The gate is taken as
+// linear over the edge (docs/models.md, "Driver edge").
+func RampShare(tau, edge q.Time) float64 {
+	if edge <= 0 {
+		return 1
+	}
+	if tau <= 0 {
+		return 0
+	}
+	y := float64(edge) / float64(tau) // 1/x
+	if y < 1e-3 {
+		return 1 - y/3 + y*y/12 // series: the closed form cancels here
+	}
+	x := 1 / y
+	return 2 * x * (1 - x*(-math.Expm1(-y)))
+}
+
+// GateDelayRamp is GateDelay with the driver's voltage ramping (d): the
+// time from the start of the driver's edge until a gate of constant
+// charge per volt c, driven through r from d.From, reaches vTo. While the
+// driver ramps the gate follows
+//
+//	u(t) = [t − τ·(1 − e^(−t/τ))]/t_e,   u = (v − From)/(To − From), τ = r·c,
+//
+// and after the edge it relaxes as the step response from u(t_e). It is
+// +Inf when the gate never reaches vTo and 0 when vTo is already passed.
+//
+// Source: the series RC circuit driven by a linear ramp, solved in closed
+// form (common practice); with d.Edge = 0 it is GateDelay.
+func GateDelayRamp(r q.Resistance, c q.Capacitance, d DriveRamp, vTo q.Voltage) q.Time {
+	if d.Edge <= 0 {
+		return GateDelay(r, c, d.To, d.From, vTo)
+	}
+	span := float64(d.To - d.From)
+	if span == 0 {
+		return GateDelay(r, c, d.To, d.From, vTo)
+	}
+	u := float64(vTo-d.From) / span
+	switch {
+	case u <= 0:
+		return 0
+	case u >= 1:
+		return q.Time(math.Inf(1))
+	}
+	s := float64(d.Edge)
+	tau := float64(r) * float64(c)
+	if tau <= 0 {
+		return q.Time(u * s) // the gate follows the driver
+	}
+	us := 1 - tau/s*(-math.Expm1(-s/tau)) // u at the end of the edge
+	if u > us {
+		return q.Time(s + tau*math.Log((1-us)/(1-u)))
+	}
+	// f(t) = t − τ·(1 − e^(−t/τ)) − u·s is increasing and convex on
+	// (0, s] with f(s) ≥ 0: Newton from t = s falls to the root from above.
+	t := s
+	for k := 0; k < 60; k++ {
+		em := -math.Expm1(-t / tau) // 1 − e^(−t/τ)
+		f := t - tau*em - u*s
+		df := 1 - (1 - em)
+		if df <= 0 || f <= 1e-15*s {
+			break
+		}
+		t -= f / df
+	}
+	return q.Time(t)
+}
+
+// RampChargeTime is the time a gate held at level vl (the Miller plateau,
+// or the mean gate level over the threshold-to-plateau segment) takes to
+// receive charge qq through r from a driver ramping as d, starting t0
+// after the driver's edge began; the driver's peak current iPeak (> 0)
+// caps the current. It is +Inf when the driver never pushes current into
+// that level.
+//
+// Source: the gate-charge method's constant-head interval (Balogh 2001)
+// with the driver's ramp integrated in closed form (common practice);
+// with d.Edge = 0, or t0 past the edge, it is qq/I with I the step's gate
+// current (GateCurrent).
+func RampChargeTime(qq q.Charge, r q.Resistance, iPeak q.Current, d DriveRamp, vl q.Voltage, t0 q.Time) q.Time {
+	if qq <= 0 {
+		return 0
+	}
+	sg := 1.0
+	if d.To < d.From {
+		sg = -1
+	}
+	hEnd := sg * float64(d.To-vl)
+	if hEnd <= 0 {
+		return q.Time(math.Inf(1))
+	}
+	iEnd := float64(GateCurrent(d.To, vl, r, iPeak))
+	need := float64(qq)
+	t, s := float64(t0), float64(d.Edge)
+	if t < s && r > 0 {
+		slope := sg * float64(d.To-d.From) / s // dh/dt while the driver ramps, V/s
+		h0 := sg * float64(d.From-vl)          // head at the edge's start, V
+		if tz := -h0 / slope; tz > t {
+			t = min(tz, s) // no current before the head turns positive
+		}
+		tc := s
+		if iPeak > 0 {
+			if tcap := (float64(iPeak)*float64(r) - h0) / slope; tcap < tc {
+				tc = max(tcap, t)
+			}
+		}
+		if tc > t { // the current rises with the head
+			ia, k := (h0+slope*t)/float64(r), slope/float64(r)
+			qseg := ia*(tc-t) + 0.5*k*(tc-t)*(tc-t)
+			if qseg >= need {
+				x := 2 * need / (ia + math.Sqrt(ia*ia+2*k*need))
+				return q.Time(t + x - float64(t0))
+			}
+			need -= qseg
+			t = tc
+		}
+		if t < s { // capped at the peak current until the edge ends
+			qseg := float64(iPeak) * (s - t)
+			if qseg >= need {
+				return q.Time(t + need/float64(iPeak) - float64(t0))
+			}
+			need -= qseg
+			t = s
+		}
+	}
+	if math.IsInf(iEnd, 1) {
+		return q.Time(max(t, float64(t0)) - float64(t0))
+	}
+	return q.Time(max(t, float64(t0)) + need/iEnd - float64(t0))
 }
