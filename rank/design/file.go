@@ -21,7 +21,7 @@ var nonStageKeys = map[string]bool{"parts": true, "demo": true, "partner": true,
 // Keys of the sections other than [stage]; [stage] takes every other stage
 // flag.
 var sectionKeys = map[string][]string{
-	"driver":   {"vdrive", "vdrive-off", "rsrc", "rsnk", "ipk-src", "ipk-snk", "rg-ext", "iq"},
+	"driver":   {"vdrive", "vdrive-off", "rsrc", "rsnk", "ipk-src", "ipk-snk", "rg-ext", "iq", "drive-edge"},
 	"thermal":  {"ta", "rth-ca", "tj"},
 	"derating": {"derate"},
 	"choice":   {"weighting", "parallel", "parallel-max", "fitted", "top", "partner"},

@@ -52,6 +52,7 @@ vdrive-off = "0"         # V, off level (negative for bipolar drive)
 rsrc = "2"               # ohm, driver pull-up
 rsnk = "1"               # ohm, driver pull-down
 # rg-ext = "0"           # ohm, external gate resistor
+# drive-edge = "2n"      # s, the driver's own output edge without its load (default: a step)
 
 [thermal]
 ta = "{{ta}}"                # °C, ambient (the same as when this line is left out)

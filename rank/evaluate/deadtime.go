@@ -107,7 +107,7 @@ func onDelay(d *fit.Device, drv *stage.Driver, v q.Voltage) q.Time {
 	if d.DelayCOn > 0 {
 		c = d.DelayCOn
 	}
-	return loss.GateDelay(r, c, drv.VOn, drv.VOff, v)
+	return loss.GateDelayRamp(r, c, rampOn(drv), v)
 }
 
 // softOffDelay is the time a soft-switched device's gate, carrying current
@@ -125,7 +125,7 @@ func softOffDelay(d *fit.Device, drv *stage.Driver, i q.Current, v q.Voltage) q.
 		cv := d.Curve(0, i, 0)
 		c = q.Capacitance(float64(cv.Charge(drv.VOn)-cv.Charge(v)) / float64(drv.VOn-v))
 	}
-	return loss.GateDelay(r, c, drv.VOff, drv.VOn, v)
+	return loss.GateDelayRamp(r, c, rampOff(drv), v)
 }
 
 // offTimes are a hard turn-off's delay to the plateau, voltage rise and
@@ -142,23 +142,12 @@ type offTimes struct{ delay, tvr, tif q.Time }
 // 2001).
 func turnOffTimes(d *fit.Device, drv *stage.Driver, v q.Voltage, i q.Current) offTimes {
 	r := drv.RSink + drv.RgExt + d.RgInt
-	vpl := d.PlateauAt(i)
+	delay := loss.GateDelayRamp(r, offDelayC(d), rampOff(drv), d.PlateauAt(i))
 	if d.Method != fit.MethodGateCharge {
-		c := inputCharge(d)
-		if d.DelayCOff > 0 {
-			c = d.DelayCOff
-		}
-		return offTimes{delay: loss.GateDelay(r, c, drv.VOff, drv.VOn, vpl), tif: fallTime(d, drv, i)}
-	}
-	c := d.Slope
-	switch {
-	case d.DelayCOff > 0:
-		c = d.DelayCOff
-	case c <= 0:
-		c = inputCharge(d)
+		return offTimes{delay: delay, tif: fallTime(d, drv, i)}
 	}
 	tr := gateChargeEdges(d, drv, v, i)
-	return offTimes{delay: loss.GateDelay(r, c, drv.VOff, drv.VOn, vpl), tvr: tr.Tvr, tif: tr.Tif}
+	return offTimes{delay: delay, tvr: tr.Tvr, tif: tr.Tif}
 }
 
 // currentRise is a device's current-rise interval at turn-on of current i
@@ -182,7 +171,17 @@ func gateChargeEdges(d *fit.Device, drv *stage.Driver, v q.Voltage, i q.Current)
 		ROn: drv.RSource + drv.RgExt + d.RgInt, ROff: drv.RSink + drv.RgExt + d.RgInt,
 		IPkOn: drv.IPeakSource, IPkOff: drv.IPeakSink,
 	}
-	return loss.GateChargeTransitions(c.Qgs2, c.Qgd, d.Vth, d.PlateauAt(i), loop, true)
+	vpl := d.PlateauAt(i)
+	tr := loss.GateChargeTransitions(c.Qgs2, c.Qgd, d.Vth, vpl, loop, true)
+	if drv.Edge > 0 {
+		// A driver still ramping when the gate reaches its threshold (or
+		// the plateau at turn-off) stretches the intervals.
+		vm := (d.Vth + vpl) / 2
+		dIr, dVf := rampStretch(rampOn(drv), loop.ROn, loop.IPkOn, onDelay(d, drv, d.Vth), c.Qgs2, vm, c.Qgd, vpl)
+		dVr, dIf := rampStretch(rampOff(drv), loop.ROff, loop.IPkOff, loss.GateDelayRamp(loop.ROff, offDelayC(d), rampOff(drv), vpl), c.Qgd, vpl, c.Qgs2, vm)
+		tr.Tir, tr.Tvf, tr.Tvr, tr.Tif = tr.Tir+dIr, tr.Tvf+dVf, tr.Tvr+dVr, tr.Tif+dIf
+	}
+	return tr
 }
 
 // crossConduction records the dead times' margins in the synchronous

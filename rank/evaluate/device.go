@@ -222,10 +222,7 @@ func recordAt(out *DeviceResult, m *devModel, a *tempState, tj q.Temperature, rd
 	p := d.Part
 	out.Vth, out.VplOn, out.VplOff = a.vth, a.vplOn, a.vplOff
 	out.Qg, out.Egate = a.qg, a.egate
-	out.Losses.GateDriver = q.Power(float64(a.split.Driver) * f)
-	out.Losses.GateRext = q.Power(float64(a.split.Rext) * f)
-	out.Losses.GateRint = q.Power(float64(a.split.Rint) * f)
-	out.Losses.DriverQuiescent = q.Power(float64(drv.VOn-drv.VOff) * float64(drv.IQ))
+	bookGate(out, a.split, drv, f)
 	out.Trans, out.Eon, out.Eoff = a.trans, a.eon, a.eoff
 	out.ElcsOn, out.ElcsOff, out.Eloop, out.Vpeak = a.elcsOn, a.elcsOff, a.eloop, a.vpeak
 	out.Losses.TurnOn = q.Power(float64(a.eon) * f)

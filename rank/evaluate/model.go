@@ -66,6 +66,13 @@ func (m *devModel) prepare() {
 	if d.Vth > 0 {
 		m.qthPerV = float64(d.Qth) / float64(d.Vth)
 	}
+	if m.vdsGate <= 0 {
+		// A soft edge: the oxide Cgd charges beside Cgs below the
+		// plateau too (fit.Device.Curve).
+		c := d.SoftCgd()
+		m.qthPerV += float64(c)
+		m.qgs2Pk += q.Charge(float64(c) * float64(m.odPk))
+	}
 	m.split[0] = loss.SplitGateEnergy(1, 0, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
 	m.split[1] = loss.SplitGateEnergy(1, 1, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
 	if d.Method != fit.MethodGateCharge {
@@ -73,7 +80,8 @@ func (m *devModel) prepare() {
 		g.qg = d.Part.Qg * q.Charge((drv.VOn-drv.VOff)/d.Part.QgVgs)
 		g.egate = q.Energy(float64(g.qg) * float64(drv.VOn-drv.VOff))
 		g.stored = g.egate / 2
-		g.split = loss.SplitGateEnergy(g.egate, g.stored, m.rdOn, m.rdOff, drv.RgExt, d.RgInt)
+		gOn, gOff := rampShares(drv, m.rOn, m.rOff, g.qg)
+		g.split = loss.SplitGateEnergyRamp(g.egate, g.stored, m.rdOn, m.rdOff, drv.RgExt, d.RgInt, gOn, gOff)
 	}
 	if m.dead && d.Part.Technology == devices.GaN {
 		m.rRev = float64(d.Gate.At(d.Part.RdsOnVgs))

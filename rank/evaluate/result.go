@@ -43,6 +43,10 @@ type DeviceResult struct {
 	Ecoss, Erec   q.Energy         // output-capacitance and recovery energies per cycle
 	Edead         q.Energy         // dead-time conduction energy per cycle
 	Egate         q.Energy         // gate-drive energy per cycle
+	// GateEdge is the part of Losses.GateDriver that the driver's output
+	// stage dissipates while its voltage ramps (stage.Driver.Edge; 0 for
+	// a step), W.
+	GateEdge q.Power
 	Qg            q.Charge         // gate charge moved per cycle (on minus off level)
 	IdLimit       q.Current        // continuous rating derated to the case temperature
 
@@ -165,7 +169,7 @@ type Losses struct {
 	Recovery   q.Power // the partner's reverse recovery, dissipated in this switch
 	GateRint   q.Power // gate-drive energy in the internal gate resistance
 
-	GateDriver      q.Power // gate-drive energy in the driver's output resistance
+	GateDriver      q.Power // gate-drive energy in the driver: its output resistance and, with a ramping edge, its output stage (DeviceResult.GateEdge)
 	GateRext        q.Power // gate-drive energy in the external gate resistor
 	DriverQuiescent q.Power // driver supply × quiescent current
 }

@@ -76,19 +76,18 @@ func gateDelays(d *fit.Device, drv *stage.Driver, i q.Current) (on, off q.Time) 
 // soft-switched (no Miller plateau: the drain sits near 0 V while the gate
 // moves), as for the synchronous switch of a converter.
 func softGate(out *DeviceResult, d *fit.Device, drv *stage.Driver, i q.Current, f float64) {
-	c := d.Curve(0, i, 0)
+	c := softCurve(d, i)
 	out.Qg = c.Charge(drv.VOn) - c.Charge(drv.VOff)
 	out.Egate = loss.GateEnergy(c, drv.VOff, drv.VOn)
-	split := loss.SplitGateEnergy(out.Egate, c.StoredEnergy(drv.VOff, drv.VOn), drv.RSource, drv.RSink, drv.RgExt, d.RgInt)
+	stored := c.StoredEnergy(drv.VOff, drv.VOn)
 	if d.Method != fit.MethodGateCharge {
 		out.Qg = d.Part.Qg * q.Charge((drv.VOn-drv.VOff)/d.Part.QgVgs)
 		out.Egate = q.Energy(float64(out.Qg) * float64(drv.VOn-drv.VOff))
-		split = loss.SplitGateEnergy(out.Egate, out.Egate/2, drv.RSource, drv.RSink, drv.RgExt, d.RgInt)
+		stored = out.Egate / 2
 	}
-	out.Losses.GateDriver = q.Power(float64(split.Driver) * f)
-	out.Losses.GateRext = q.Power(float64(split.Rext) * f)
-	out.Losses.GateRint = q.Power(float64(split.Rint) * f)
-	out.Losses.DriverQuiescent = q.Power(float64(drv.VOn-drv.VOff) * float64(drv.IQ))
+	gOn, gOff := rampShares(drv, drv.RSource+drv.RgExt+d.RgInt, drv.RSink+drv.RgExt+d.RgInt, out.Qg)
+	split := loss.SplitGateEnergyRamp(out.Egate, stored, drv.RSource, drv.RSink, drv.RgExt, d.RgInt, gOn, gOff)
+	bookGate(out, split, drv, f)
 }
 
 // rfScreens applies the screens of a resonant stage.
@@ -184,6 +183,7 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		rf.Hysteresis = true
 	}
 	softGate(out, d, &s.Driver, e.IOff, f)
+	eSwing := swingGate(out, d, &s.Driver, e, sh.VPeak)
 	rfScreens(out, d, s, sh.VPeak)
 	rfThermal(out, d, s, out.Losses.Switch())
 	l := out.Losses
@@ -203,9 +203,9 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 			note = "eoss_loss scaled as (V/V_stated)^1.5"
 		}
 		tr.add("control", "hysteresis", note, T("P", out.Losses.Coss))
-		tr.add("control", "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f at zero drain voltage (soft edges)",
-			T("Qg moved", out.Qg), T("E gate/cycle", out.Egate), T("driver", out.Losses.GateDriver),
-			T("Rg ext", out.Losses.GateRext), T("Rg int", out.Losses.GateRint))
+		tr.add("control", "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f at zero drain voltage (soft edges), plus the drain swing's displacement current Cgd·dv/dt through the off gate loop: E = R·ω·∫(Cgd·dv/dθ)² dθ",
+			T("Qg moved", out.Qg), T("E gate/cycle", out.Egate), T("E swing/cycle", eSwing), T("driver", out.Losses.GateDriver),
+			T("of which its ramping edge", out.GateEdge), T("Rg ext", out.Losses.GateRext), T("Rg int", out.Losses.GateRint))
 		tr.add("control", "conduction", "P = I_rms²·Rds(on)(Vgs, Tj)", T("I rms", out.Stress.IRms), T("Rds", out.Rds),
 			T("P", out.Losses.Conduction), T("Tj", out.Thermal.Tj))
 		tr.add("control", "efficiency", "η_stage = Po/(Po + P_switch); η with driver = Po/(Po + P_switch + P_driver)",

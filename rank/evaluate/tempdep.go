@@ -52,12 +52,16 @@ func (m *devModel) gateAt(a *tempState) {
 		a.stored = c.StoredEnergyQ(drv.VOff, drv.VOn, qOff, qOn)
 		// SplitGateEnergy(egate, stored, ...) through its ratios: the
 		// turn-on edge dissipates egate − stored, the turn-off edge stored.
+		// A ramping driver keeps only the shares gOn and gOff of each
+		// edge's energy in the resistances (SplitGateEnergyRamp).
 		on, off := float64(a.egate-a.stored), float64(a.stored)
+		gOn, gOff := rampShares(drv, m.rOn, m.rOff, a.qg)
 		k0, k1 := &m.split[0], &m.split[1]
 		a.split = loss.GateSplit{
-			Driver: q.Energy(on*float64(k0.Driver) + off*float64(k1.Driver)),
-			Rext:   q.Energy(on*float64(k0.Rext) + off*float64(k1.Rext)),
-			Rint:   q.Energy(on*float64(k0.Rint) + off*float64(k1.Rint)),
+			Driver: q.Energy(on*gOn*float64(k0.Driver) + off*gOff*float64(k1.Driver)),
+			Rext:   q.Energy(on*gOn*float64(k0.Rext) + off*gOff*float64(k1.Rext)),
+			Rint:   q.Energy(on*gOn*float64(k0.Rint) + off*gOff*float64(k1.Rint)),
+			Edge:   q.Energy(on*(1-gOn) + off*(1-gOff)),
 		}
 		return
 	}
@@ -87,6 +91,9 @@ func (m *devModel) transitionsAt(a *tempState) (igOn, igOff q.Current) {
 		}
 		a.trans.Tvf = chargeTime(m.qgdV, igOn)
 		a.trans.Tvr = chargeTime(m.qgdV, igOff)
+		if drv.Edge > 0 {
+			igOn, igOff = m.rampEdges(a, igOn, igOff)
+		}
 		a.tRise, a.tFall = a.trans.Tir, a.trans.Tif
 		return igOn, igOff
 	}

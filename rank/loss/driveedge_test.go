@@ -114,3 +114,36 @@ func TestSplitGateEnergyRamp(t *testing.T) {
 	testkit.Within(t, "edge", float64(s.Edge), 6*0.5+4*0.75, 1e-12)
 	testkit.Within(t, "Rint", float64(s.Rint), 3*1.0/4+1*1.0/3, 1e-12)
 }
+
+// The displacement current of an off gate under the ideal class E drain
+// swing, by hand: with θ from turn-off the switch voltage of Raab 1977
+// (Q_L → ∞, 50 % duty) has dv/dθ = π·V_DD·(1 − (π/2)·sin θ + cos θ), so
+// with a constant Cgd, E = R·ω·Cgd²·(π·V_DD)²·∫₀^π (…)² dθ and the
+// integral is π³/8 − π/2 (Raab, "Idealized operation of the class E
+// tuned power amplifier", IEEE Trans. CAS-24(12), 1977, the off-state
+// voltage). The Miller law's depletion (one Crss point, m = ½) lowers it.
+func TestSwingGateEnergy(t *testing.T) {
+	const vdd, c, r = 12.0, 100e-12, 3.0
+	w := 2 * math.Pi * 6.78e6
+	slope := func(th float64) float64 { return math.Pi * vdd * (1 - math.Pi/2*math.Sin(th) + math.Cos(th)) }
+	flat := KneeLaw(0, c, c)
+	want := r * w * c * c * math.Pi * math.Pi * vdd * vdd * (math.Pow(math.Pi, 3)/8 - math.Pi/2)
+	testkit.Within(t, "constant Cgd", float64(SwingGateEnergy(&flat, 0, r, w, math.Pi, slope)), want, 1e-5)
+	testkit.Within(t, "no resistance", float64(SwingGateEnergy(&flat, 0, 0, w, math.Pi, slope)), 0, 0)
+	law, err := FitMillerLaw(MillerData{Qgd: 2e-9, VQg: 20, Knee: 3, Crss: []CapPoint{{V: 20, C: 40e-12}}, M: 0.5, Phi: 0.7, VMax: 60})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The same integral with the closed-form voltage of the swing,
+	// v = π·V_DD·(θ − (π/2)·(1 − cos θ) + sin θ), on a fine grid.
+	v := func(th float64) float64 { return math.Pi * vdd * (th - math.Pi/2*(1-math.Cos(th)) + math.Sin(th)) }
+	const n = 200000
+	ref, h := 0.0, math.Pi/n
+	for k := 0; k < n; k++ {
+		th := (float64(k) + 0.5) * h
+		cg := float64(law.C(q.Voltage(v(th)) + law.Knee()))
+		ref += cg * cg * slope(th) * slope(th) * h
+	}
+	ref *= r * w
+	testkit.Within(t, "Miller law", float64(SwingGateEnergy(&law, 0, r, w, math.Pi, slope)), ref, 2.5e-2) // the midpoint rule on a piecewise-constant law: 1.9 % here
+}

@@ -70,6 +70,11 @@ func aboutDrive(pt *stage.Point) []string {
 	if d.IQ > 0 {
 		drv += fmt.Sprintf(", quiescent %s", d.IQ)
 	}
+	if d.Edge > 0 {
+		drv += fmt.Sprintf(", output edge %s", d.Edge)
+	} else {
+		drv += ", edge a step (--drive-edge)"
+	}
 	out = append(out, drv)
 	if sd := &s.SyncDriver; sd.VOn > 0 && pt.HasSync {
 		out = append(out, fmt.Sprintf("sync switch's own drive %s / %s, source %s, sink %s, external resistor %s",

@@ -29,11 +29,13 @@ var pointFields = []Field{
 	{"ipk_snk_a", "Ipk snk", "A", KindNumber, "", "driver peak sink current limit (0: none)"},
 	{"rg_ext_ohm", "Rg ext", "Ω", KindNumber, "", "external gate resistor"},
 	{"iq_a", "Iq", "A", KindNumber, "", "driver quiescent current"},
+	{"drive_edge_s", "drive edge", "s", KindNumber, "", "the driver's own 0-100 % output edge without its load (0: a step)"},
 	{"sync_vdrive_v", "sync vdrive", "V", KindNumber, "", "the sync switch's own driver (when given): gate drive on level"},
 	{"sync_vdrive_off_v", "sync vdrive off", "V", KindNumber, "", "the sync switch's own driver: gate drive off level"},
 	{"sync_rsrc_ohm", "sync Rsrc", "Ω", KindNumber, "", "the sync switch's own driver: source resistance"},
 	{"sync_rsnk_ohm", "sync Rsnk", "Ω", KindNumber, "", "the sync switch's own driver: sink resistance"},
 	{"sync_rg_ext_ohm", "sync Rg ext", "Ω", KindNumber, "", "the sync switch's own driver: external gate resistor"},
+	{"sync_drive_edge_s", "sync drive edge", "s", KindNumber, "", "the sync switch's own driver: its output edge"},
 	{"ta_c", "Ta", "°C", KindNumber, "", "ambient temperature used"},
 	{"ta_default", "Ta default", "", KindBool, "", "the ambient is the default, not given"},
 	{"rth_ca_k_per_w", "Rth ca", "K/W", KindNumber, "", "case-to-ambient thermal resistance added to rth_jc"},
@@ -123,12 +125,14 @@ func pointRecord(pt *stage.Point) (Record, map[string]Record) {
 	r.Set("ipk_snk_a", Num(float64(d.IPeakSink)))
 	r.Set("rg_ext_ohm", Num(float64(d.RgExt)))
 	r.Set("iq_a", Num(float64(d.IQ)))
+	r.Set("drive_edge_s", Num(float64(d.Edge)))
 	if sd := &s.SyncDriver; sd.VOn > 0 && pt.HasSync {
 		r.Set("sync_vdrive_v", Num(float64(sd.VOn)))
 		r.Set("sync_vdrive_off_v", Num(float64(sd.VOff)))
 		r.Set("sync_rsrc_ohm", Num(float64(sd.RSource)))
 		r.Set("sync_rsnk_ohm", Num(float64(sd.RSink)))
 		r.Set("sync_rg_ext_ohm", Num(float64(sd.RgExt)))
+		r.Set("sync_drive_edge_s", Num(float64(sd.Edge)))
 	}
 	r.Set("ta_c", Num(float64(s.Ambient)))
 	r.Set("ta_default", Bool(pt.Defaulted.Ambient))

@@ -277,3 +277,24 @@ func nonNegative(name string, v float64) error {
 	}
 	return nil
 }
+
+// OffSlope is the switch voltage's slope dv/dθ (V/rad) at θ = ω·t after
+// turn-off, while the switch is off and, as in the design, the whole
+// node current (feed current minus load-branch current) charges the
+// linear shunt C₁: I_DC/(ω·C₁)·Σ aₙ·θⁿ over the Taylor coefficients
+// NodeTaylor. Valid over the design's off interval, 0 ≤ θ ≤ π.
+//
+// Source: the switch-node current balance of the class E stage (Raab
+// 1977; Kazimierczuk 2008, ch. 4), here through the design's own series.
+func (d ClassE) OffSlope(theta float64) float64 {
+	w := 2 * math.Pi * float64(d.F)
+	if d.C1 <= 0 || w <= 0 {
+		return 0
+	}
+	a := &d.Coefficients.NodeTaylor
+	s := 0.0
+	for n := len(a) - 1; n >= 0; n-- {
+		s = s*theta + a[n]
+	}
+	return float64(d.IDC) / (w * float64(d.C1)) * s
+}

@@ -150,3 +150,21 @@ func TestClassESpecErrors(t *testing.T) {
 		}
 	}
 }
+
+// OffSlope of the ideal design against Raab's closed-form off-state
+// voltage, θ from turn-off: dv/dθ = π·V_DD·(1 − (π/2)·sin θ + cos θ)
+// (Raab, "Idealized operation of the class E tuned power amplifier",
+// IEEE Trans. CAS-24(12), 1977): 2π·V_DD at turn-off, 0 at θ = π (the
+// zero-slope condition).
+func TestClassEOffSlope(t *testing.T) {
+	d, err := IdealClassE().Scale(12, 6.78e6, 20, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, th := range []float64{0, 0.5, 1, 2, 2.5, math.Pi} {
+		want := math.Pi * 12 * (1 - math.Pi/2*math.Sin(th) + math.Cos(th))
+		if got := d.OffSlope(th); math.Abs(got-want) > 1e-6*2*math.Pi*12 {
+			t.Errorf("θ %g: dv/dθ %.9g V/rad, want %.9g", th, got, want)
+		}
+	}
+}

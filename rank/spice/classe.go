@@ -21,6 +21,7 @@ type ClassEParts struct {
 	RSource   float64 // driver pull-up, Ω
 	RSink     float64 // driver pull-down, Ω
 	RgExt     float64 // external gate resistor, Ω
+	Edge      float64 // the driver's own 0–100 % edge, s; 0: the benches' 50 ps
 	Cycles    int     // RF periods simulated; the last is measured
 	StepLimit float64 // maximum time step, s
 }
@@ -73,7 +74,11 @@ func classEDeck(m *Model, x *ClassEParts) string {
 	b.WriteString("vmd d dd 0\nm1 dd g s s dut\nvms s 0 0\n")
 	fmt.Fprintf(&b, "cx d 0 %s\nl1 d a %s ic=%s\nc2 a b %s ic=%s\nvl b c 0\nrl c 0 %s\n",
 		num(x.CExt), num(x.L), num(i0), num(x.C2), num(vc0), num(x.R))
-	fmt.Fprintf(&b, "vdrv p 0 pulse(0 %s 0 %s %s %s %s)\n", num(x.VOn), num(edge), num(edge), num(T/2-edge), num(T))
+	e := edge
+	if x.Edge > 0 {
+		e = x.Edge
+	}
+	fmt.Fprintf(&b, "vdrv p 0 pulse(0 %s 0 %s %s %s %s)\n", num(x.VOn), num(e), num(e), num(T/2-e), num(T))
 	fmt.Fprintf(&b, "bdrv p gx i = (v(p)-v(gx))/(v(p) > %s ? %s : %s)\n", num(x.VOn/2), num(x.RSource), num(x.RSink))
 	fmt.Fprintf(&b, "rgx gx g2 %s\nvmg g2 g 0\n", num(x.RgExt))
 	fmt.Fprintf(&b, ".control\n%ssave v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd) @m1[id]\n", deckPrologue)

@@ -17,7 +17,7 @@ func ClassEStage(c *ClassECase) stage.Stage {
 		Topology: stage.ClassE,
 		Vin:      q.Voltage(c.Vdd), Pout: q.Power(c.Pout), Fsw: q.Frequency(c.Fsw), QL: q.Ratio(c.QL),
 		Driver: stage.Driver{VOn: q.Voltage(c.VOn), VOff: 0,
-			RSource: q.Resistance(c.RSource), RSink: q.Resistance(c.RSink), RgExt: q.Resistance(c.RgExt)},
+			RSource: q.Resistance(c.RSource), RSink: q.Resistance(c.RSink), RgExt: q.Resistance(c.RgExt), Edge: q.Time(c.Edge)},
 		TjFixed: q.Some[q.Temperature](25),
 	}
 }
@@ -31,7 +31,7 @@ func ClassEPartsFor(c *ClassECase, pt *stage.Point, res *evaluate.Result) spice.
 	return spice.ClassEParts{
 		Vdd: c.Vdd, F: c.Fsw, R: float64(e.R), L: float64(e.L), C2: float64(e.C2),
 		CExt: float64(res.RF.CExternal), LFeed: c.FeedRatio * float64(e.R) / w, IDC: float64(e.IDC), Po: float64(e.Po),
-		VOn: c.VOn, RSource: c.RSource, RSink: c.RSink, RgExt: c.RgExt,
+		VOn: c.VOn, RSource: c.RSource, RSink: c.RSink, RgExt: c.RgExt, Edge: c.Edge,
 		Cycles: c.Cycles, StepLimit: 1 / c.Fsw / 1000,
 	}
 }

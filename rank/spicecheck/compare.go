@@ -295,7 +295,9 @@ func screenNames(s evaluate.Screens) string {
 		{evaluate.ScreenGateMin, "drive below vgs_min"}, {evaluate.ScreenBelowThreshold, "drive below threshold"},
 		{evaluate.ScreenBelowPlateau, "drive below plateau"}, {evaluate.ScreenTjMax, "tj_max"},
 		{evaluate.ScreenRunaway, "thermal runaway"}, {evaluate.ScreenNoOutputCap, "no output-capacitance data"},
-		{evaluate.ScreenFalseTurnOn, "false turn-on"}, {evaluate.ScreenCrossConduction, "cross-conduction"}}
+		{evaluate.ScreenFalseTurnOn, "false turn-on"}, {evaluate.ScreenCrossConduction, "cross-conduction"},
+		{evaluate.ScreenShuntTooSmall, "shunt too small"}, {evaluate.ScreenTooSlow, "too slow"},
+		{evaluate.ScreenImplausible, "loss above the stage's power"}, {evaluate.ScreenEstimated, "estimated"}}
 	var out []string
 	for _, x := range names {
 		if s&x.s != 0 {

@@ -68,6 +68,9 @@ type ClassECase struct {
 	RSource float64 `toml:"rsource"` // driver pull-up resistance, Ω; > 0
 	RSink   float64 `toml:"rsink"`   // driver pull-down resistance, Ω; > 0
 	RgExt   float64 `toml:"rg_ext"`  // external gate resistor, Ω; ≥ 0
+	// Edge is the driver's own 0–100 % edge, s; ≥ 0. 0: the benches'
+	// 50 ps step-like edge, and swrank is given a step.
+	Edge float64 `toml:"edge"`
 	// FeedRatio is ωL_f/R of the DC-feed choke from the supply, > 0: large
 	// enough to stand for the design's RF choke.
 	FeedRatio float64 `toml:"feed_ratio"`

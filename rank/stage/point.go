@@ -16,6 +16,9 @@ const (
 	DefaultAmbient  q.Temperature = 25
 	DefaultDerate   q.Ratio       = 0.8
 	DefaultDiodeVf  q.Voltage     = 0.5
+	// MaxDriveEdge bounds Driver.Edge: a slower edge is a fault of the
+	// driver (or a unit slip), not a gate drive.
+	MaxDriveEdge q.Time = 1e-6
 )
 
 // SwitchStress is what one place of a stage asks of its switch.
@@ -342,12 +345,21 @@ func (s *Stage) fillCommon(bad complaint) {
 		if sd.RSink == 0 {
 			sd.RSink = DefaultRSink
 		}
+		if sd.Edge == 0 {
+			sd.Edge = d.Edge
+		}
+		if sd.Edge < 0 || sd.Edge > MaxDriveEdge {
+			bad("sync-drive-edge: the driver's edge must be 0 to %s (got %s)", MaxDriveEdge, sd.Edge)
+		}
 		if sd.VOff >= sd.VOn || sd.RSource < 0 || sd.RSink < 0 || sd.RgExt < 0 || sd.IPeakSource < 0 || sd.IPeakSink < 0 || sd.IQ < 0 {
 			bad("sync-vdrive, sync-vdrive-off, sync-rsrc, sync-rsnk: the off level must be below the on level, resistances and currents ≥ 0")
 		}
 	}
 	if d.RSource < 0 || d.RSink < 0 || d.RgExt < 0 {
 		bad("rsrc, rsnk, rg-ext: resistances must be ≥ 0 Ω")
+	}
+	if d.Edge < 0 || d.Edge > MaxDriveEdge {
+		bad("drive-edge: the driver's edge must be 0 to %s (got %s)", MaxDriveEdge, d.Edge)
 	}
 	if d.IPeakSource < 0 || d.IPeakSink < 0 || d.IQ < 0 {
 		bad("ipk-src, ipk-snk, iq: currents must be ≥ 0 A")

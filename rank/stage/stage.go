@@ -115,6 +115,14 @@ type Driver struct {
 	// IQ is the driver's quiescent current from its supply (VOn − VOff), A.
 	// ≥ 0. Default 0.
 	IQ q.Current
+	// Edge is the time the driver's own output voltage takes to move from
+	// one level to the other, 0–100 %, without its load, s. ≥ 0, at most
+	// 1 µs. Default 0: a step, the gate-charge method's usual driver
+	// (Balogh 2001), which puts all of each edge's energy in the
+	// resistances. A driver datasheet's rise time into a load capacitor
+	// C_L includes its own resistance: take t_r − 2.2·R_source·C_L, and
+	// 1.25 × a 10–90 % figure (docs/models.md, "Driver edge").
+	Edge q.Time
 }
 
 // Diode is the external rectifier diode of a non-synchronous cell.
