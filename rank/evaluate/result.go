@@ -47,8 +47,8 @@ type DeviceResult struct {
 	// stage dissipates while its voltage ramps (stage.Driver.Edge; 0 for
 	// a step), W.
 	GateEdge q.Power
-	Qg            q.Charge         // gate charge moved per cycle (on minus off level)
-	IdLimit       q.Current        // continuous rating derated to the case temperature
+	Qg       q.Charge  // gate charge moved per cycle (on minus off level)
+	IdLimit  q.Current // continuous rating derated to the case temperature
 
 	// Second-order results (docs/second-order.md).
 
