@@ -144,6 +144,10 @@ type Part struct {
 	VgsThMax   q.Opt[q.Voltage]     `csv:"vgs_th_max"`    // maximum gate threshold voltage, V
 	VgsThHot   q.Opt[q.Voltage]     `csv:"vgs_th_hot"`    // typical threshold hot, V
 	VgsThHotTj q.Opt[q.Temperature] `csv:"vgs_th_hot_tj"` // junction temperature of vgs_th_hot, °C
+	// VgsThId is the drain current at which vgs_th is measured (250 µA or
+	// 1 mA are usual), A; with it the square-law channel's extrapolated
+	// threshold, √(I/K) below vgs_th, sets the plateau's law.
+	VgsThId q.Opt[q.Current] `csv:"vgs_th_id"`
 
 	// On-resistance. rds_on at rds_on_vgs and rds_on_tj is required; a
 	// second gate voltage and a hot value refine the model.
@@ -158,10 +162,16 @@ type Part struct {
 	RdsCurve  string               `csv:"rds_on_curve"`  // normalised on-resistance against temperature, "25:1 100:1.4 150:1.75"
 	RdsDyn    q.Opt[q.Ratio]       `csv:"rds_dyn"`       // dynamic on-resistance factor (GaN), ≥ 1
 	RdsDynVds q.Opt[q.Voltage]     `csv:"rds_dyn_vds"`   // off-state voltage at which rds_dyn was measured, V
+	// RdsOnId is the drain current of the rds_on (and rds_on2) test, A;
+	// with it the channel part is moved to the working current by the
+	// triode law (blank: the values taken as measured at no current).
+	RdsOnId q.Opt[q.Current] `csv:"rds_on_id"`
 
 	// Gate charge, from the gate-charge curve at qg_vds and qg_id.
 	Qg       q.Charge         `csv:"qg"`        // total gate charge at qg_vgs, C
 	QgVgs    q.Voltage        `csv:"qg_vgs"`    // gate voltage of qg, V
+	Qg2      q.Opt[q.Charge]  `csv:"qg2"`       // total gate charge at a second gate voltage qg2_vgs (same test), C
+	Qg2Vgs   q.Opt[q.Voltage] `csv:"qg2_vgs"`   // gate voltage of qg2, V; not qg_vgs
 	QgVds    q.Opt[q.Voltage] `csv:"qg_vds"`    // drain voltage of the gate-charge test, V; blank = 0.5·vds_max flagged
 	QgId     q.Opt[q.Current] `csv:"qg_id"`     // drain current of the gate-charge test (and of the plateau), A; blank = id_max flagged
 	QgMax    q.Opt[q.Charge]  `csv:"qg_max"`    // maximum total gate charge, C

@@ -64,6 +64,9 @@ var plausibleRanges = [...]plausible{
 	{col: "vgs_th_max", lo: 0.1, hi: 10},
 	{col: "vgs_th_hot", lo: 0.05, hi: 10},
 	{col: "vgs_th_hot_tj", lo: tTestLo, hi: tTestHi},
+	// Threshold test currents: 250 µA and 1 mA are usual, a few mA for
+	// GaN and SiC, up to tens of mA for modules; from 1 µA.
+	{col: "vgs_th_id", lo: 1e-6, hi: 1},
 
 	// On-resistance: the typical value up to 20 Ω (small-signal parts);
 	// maximum, hot and low-drive values up to 2.5 times that.
@@ -77,11 +80,14 @@ var plausibleRanges = [...]plausible{
 	{col: "rds_on_hot_tj", lo: tTestLo, hi: tTestHi},
 	{col: "rds_dyn", lo: 1, hi: 10},
 	{col: "rds_dyn_vds", lo: 1, hi: vRating},
+	{col: "rds_on_id", lo: iTestLo, hi: iTestHi},
 
 	// Gate charge: the total from 0.1 nC; its parts (to threshold, to the
 	// plateau, Miller) of a small GaN part from 10 pC.
 	{col: "qg", lo: 0.1e-9, hi: 5e-6, prefer: "n"},
 	{col: "qg_vgs", lo: vGateLo, hi: vGateHi},
+	{col: "qg2", lo: 10e-12, hi: 5e-6, prefer: "n"},
+	{col: "qg2_vgs", lo: vGateLo, hi: vGateHi},
 	{col: "qg_vds", lo: vTestLo, hi: vRating},
 	{col: "qg_id", lo: iTestLo, hi: iTestHi},
 	{col: "qg_max", lo: 0.1e-9, hi: 5e-6, prefer: "n"},

@@ -118,6 +118,10 @@ func (v *validator) run() {
 	optPositive(v, "rds_on2_vgs", p.RdsOn2Vgs)
 	optPositive(v, "rds_on_hot", p.RdsHot)
 	optPositive(v, "rds_dyn_vds", p.RdsDynVds)
+	optPositive(v, "qg2", p.Qg2)
+	optPositive(v, "qg2_vgs", p.Qg2Vgs)
+	optPositive(v, "rds_on_id", p.RdsOnId)
+	optPositive(v, "vgs_th_id", p.VgsThId)
 	optPositive(v, "qg_vds", p.QgVds)
 	optPositive(v, "qg_id", p.QgId)
 	optPositive(v, "qg_max", p.QgMax)
@@ -258,6 +262,8 @@ func (v *validator) run() {
 		v.add("v_plateau", ErrInconsistent, "%s: must lie between vgs_th (%s) and qg_vgs (%s)",
 			fmtq(p.VPlateau.V), fmtq(p.VgsTh), fmtq(p.QgVgs))
 	}
+	v.checkQg2()
+	v.checkTestCurrents()
 
 	// Capacitances, output charge and energy.
 	if !p.CapVds.OK && v.ok("cap_vds") {

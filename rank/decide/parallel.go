@@ -26,7 +26,8 @@ const DefaultParallelMax = 4
 // resistance, package inductances), charges, capacitances, energies and
 // current ratings and transconductance multiplied by n, voltages, times and temperatures
 // unchanged. Test conditions stated per device move with it: the
-// gate-charge, gfs, diode and switching-time test currents are multiplied by n
+// gate-charge, gfs, threshold, on-resistance, diode and switching-time
+// test currents are multiplied by n
 // and the switching-time test's gate resistances divided by n (n parts on
 // a generator of R/n switch in the same time as one part on R). The price
 // is n × price. The name becomes "NAME ×n". n = 1 returns a copy.
@@ -63,10 +64,13 @@ func ParallelPart(p *devices.Part, n int) (devices.Part, error) {
 	mulOpt(&c.RthJA, 1/k)
 	mulOpt(&c.RthJC, 1/k)
 	mul(&c.RdsOn, 1/k)
+	mulOpt(&c.RdsOnId, k)
+	mulOpt(&c.VgsThId, k)
 	mulOpt(&c.RdsOnMax, 1/k)
 	mulOpt(&c.RdsOn2, 1/k)
 	mulOpt(&c.RdsHot, 1/k)
 	mul(&c.Qg, k)
+	mulOpt(&c.Qg2, k)
 	mulOpt(&c.QgId, k)
 	mulOpt(&c.QgMax, k)
 	mulOpt(&c.Qgs, k)

@@ -145,13 +145,14 @@ func TestParallelPartColumns(t *testing.T) {
 		"IdMax": 3, "IdPulse": 3, "Qg": 3, "QgId": 3, "QgMax": 3, "Qgs": 3, "Qgd": 3, "QgTh": 3,
 		"Ciss": 3, "Coss": 3, "Crss": 3, "Qoss": 3, "Eoss": 3, "EossLoss": 3, "TswId": 3, "VsdIf": 3,
 		"Qrr": 3, "QrrIf": 3, "QrrDidt": 3, "QrrHot": 3, "Gfs": 3, "GfsId": 3, "Coss2": 3, "Crss2": 3, "Irrm": 3,
+		"Qg2": 3, "RdsOnId": 3, "VgsThId": 3,
 		"RthJA": 1.0 / 3, "RthJC": 1.0 / 3, "RdsOn": 1.0 / 3, "RdsOnMax": 1.0 / 3, "RdsOn2": 1.0 / 3,
 		"RdsHot": 1.0 / 3, "RgInt": 1.0 / 3, "TswRg": 1.0 / 3, "TswRgen": 1.0 / 3, "Lcs": 1.0 / 3, "Lloop": 1.0 / 3,
 	}
 	same := map[string]bool{
 		"Package": true, "Technology": true, "Notes": true, "VdsMax": true, "VgsMax": true, "VgsMin": true,
 		"TjMax": true, "VgsTh": true, "VgsThMax": true, "VgsThHot": true, "VgsThHotTj": true, "VsdHot": true, "VsdHotTj": true, "RdsOnVgs": true, "RdsOnTj": true, "RdsOn2Vgs": true,
-		"RdsHotTj": true, "RdsCurve": true, "RdsDyn": true, "RdsDynVds": true, "QgVgs": true, "QgVds": true,
+		"RdsHotTj": true, "RdsCurve": true, "RdsDyn": true, "RdsDynVds": true, "QgVgs": true, "Qg2Vgs": true, "QgVds": true,
 		"VPlateau": true, "CapVds": true, "Cap2Vds": true, "OssVds": true, "EossLossVds": true, "Tr": true, "TdOn": true, "TdOff": true, "QrrVr": true, "Tf": true,
 		"TswVdd": true, "TswVgs": true, "Vsd": true, "QrrTj": true, "QrrHotTj": true, "Trr": true, "QrrHasCoss": true, "Line": true,
 		// The one device's simulation model, kept (swrank verify takes

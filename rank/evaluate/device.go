@@ -175,10 +175,12 @@ func hardTurnOnCharges(out *DeviceResult, m *devModel, k *partnerCharge, tr *Tra
 // voltage applied, rdyn.
 func conductionLaw(out *DeviceResult, m *devModel) (r0, rdyn q.Resistance) {
 	d, drv, st := m.d, m.drv, m.st
-	r0 = d.Gate.At(drv.VOn)
+	vgs := drv.VOn
 	if !m.driveOK {
-		r0 = d.Gate.At(max(drv.VOn, d.Vth+0.1))
+		vgs = max(drv.VOn, d.Vth+0.1)
 	}
+	r0, fl := d.RdsAt(vgs, conductionCurrent(st))
+	out.Flags |= fl
 	if d.DynK > 1 {
 		out.RdsDyn = loss.DynamicRdsFactor(d.DynK, d.DynV, st.V)
 		out.Flags |= fit.FlagRdsDyn
@@ -190,6 +192,16 @@ func conductionLaw(out *DeviceResult, m *devModel) (r0, rdyn q.Resistance) {
 		}
 	}
 	return r0, r0 * q.Resistance(out.RdsDyn)
+}
+
+// conductionCurrent is the rms drain current over the conduction interval,
+// I_rms/√D (at most the peak), the current at which the on-resistance's
+// channel part is taken (fit.Device.RdsAt).
+func conductionCurrent(st *stage.SwitchStress) q.Current {
+	if st.Duty <= 0 {
+		return st.IRms
+	}
+	return min(q.Current(float64(st.IRms)/math.Sqrt(float64(st.Duty))), max(st.IPeak, st.IRms))
 }
 
 // solveJunction solves the device's thermal loop over its whole loss

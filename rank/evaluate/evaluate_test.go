@@ -423,6 +423,8 @@ func sicPart() devices.Part {
 		// Stated rather than estimated: no package inductance; threshold
 		// −5 mV/K and diode drop −2 mV/K (common practice, from memory).
 		Lcs: q.Some[q.Inductance](0), Lloop: q.Some[q.Inductance](0),
+		// The on-resistance measured at the boost's own 10 A.
+		RdsOnId:  q.Some[q.Current](10),
 		VgsThHot: q.Some[q.Voltage](2.3), VgsThHotTj: q.Some[q.Temperature](125),
 		VsdHot: q.Some[q.Voltage](3.8), VsdHotTj: q.Some[q.Temperature](125),
 	}

@@ -32,12 +32,12 @@ func (m *devModel) gateAt(a *tempState) {
 	d, drv := m.d, m.drv
 	vth := a.vth
 	if d.Method == fit.MethodGateCharge {
-		c := loss.GateCurve{Qth: q.Charge(m.qthPerV * float64(vth)), Qgs2: m.qgs2Pk, Qgd: m.qgdGate, Vth: vth, Vpl: vth + m.odPk, Slope: d.Slope}
+		c := loss.GateCurve{Qth: q.Charge(m.qthPerV * float64(vth)), Qgs2: m.qgs2Pk, Qgd: m.qgdGate, Vth: vth, Vpl: vth + m.odPk, Slope: d.Slope, KneeV: d.KneeV, KneeQ: d.KneeQ}
 		if m.qthPerV == 0 {
 			c.Qth = d.Qth
 		}
 		var qOn, qOff q.Charge
-		if drv.VOn > c.Vpl { // GateCurve.Charge above the plateau
+		if drv.VOn > c.Vpl && c.KneeV == 0 { // GateCurve.Charge above the plateau
 			qOn = c.Qth + c.Qgs2 + c.Qgd + q.Charge(float64(c.Slope)*float64(drv.VOn-c.Vpl))
 		} else {
 			qOn = c.Charge(drv.VOn)

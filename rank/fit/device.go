@@ -89,10 +89,17 @@ type Device struct {
 	Qth     q.Charge      // charge to the threshold
 	Qgs2    q.Charge      // charge from threshold to plateau at QgId
 	Qgd     q.Charge      // Miller charge at QgVds
-	Slope   q.Capacitance // gate charge per volt above the plateau
-	RgInt   q.Resistance  // internal gate resistance, Ω (0 when not given: FlagRgIntAssumed)
-	TjMax   q.Temperature // highest junction temperature, °C (default 150 °C: FlagTjMaxDefault)
-	VgsMin  q.Voltage     // lowest gate-source voltage, V (default −vgs_max; 0 V for GaN)
+	Slope   q.Capacitance // gate charge per volt above the plateau (beyond the knee)
+	KneeV   q.Voltage     // knee above the plateau's end from qg2, V (0: none)
+	KneeQ   q.Charge      // charge from the plateau's end to the knee, C
+	// VthSq is the square-law channel's extrapolated threshold: vgs_th, or
+	// with vgs_th_id the threshold √(vgs_th_id/K) below it (gatepoints.go).
+	// The plateau's law and the triode law take it.
+	VthSq  q.Voltage
+	RdsId  q.Current     // test current of rds_on (0: blank, taken as no current)
+	RgInt  q.Resistance  // internal gate resistance, Ω (0 when not given: FlagRgIntAssumed)
+	TjMax  q.Temperature // highest junction temperature, °C (default 150 °C: FlagTjMaxDefault)
+	VgsMin q.Voltage     // lowest gate-source voltage, V (default −vgs_max; 0 V for GaN)
 
 	// Datasheet switching-time test, for MethodTimes.
 	TswR    q.Resistance // test gate loop: tsw_rg + tsw_rgen + rg_int
@@ -227,7 +234,7 @@ func Prepare(p *devices.Part) (Device, error) {
 // prepare fits the laws with each estimate at its high end (the end that
 // costs more loss), or at its low end when low is true.
 func prepare(p *devices.Part, low, lowCap bool) (Device, error) {
-	d := Device{Part: p, Low: low, LowCap: lowCap, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
+	d := Device{Part: p, Low: low, LowCap: lowCap, Vth: p.VgsTh, VthSq: p.VgsTh, RdsId: p.RdsOnId.V, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
 	if !p.RgInt.OK {
 		d.Flags |= FlagRgIntAssumed
 	}
@@ -345,6 +352,10 @@ func (d *Device) fitGateCharge() error {
 	if !p.QgId.OK {
 		d.Flags |= FlagQgIdAssumed
 	}
+	fromGfs, err := d.thresholdFromGfs()
+	if err != nil {
+		return err
+	}
 	d.VplSpec = d.plateau(p.VgsTh + 1)
 	if p.Qgs.OK || p.Qgd.OK || !(p.Tr.OK && p.Tf.OK) {
 		// The gate-charge method, with what the row leaves blank estimated
@@ -357,6 +368,10 @@ func (d *Device) fitGateCharge() error {
 		}
 		d.Method = MethodGateCharge
 		d.VplSpec = vpl
+		if !fromGfs {
+			d.thresholdFromPlateau(vpl)
+		}
+		qgs, qgd = d.secondTotal(qgs, qgd, vpl)
 		if p.QgTh.OK && p.QgTh.V < qgs {
 			d.Qth, d.Qgs2 = p.QgTh.V, qgs-p.QgTh.V
 		} else {
@@ -366,16 +381,18 @@ func (d *Device) fitGateCharge() error {
 			d.Flags |= FlagQgThAssumed
 		}
 		d.Qgd = qgd
-		d.Slope = q.Capacitance(math.Max(0, float64(p.Qg-qgs-qgd)) / float64(p.QgVgs-vpl))
 	} else if p.Tr.OK && p.Tf.OK {
 		d.Method = MethodTimes
 		d.Flags |= FlagGateLinear
+		if !fromGfs {
+			d.thresholdFromPlateau(d.VplSpec)
+		}
 		if p.TswVgs.OK && (p.TswRg.OK || p.TswRgen.OK) {
 			d.TswOK = true
 			d.TswR = p.TswRg.V + p.TswRgen.V + d.RgInt
 			vpl := d.VplSpec
 			if p.TswId.OK {
-				vpl = loss.PlateauAt(p.VgsTh, d.VplSpec, d.QgId, p.TswId.V)
+				vpl = loss.PlateauAt(d.VthSq, d.VplSpec, d.QgId, p.TswId.V)
 			}
 			d.TswHead = [2]q.Voltage{p.TswVgs.V - vpl, vpl}
 		} else {
@@ -493,8 +510,11 @@ func (d *Device) prepareSecondOrder() error {
 func (d *Device) ThresholdAt(tj q.Temperature) q.Voltage { return loss.ThresholdAt(d.Vth, d.VthTC, tj) }
 
 // PlateauAt is the Miller plateau at drain current i (loss.PlateauAt from
-// the datasheet plateau at its test current), at the threshold's 25 °C value.
-func (d *Device) PlateauAt(i q.Current) q.Voltage { return loss.PlateauAt(d.Vth, d.VplSpec, d.QgId, i) }
+// the datasheet plateau at its test current, with the square-law
+// channel's threshold VthSq), at the threshold's 25 °C value.
+func (d *Device) PlateauAt(i q.Current) q.Voltage {
+	return loss.PlateauAt(d.VthSq, d.VplSpec, d.QgId, i)
+}
 
 // CgdAt is the charge-equivalent gate-drain capacitance over a swing from 0
 // to v, Qgd(v)/v: from the Miller charge when it is known, else from Crss at
@@ -552,7 +572,7 @@ func (d *Device) SoftCgd() q.Capacitance {
 // threshold (a constant Cgs).
 func (d *Device) Curve(vds q.Voltage, i q.Current, dvth q.Voltage) loss.GateCurve {
 	vth := d.Vth + dvth
-	vpl := loss.PlateauAt(vth, d.VplSpec+dvth, d.QgId, i)
+	vpl := loss.PlateauAt(d.VthSq+dvth, d.VplSpec+dvth, d.QgId, i)
 	if vpl <= vth {
 		vpl = vth + 1e-3
 	}
@@ -563,6 +583,6 @@ func (d *Device) Curve(vds q.Voltage, i q.Current, dvth q.Voltage) loss.GateCurv
 	}
 	return loss.GateCurve{
 		Qth: qth, Qgs2: qgs2, Qgd: d.MillerChargeAt(vds),
-		Vth: vth, Vpl: vpl, Slope: d.Slope,
+		Vth: vth, Vpl: vpl, Slope: d.Slope, KneeV: d.KneeV, KneeQ: d.KneeQ,
 	}
 }

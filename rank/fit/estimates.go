@@ -281,6 +281,8 @@ func (d *Device) gateChargeEstimates() (qgs, qgd q.Charge, vpl q.Voltage) {
 //
 //	V_pl = V_th + 2·√(I_qg·I_gfs)/g_fs
 //
+// with V_th the square-law channel's extrapolated threshold d.VthSq (the
+// datasheet's vgs_th when vgs_th_id is blank; thresholdFromGfs)
 // (g_fs = 2·I/(V_gs − V_th) at the gfs test, so V_gs − V_th = 2·I_gfs/g_fs
 // there, scaled with √I; Sze & Ng, Physics of Semiconductor Devices, 3rd
 // ed., 2007, ch. 6, saturation); else the estimate est, flagged.
@@ -290,7 +292,7 @@ func (d *Device) plateau(est q.Voltage) q.Voltage {
 	case p.VPlateau.OK:
 		return p.VPlateau.V
 	case p.Gfs.OK && p.GfsId.OK && p.Gfs.V > 0 && p.GfsId.V > 0 && d.QgId > 0:
-		return p.VgsTh + q.Voltage(2*math.Sqrt(float64(d.QgId)*float64(p.GfsId.V))/float64(p.Gfs.V))
+		return d.VthSq + q.Voltage(2*math.Sqrt(float64(d.QgId)*float64(p.GfsId.V))/float64(p.Gfs.V))
 	}
 	d.Flags |= FlagPlateauEstimated
 	return est

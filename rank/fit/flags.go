@@ -57,6 +57,8 @@ const (
 	FlagTdNoConditions                        // informational: td_on or td_off not used (test conditions missing, or not an RC gate's delay)
 	FlagCgdShape                              // no crss2 or crss_curve: Cgd's fall with voltage by the abrupt-junction law through crss
 	FlagQrrFromTrr                            // informational: qrr blank, taken as ½·irrm·trr
+	FlagRdsIdAssumed                          // rds_on_id missing: the on-resistance taken as measured at no current where the triode law then raises it by more than 1 %
+	FlagRdsSaturated                          // informational: the working current saturates the channel at this drive (triode law)
 	flagCount
 )
 
@@ -106,6 +108,8 @@ var flagText = [...]struct{ code, text string }{
 	{"td-cond?", "td_on or td_off not used (test conditions tsw_vgs, tsw_id, tsw_rg or tsw_rgen missing, or no RC gate takes that time under them): dead-time gate delays from the gate charge"},
 	{"cgd-shape?", "crss at one voltage (no crss2 or crss_curve): Cgd above the plateau taken to fall as (0.7 V + Vdg)^−½ through it, the abrupt junction and the steep end of the usual ⅓ to ½ (more Miller charge in the middle of the edge); below the plateau the oxide value that keeps qgd"},
 	{"qrr-tri", "qrr not given: the recovered charge taken as ½·irrm·trr of the same test (a triangular recovery current)"},
+	{"rds-id?", "rds_on_id not given: the on-resistance taken as measured at a small current, so the triode law raises it by more than 1 % at this working current (give rds_on_id)"},
+	{"rds-sat", "at this drive the working current would saturate the channel (triode law): the on-resistance taken at the edge of saturation, a lower bound"},
 }
 
 // Codes lists the short codes of the set flags, e.g. "rg?,coss-sqrt".

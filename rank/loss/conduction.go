@@ -1,6 +1,10 @@
 package loss
 
-import q "swrank/devices/quantity"
+import (
+	"math"
+
+	q "swrank/devices/quantity"
+)
 
 // GateLaw is the gate-voltage dependence of the on-resistance,
 // R(Vgs) = R0 + K/(Vgs − Vth): a fixed part (drift, substrate, package) plus
@@ -80,4 +84,41 @@ func DynamicRdsFactor(k q.Ratio, vTest, v q.Voltage) float64 {
 		return float64(k)
 	}
 	return 1 + (float64(k)-1)*max(float64(v), 0)/float64(vTest)
+}
+
+// ChannelAtCurrent moves the channel part of an on-resistance, rch as
+// measured at drain current iTest with the gate overdrive vov = V_gs − V_th
+// (V_th the square-law channel's extrapolated threshold), to drain current
+// i, by the triode law of a square-law channel,
+//
+//	I = K·(2·V_ov·V_ds − V_ds²)
+//
+// (Sze & Ng, Physics of Semiconductor Devices, 3rd ed., 2007, ch. 6): the
+// channel's small-signal resistance is R₀ = 1/(2·K·V_ov) = rch·(1 −
+// rch·iTest/(2·V_ov)) (the test point on the law), and at current i it
+// drops V_ds = V_ov·(1 − √(1 − 2·x)), x = i·R₀/V_ov, so
+//
+//	R_ch(i) = V_ds/i = 2·R₀/(1 + √(1 − 2·x)).
+//
+// The resistance rises with the current, by about x/2 of itself: little at
+// full drive, much at a low overdrive and a high current. Where the channel
+// cannot carry i in the linear region (x ≥ ½: i above its saturation
+// current K·V_ov²), it returns 2·R₀, the resistance at the edge of
+// saturation (a lower bound), and ok false; so too, with rch unmoved,
+// when the test point itself lies beyond the linear region (rch·iTest ≥
+// V_ov) or vov ≤ 0.
+func ChannelAtCurrent(rch q.Resistance, vov q.Voltage, iTest, i q.Current) (r q.Resistance, ok bool) {
+	if vov <= 0 || rch <= 0 {
+		return rch, false
+	}
+	vt := float64(rch) * float64(max(iTest, 0))
+	if vt >= float64(vov) {
+		return rch, false
+	}
+	r0 := float64(rch) * (1 - vt/(2*float64(vov)))
+	x := float64(max(i, 0)) * r0 / float64(vov)
+	if x >= 0.5 {
+		return q.Resistance(2 * r0), false
+	}
+	return q.Resistance(2 * r0 / (1 + math.Sqrt(1-2*x))), true
 }

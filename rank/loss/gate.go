@@ -66,6 +66,11 @@ type GateCurve struct {
 	Vth   q.Voltage     // threshold, V
 	Vpl   q.Voltage     // plateau at the working current, V
 	Slope q.Capacitance // dQ/dV above the plateau, F
+	// A knee above the plateau (a second total, qg2): the charge rises by
+	// KneeQ over the KneeV volts above the plateau's end, then by Slope
+	// per volt. KneeV = 0: Slope all the way.
+	KneeV q.Voltage
+	KneeQ q.Charge
 }
 
 // Charge returns Qg at gate voltage v (negative v continues the first
@@ -78,7 +83,14 @@ func (c GateCurve) Charge(v q.Voltage) q.Charge {
 	case v <= c.Vpl:
 		return c.Qth + c.Qgs2*q.Charge((v-c.Vth)/(c.Vpl-c.Vth))
 	}
-	return c.Qth + c.Qgs2 + c.Qgd + q.Charge(float64(c.Slope)*float64(v-c.Vpl))
+	top, x := c.Qth+c.Qgs2+c.Qgd, v-c.Vpl
+	if c.KneeV > 0 {
+		if x <= c.KneeV {
+			return top + c.KneeQ*q.Charge(x/c.KneeV)
+		}
+		top, x = top+c.KneeQ, x-c.KneeV
+	}
+	return top + q.Charge(float64(c.Slope)*float64(x))
 }
 
 // StoredEnergy returns ∫(v − vOff)·dQ from vOff to vOn along the curve: the
@@ -111,6 +123,9 @@ func (c GateCurve) StoredEnergyQ(vOff, vOn q.Voltage, qOff, qOn q.Charge) q.Ener
 	if vOff < c.Vpl && vOn > c.Vpl {
 		to(c.Vpl, c.Qth+c.Qgs2)
 		to(c.Vpl, c.Qth+c.Qgs2+c.Qgd)
+	}
+	if k := c.Vpl + c.KneeV; c.KneeV > 0 && vOff < k && vOn > k {
+		to(k, c.Qth+c.Qgs2+c.Qgd+c.KneeQ)
 	}
 	to(vOn, qOn)
 	return q.Energy(e)
