@@ -28,6 +28,13 @@ type RFResult struct {
 	// conducts, from its turn-on to the end of its current fall, with the
 	// gate's delays (about 0.5: the design's duty).
 	OnShare q.Ratio
+	// DriveZVS is the class E drive's high share of the period that gives
+	// the channel the design's off interval of π despite the gate's
+	// delays, 0.5 − f·(t_d,off − t_d,on): the drive that restores
+	// zero-voltage turn-on (0 when no drive in (0, 1) does). TotalZVS is
+	// the part's loss (switch and driver) with that drive, W.
+	DriveZVS q.Ratio
+	TotalZVS q.Power
 	// Class D (and class E): the turn-on edge.
 	ZVS       bool      // class D: full zero-voltage turn-on
 	VResidual q.Voltage // voltage left across the switch at its turn-on, V
@@ -174,10 +181,17 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	// the external capacitor's (the steady state's linear shunt sets the
 	// voltage).
 	rf.VResidual = to.VTurnOn
-	if v := to.VTurnOn; v > 0 {
-		out.Losses.TurnOn = q.Power((0.5*float64(sh.CExternal)*float64(v)*float64(v) + float64(d.Oss.E(v))) * f)
-	}
+	out.Losses.TurnOn = shuntDump(sh.CExternal, d, to.VTurnOn, f)
 	out.Eoff = q.Energy(float64(to.TurnOff) / f)
+	// The drive that gives the channel the design's off interval back:
+	// what an engineer tunes by hand, and the edge losses with it.
+	var dZVS q.Power
+	if duty := 0.5 - f*float64(dOff-dOn); duty > 0 && duty < 1 {
+		if tz, err := resonant.ClassETurnOffTimed(*e, rf.Tf, math.Pi); err == nil {
+			rf.DriveZVS = q.Ratio(duty)
+			dZVS = tz.TurnOff + shuntDump(sh.CExternal, d, tz.VTurnOn, f) - out.Losses.TurnOff - out.Losses.TurnOn
+		}
+	}
 	if h, err := resonant.HysteresisLoss(hysteresis(out, d, sh.VPeak), sh.VPeak, s.Fsw); err == nil && h > 0 {
 		out.Losses.Coss = h
 		rf.Hysteresis = true
@@ -188,6 +202,9 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	rfThermal(out, d, s, out.Losses.Switch())
 	l := out.Losses
 	rf.EffStage, rf.EffWithDriver, _ = resonant.Efficiency(s.Pout, l.Switch(), l.Driver())
+	if rf.DriveZVS > 0 {
+		rf.TotalZVS = l.Total() + dZVS
+	}
 	if tr != nil {
 		tr.add("control", "class E design", "ideal class E at 50 % duty (Sokal & Sokal 1975; Raab 1977), finite-Q solver when --ql is given",
 			T("VDD", s.Vin), T("R load", e.R), T("P out", e.Po), T("I dc", e.IDC), T("I rms", e.IRms),
@@ -196,6 +213,8 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 			T("V peak", sh.VPeak), T("C device", sh.CDevice), T("C external", sh.CExternal), T("excess reactance", sh.X), T("f max", sh.FMax))
 		tr.add("control", "switch timing", "the channel turns on at the gate's delay to its threshold after the drive's rise and its current starts to fall at the delay to the plateau after the drive's fall: off for π − ω·(t_d,off − t_d,on) of each period",
 			T("turn-on delay to Vth", dOn), T("turn-off delay to the plateau", dOff), N("channel on (share of the period)", float64(rf.OnShare)))
+		tr.add("control", "drive for zero-voltage turn-on", "the drive's high share that gives the channel the design's off interval π back: D = 0.5 − f·(t_d,off − t_d,on); the edges' loss recomputed at that interval (switch voltage at zero at turn-on but for the current fall's shift)",
+			N("drive duty for ZVS", float64(rf.DriveZVS)), T("total at that drive", rf.TotalZVS), T("total at 50 % drive", l.Total()))
 		tr.add("control", "turn-off and turn-on", "linear current fall in t_f inside the periodic steady state at the channel's real off interval (≈ (ω·t_f)²/12·P_o at 50 %); a turn-on before the voltage is back at zero dumps the shunt: E = ½·C_ext·v² + E_oss(v)",
 			T("t_f", rf.Tf), T("P turn-off", out.Losses.TurnOff), T("V at turn-on", rf.VResidual), T("P turn-on", out.Losses.TurnOn))
 		note := "no eoss_loss column: output-capacitance hysteresis not counted"
@@ -309,4 +328,15 @@ func hysteresis(out *DeviceResult, d *fit.Device, vswing q.Voltage) resonant.Hys
 	}
 	out.Flags |= fit.FlagHysteresisEstimated
 	return resonant.Hysteresis{E: q.Energy(d.HysteresisFraction * float64(d.Oss.E(vswing))), VStated: vswing}
+}
+
+// shuntDump is the loss at frequency f of a class E turn-on with v across
+// the switch: what the shunt holds is dumped through the channel, the
+// external capacitor's ½·C·v² and the part's own output energy E_oss(v)
+// (0 for v ≤ 0).
+func shuntDump(cExt q.Capacitance, d *fit.Device, v q.Voltage, f float64) q.Power {
+	if v <= 0 {
+		return 0
+	}
+	return q.Power((0.5*float64(cExt)*float64(v)*float64(v) + float64(d.Oss.E(v))) * f)
 }

@@ -210,6 +210,10 @@ func rfRecord(rec *Record, rf *evaluate.RFResult) {
 		rec.Set("excess_reactance_ohm", Num(float64(rf.XExcess)))
 		rec.Set("residual_v", Num(float64(rf.VResidual)))
 		rec.Set("on_share_pct", Num(100*float64(rf.OnShare)))
+		if rf.DriveZVS > 0 {
+			rec.Set("zvs_drive_pct", Num(100*float64(rf.DriveZVS)))
+			rec.Set("zvs_total_w", Num(float64(rf.TotalZVS)))
+		}
 	} else {
 		rec.Set("soft_on", Bool(rf.ZVS))
 		rec.Set("residual_v", Num(float64(rf.VResidual)))
@@ -232,7 +236,7 @@ func columnsFor(pt *stage.Point, partner bool) (compact, wide []string) {
 	switch pt.Stage.Topology {
 	case stage.ClassE:
 		rf = []string{"peak_v", "shunt_to_add_f"}
-		wide = append(wide, "peak_v", "shunt_needed_f", "shunt_to_add_f", "f_limit_hz", "on_share_pct", "residual_v", "eff_with_driver_pct")
+		wide = append(wide, "peak_v", "shunt_needed_f", "shunt_to_add_f", "f_limit_hz", "on_share_pct", "residual_v", "zvs_drive_pct", "zvs_total_w", "eff_with_driver_pct")
 	case stage.ClassD:
 		rf = []string{"soft_on"}
 		wide = append(wide, "soft_on", "residual_v", "eff_with_driver_pct")

@@ -115,6 +115,8 @@ var fields = []Field{
 	{"soft_on", "soft turn-on", "", KindBool, "", "class D: the node swings fully before turn-on (zero-voltage switching)"},
 	{"residual_v", "V at on", "V", KindNumber, "", "class E and D: voltage left across the switch when its channel turns on"},
 	{"on_share_pct", "on %", "%", KindNumber, "", "class E: share of the period the channel conducts, from its gate's delays (50: the design's duty)"},
+	{"zvs_drive_pct", "ZVS drive %", "%", KindNumber, "", "class E: the drive's high share of the period that gives the channel the design's off interval back (zero-voltage turn-on)"},
+	{"zvs_total_w", "ZVS total", "W", KindNumber, "", "class E: the part's loss (switch and driver) with that drive"},
 	{"eff_with_driver_pct", "eff +drv %", "%", KindNumber, "", "class E and D: efficiency counting the driver's loss too"},
 	// Compare.
 	{"total_delta_w", "Δ total", "W", KindNumber, "", "compare: total_w of the candidate minus the fitted part's"},

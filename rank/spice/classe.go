@@ -22,6 +22,7 @@ type ClassEParts struct {
 	RSink     float64 // driver pull-down, Ω
 	RgExt     float64 // external gate resistor, Ω
 	Edge      float64 // the driver's own 0–100 % edge, s; 0: the benches' 50 ps
+	Duty      float64 // the drive's high share of the period, from the start of its rise to the start of its fall; 0: 0.5
 	Cycles    int     // RF periods simulated; the last is measured
 	StepLimit float64 // maximum time step, s
 }
@@ -78,11 +79,18 @@ func classEDeck(m *Model, x *ClassEParts) string {
 	if x.Edge > 0 {
 		e = x.Edge
 	}
-	fmt.Fprintf(&b, "vdrv p 0 pulse(0 %s 0 %s %s %s %s)\n", num(x.VOn), num(e), num(e), num(T/2-e), num(T))
+	duty := 0.5
+	if x.Duty > 0 {
+		duty = x.Duty
+	}
+	fmt.Fprintf(&b, "vdrv p 0 pulse(0 %s 0 %s %s %s %s)\n", num(x.VOn), num(e), num(e), num(duty*T-e), num(T))
 	fmt.Fprintf(&b, "bdrv p gx i = (v(p)-v(gx))/(v(p) > %s ? %s : %s)\n", num(x.VOn/2), num(x.RSource), num(x.RSink))
 	fmt.Fprintf(&b, "rgx gx g2 %s\nvmg g2 g 0\n", num(x.RgExt))
 	fmt.Fprintf(&b, ".control\n%ssave v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd) @m1[id]\n", deckPrologue)
-	fmt.Fprintf(&b, "tran %s %s %s %s uic\n", num(T/1e3), num(n*T), num((n-2)*T), num(x.StepLimit))
+	// The run ends a hundredth of a period after the last measured one, off
+	// the drive's breakpoints (a drive edge at the stop time can stall the
+	// step control).
+	fmt.Fprintf(&b, "tran %s %s %s %s uic\n", num(T/1e3), num((n+0.01)*T), num((n-2)*T), num(x.StepLimit))
 	b.WriteString("wrdata ce.dat v(d) v(g) v(gx) v(p) i(vmd) i(vmg) i(vl) i(vdd) @m1[id]\nquit 0\n.endc\n.end\n")
 	return b.String()
 }
