@@ -175,6 +175,11 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		p, _ := resonant.ClassETurnOffSmall(*e, rf.Tf)
 		to.TurnOff = p
 	}
+	// A gate slow against the swing holds the channel on its plateau
+	// while the drain rises: the larger of that turn-off and the
+	// current fall's.
+	pSlow := slowGateOff(d, &s.Driver, sh.CDevice+sh.CExternal, sh.VPeak, e.IOff, f)
+	to.TurnOff = max(to.TurnOff, pSlow)
 	out.Losses.TurnOff = to.TurnOff
 	// A turn-on before the switch voltage is back at zero dumps what the
 	// shunt holds through the channel: the part's own output energy and
@@ -189,7 +194,7 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	if duty := 0.5 - f*float64(dOff-dOn); duty > 0 && duty < 1 {
 		if tz, err := resonant.ClassETurnOffTimed(*e, rf.Tf, math.Pi); err == nil {
 			rf.DriveZVS = q.Ratio(duty)
-			dZVS = tz.TurnOff + shuntDump(sh.CExternal, d, tz.VTurnOn, f) - out.Losses.TurnOff - out.Losses.TurnOn
+			dZVS = max(tz.TurnOff, pSlow) + shuntDump(sh.CExternal, d, tz.VTurnOn, f) - out.Losses.TurnOff - out.Losses.TurnOn
 		}
 	}
 	if h, err := resonant.HysteresisLoss(hysteresis(out, d, sh.VPeak), sh.VPeak, s.Fsw); err == nil && h > 0 {
@@ -216,7 +221,7 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		tr.add("control", "drive for zero-voltage turn-on", "the drive's high share that gives the channel the design's off interval π back: D = 0.5 − f·(t_d,off − t_d,on); the edges' loss recomputed at that interval (switch voltage at zero at turn-on but for the current fall's shift)",
 			N("drive duty for ZVS", float64(rf.DriveZVS)), T("total at that drive", rf.TotalZVS), T("total at 50 % drive", l.Total()))
 		tr.add("control", "turn-off and turn-on", "linear current fall in t_f inside the periodic steady state at the channel's real off interval (≈ (ω·t_f)²/12·P_o at 50 %); a turn-on before the voltage is back at zero dumps the shunt: E = ½·C_ext·v² + E_oss(v)",
-			T("t_f", rf.Tf), T("P turn-off", out.Losses.TurnOff), T("V at turn-on", rf.VResidual), T("P turn-on", out.Losses.TurnOn))
+			T("t_f", rf.Tf), T("P turn-off on the plateau (slow gate)", pSlow), T("P turn-off", out.Losses.TurnOff), T("V at turn-on", rf.VResidual), T("P turn-on", out.Losses.TurnOn))
 		note := "no eoss_loss column: output-capacitance hysteresis not counted"
 		if rf.Hysteresis {
 			note = "eoss_loss scaled as (V/V_stated)^1.5"

@@ -164,3 +164,34 @@ func TestFitMillerLawSegments(t *testing.T) {
 		}
 	}
 }
+
+// The unclamped Miller rise of a class E turn-off by hand, with the
+// two-constant law (oxide 1 nF below 3 V, 100 pF above), 3 A against a
+// 1 A plateau current (a = 2) into a 500 pF shunt: below 3 V the channel
+// keeps 2·1 nF − 500 pF = 1.5 nF per volt of swing, ∫₀³ v·1.5 nF dv =
+// 6.75 nJ; above it 2·100 pF < 500 pF, the shunt takes all. With a 200 pF
+// shunt: 1.8 nF·3²/2 = 8.1 nJ below 3 V and nothing above (2·100 pF −
+// 200 pF = 0); with 100 pF, 1.9 nF·3²/2 plus 100 pF·(10² − 3²)/2 =
+// 4.55 nJ up to a 10 V peak (the gate-charge voltage interval with the
+// drain's displacement current, Balogh 2001).
+func TestMillerShuntRiseEnergy(t *testing.T) {
+	law := KneeLaw(3, 1e-9, 100e-12)
+	cases := []struct {
+		name       string
+		shunt      float64
+		i, ig, top float64
+		want       float64
+	}{
+		{"oxide region only", 500e-12, 3, 1, 10, 6.75e-9},
+		{"at the balance", 200e-12, 3, 1, 10, 1.8e-9 * 9 / 2},
+		{"up to the peak", 100e-12, 3, 1, 10, 1.9e-9*9/2 + 100e-12*(100-9)/2},
+		{"fast gate", 5e-9, 3, 1, 10, 0},
+		{"no plateau current", 500e-12, 3, 0, 10, 0},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			got := MillerShuntRiseEnergy(&law, q.Capacitance(c.shunt), q.Voltage(c.top), q.Current(c.i), q.Current(c.ig))
+			testkit.Within(t, "E", float64(got), c.want, 1e-12)
+		})
+	}
+}
