@@ -122,6 +122,11 @@ type Device struct {
 	// QrrIf and QrrDidt are that test's current and rate, the datasheet's
 	// or, when blank, the unfavourable ends of the usual test (estimates.go).
 	QrrTau q.Time
+	// QrrFit is the charge that lifetime recovers at that test,
+	// loss.RecoveredCharge(QrrTau, QrrIf, QrrDidt) (qrr less QrrCoss, to
+	// the fit's tolerance), C; the evaluation scales the recovered charge
+	// by the working point's over it.
+	QrrFit q.Charge
 	// QrrCoss is the output charge the datasheet's qrr holds, Q_oss at
 	// the test's reverse voltage (qrr_includes_coss with qrr_vr), C; 0
 	// otherwise (without qrr_vr none is taken out: the figure might hold
