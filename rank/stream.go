@@ -150,8 +150,7 @@ func (s *Stream) Close() []SetAside {
 func (w *streamWorker) rank(s *Stream, b *streamBatch) {
 	for i := range b.n {
 		p := &b.parts[i]
-		var err error
-		if w.dev, err = fit.Prepare(p); err != nil {
+		if err := fit.PrepareInto(&w.dev, p); err != nil {
 			// This part costs only itself.
 			w.aside = append(w.aside, orderedAside{b.first + i, SetAside{Part: p.Name, Line: p.Line, Reason: err.Error()}})
 			continue

@@ -202,37 +202,48 @@ type Device struct {
 // a value blank that can make its edges faster or slower (Alt), it also
 // prepares the twin with the other end of each such estimate.
 func Prepare(p *devices.Part) (Device, error) {
-	d, err := prepare(p, false, false)
-	if err != nil {
-		return d, err
+	var d Device
+	err := PrepareInto(&d, p)
+	return d, err
+}
+
+// PrepareInto is Prepare writing into d, which it overwrites whole (zero on
+// an error): a loop over a library prepares each part in the same place
+// instead of copying the device out.
+func PrepareInto(d *Device, p *devices.Part) error {
+	if err := prepareInto(d, p, false, false); err != nil {
+		*d = Device{}
+		return err
 	}
 	gate, caps := d.bracketed()
 	if !gate && !caps {
-		return d, nil
+		return nil
 	}
-	alt, err := prepare(p, gate, caps)
-	if err != nil {
-		return Device{}, err
+	alt := new(Device)
+	if err := prepareInto(alt, p, gate, caps); err != nil {
+		*d = Device{}
+		return err
 	}
-	d.Alt = &alt
+	d.Alt = alt
 	if gate && caps {
-		g, err := prepare(p, true, false)
-		if err != nil {
-			return Device{}, err
+		g, c := new(Device), new(Device)
+		if err := prepareInto(g, p, true, false); err != nil {
+			*d = Device{}
+			return err
 		}
-		c, err := prepare(p, false, true)
-		if err != nil {
-			return Device{}, err
+		if err := prepareInto(c, p, false, true); err != nil {
+			*d = Device{}
+			return err
 		}
-		g.Alt, alt.Alt = &c, &g
+		g.Alt, alt.Alt = c, g
 	}
-	return d, nil
+	return nil
 }
 
-// prepare fits the laws with each estimate at its high end (the end that
-// costs more loss), or at its low end when low is true.
-func prepare(p *devices.Part, low, lowCap bool) (Device, error) {
-	d := Device{Part: p, Low: low, LowCap: lowCap, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
+// prepareInto fits the laws into d with each estimate at its high end (the
+// end that costs more loss), or at its low end when low is true.
+func prepareInto(d *Device, p *devices.Part, low, lowCap bool) error {
+	*d = Device{Part: p, Low: low, LowCap: lowCap, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
 	if !p.RgInt.OK {
 		d.Flags |= FlagRgIntAssumed
 	}
@@ -256,26 +267,26 @@ func prepare(p *devices.Part, low, lowCap bool) (Device, error) {
 	// The fits in turn (called directly: through function values the
 	// device would escape to the heap, one allocation a part).
 	if err := d.fitGateLaw(); err != nil {
-		return Device{}, err
+		return err
 	}
 	if err := d.fitTempLaw(); err != nil {
-		return Device{}, err
+		return err
 	}
 	if err := d.fitOss(); err != nil {
-		return Device{}, err
+		return err
 	}
 	if err := d.fitGateCharge(); err != nil {
-		return Device{}, err
+		return err
 	}
 	if err := d.prepareSecondOrder(); err != nil {
-		return Device{}, err
+		return err
 	}
 	if err := d.fitMiller(); err != nil {
-		return Device{}, err
+		return err
 	}
 	d.fitDelays()
 	d.estimate()
-	return d, nil
+	return nil
 }
 
 // fitGateLaw fits the on-resistance against gate voltage at the reference
