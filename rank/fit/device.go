@@ -208,11 +208,10 @@ func Prepare(p *devices.Part) (Device, error) {
 }
 
 // PrepareInto is Prepare writing into d, which it overwrites whole (zero on
-// an error): a loop over a library prepares each part in the same place
-// instead of copying the device out.
+// an error): a loop over a library prepares each part in the same place.
 func PrepareInto(d *Device, p *devices.Part) error {
-	if err := prepareInto(d, p, false, false); err != nil {
-		*d = Device{}
+	var err error
+	if *d, err = prepare(p, false, false); err != nil {
 		return err
 	}
 	gate, caps := d.bracketed()
@@ -220,18 +219,18 @@ func PrepareInto(d *Device, p *devices.Part) error {
 		return nil
 	}
 	alt := new(Device)
-	if err := prepareInto(alt, p, gate, caps); err != nil {
+	if *alt, err = prepare(p, gate, caps); err != nil {
 		*d = Device{}
 		return err
 	}
 	d.Alt = alt
 	if gate && caps {
 		g, c := new(Device), new(Device)
-		if err := prepareInto(g, p, true, false); err != nil {
+		if *g, err = prepare(p, true, false); err != nil {
 			*d = Device{}
 			return err
 		}
-		if err := prepareInto(c, p, false, true); err != nil {
+		if *c, err = prepare(p, false, true); err != nil {
 			*d = Device{}
 			return err
 		}
@@ -240,10 +239,10 @@ func PrepareInto(d *Device, p *devices.Part) error {
 	return nil
 }
 
-// prepareInto fits the laws into d with each estimate at its high end (the
-// end that costs more loss), or at its low end when low is true.
-func prepareInto(d *Device, p *devices.Part, low, lowCap bool) error {
-	*d = Device{Part: p, Low: low, LowCap: lowCap, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
+// prepare fits the laws with each estimate at its high end (the end that
+// costs more loss), or at its low end when low is true.
+func prepare(p *devices.Part, low, lowCap bool) (Device, error) {
+	d := Device{Part: p, Low: low, LowCap: lowCap, Vth: p.VgsTh, RgInt: p.RgInt.Or(rgIntEstimate(p.Technology, low))}
 	if !p.RgInt.OK {
 		d.Flags |= FlagRgIntAssumed
 	}
@@ -267,26 +266,26 @@ func prepareInto(d *Device, p *devices.Part, low, lowCap bool) error {
 	// The fits in turn (called directly: through function values the
 	// device would escape to the heap, one allocation a part).
 	if err := d.fitGateLaw(); err != nil {
-		return err
+		return Device{}, err
 	}
 	if err := d.fitTempLaw(); err != nil {
-		return err
+		return Device{}, err
 	}
 	if err := d.fitOss(); err != nil {
-		return err
+		return Device{}, err
 	}
 	if err := d.fitGateCharge(); err != nil {
-		return err
+		return Device{}, err
 	}
 	if err := d.prepareSecondOrder(); err != nil {
-		return err
+		return Device{}, err
 	}
 	if err := d.fitMiller(); err != nil {
-		return err
+		return Device{}, err
 	}
 	d.fitDelays()
 	d.estimate()
-	return nil
+	return d, nil
 }
 
 // fitGateLaw fits the on-resistance against gate voltage at the reference
