@@ -121,11 +121,11 @@ type RiseIntegral struct {
 	cgdTop    float64 // Cgd at v, F
 	cdsPerCgd float64 // Cds(v)/cgdTop
 	positive  bool    // v > 0
-	// xcSeg and xc are the segment whose crossing for a = 1 was asked for
-	// last (−1: none yet) and that crossing, (K/c)^(1/N): an evaluation
-	// needs it for the one or two segments its crossing moves through.
-	xcSeg int
-	xc    float64
+	// xc holds the segments' crossings for a = 1, (K/c)^(1/N), worked
+	// out for the segments the evaluation's crossing reaches (bit k of
+	// xcHave set), not for all of them when the part is prepared.
+	xc     [millerMax]float64
+	xcHave uint32
 }
 
 // RiseTable is a RiseIntegral's device part (RiseBase): the drain-source
@@ -218,7 +218,7 @@ func (t *RiseTable) At(m *MillerLaw, v q.Voltage) RiseIntegral {
 
 // AtPower is At with v^(2−N) given (OssPoint's, for the same law).
 func (t *RiseTable) AtPower(m *MillerLaw, v q.Voltage, pv float64) RiseIntegral {
-	r := RiseIntegral{t: t, m: m, xcSeg: -1}
+	r := RiseIntegral{t: t, m: m}
 	r.v, r.positive = float64(v), v > 0
 	if !r.positive {
 		return r
@@ -300,15 +300,15 @@ func (r *RiseIntegral) EnergyNear(i, ig q.Current, pw *PowNear) (q.Energy, q.Cur
 }
 
 // crossing is segment k's crossing for a = 1, xc = (K/c)^(1/N) (0 for
-// c ≤ 0), kept for the segment last asked for.
+// c ≤ 0), worked out once per integral.
 func (r *RiseIntegral) crossing(k int) float64 {
-	if k != r.xcSeg {
-		r.xcSeg, r.xc = k, 0
+	if r.xcHave&(1<<k) == 0 {
+		r.xcHave |= 1 << k
 		if c := r.m.c[k]; c > 0 && r.t.n > 0 {
-			r.xc = powPos(r.t.k/c, 1/r.t.n)
+			r.xc[k] = powPos(r.t.k/c, 1/r.t.n)
 		}
 	}
-	return r.xc
+	return r.xc[k]
 }
 
 // seg integrates x·(ac − K·x^−N) over [lo, hi] where it is positive, that
