@@ -32,6 +32,11 @@ func (b *Best) Offer(r *evaluate.Result) {
 	} else {
 		b.Passed++
 	}
+	b.keep(h, r)
+}
+
+// keep puts r in heap h when it ranks among the best N.
+func (b *Best) keep(h *worstFirst, r *evaluate.Result) {
 	if b.N > 0 && len(*h) == b.N {
 		if CompareRef(r, &(*h)[0]) >= 0 {
 			return
@@ -39,6 +44,19 @@ func (b *Best) Offer(r *evaluate.Result) {
 		heap.Pop(h)
 	}
 	heap.Push(h, own(r))
+}
+
+// merge adds what o was offered to b: its counts and the results it kept
+// (the best N of any set are among the best N of each of its parts).
+func (b *Best) merge(o *Best) {
+	b.Passed += o.Passed
+	b.Screened += o.Screened
+	for i := range o.pass {
+		b.keep(&b.pass, &o.pass[i])
+	}
+	for i := range o.fail {
+		b.keep(&b.fail, &o.fail[i])
+	}
 }
 
 // Results returns the kept results in rank order: passing ones, then

@@ -196,22 +196,17 @@ func rankingOf(in *inputs, pt *stage.Point, best *rank.Best, aside []rank.SetAsi
 // costs only itself. With names, a part name another source held is an
 // error.
 func rankReader(in *inputs, pt *stage.Point, r io.Reader, name string, best *rank.Best, aside *[]rank.SetAside, names *devices.PartNames, stderr io.Writer) (string, error) {
+	st := rank.NewStream(pt, nil, best, rank.Options{})
 	hdr, probs := in.read.Scan(r, name, func(p *devices.Part) error {
 		if names != nil {
 			if err := names.Add(p.Name, name); err != nil {
 				return err
 			}
 		}
-		d, err := fit.Prepare(p)
-		if err != nil {
-			// This part costs only itself.
-			*aside = append(*aside, rank.SetAside{Part: p.Name, Line: p.Line, Reason: err.Error()})
-			return nil
-		}
-		res := evaluate.Evaluate(pt, &d, nil, nil)
-		best.Offer(&res)
+		st.Add(p)
 		return nil
 	})
+	*aside = append(*aside, st.Close()...)
 	if probs.Fatal() {
 		return "", probs.Fatals()
 	}

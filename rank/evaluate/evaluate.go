@@ -206,7 +206,7 @@ func devicePartner(k *fit.Device, ok loss.OssPoint, kr *DeviceResult, iF q.Curre
 	p.qrr = max(0, k.Qrr.At(p.tj)-k.QrrCoss)
 	if k.QrrTau > 0 && iF > 0 && didt > 0 {
 		p.rec, p.iF, p.didt, p.tOn = loss.RecoveryAfter(k.QrrTau, iF, didt, tDiode), iF, didt, tDiode
-		scale := float64(p.rec.Recovered) / float64(loss.RecoveredCharge(k.QrrTau, k.QrrIf, k.QrrDidt))
+		scale := float64(p.rec.Recovered) / float64(k.QrrFit)
 		p.qrr = q.Charge(float64(p.qrr) * scale)
 		if !k.Part.QrrIf.OK || !k.Part.QrrDidt.OK {
 			p.flags |= fit.FlagQrrCondEstimated

@@ -129,6 +129,11 @@ type Device struct {
 	// QrrIf and QrrDidt are that test's current and rate, the datasheet's
 	// or, when blank, the unfavourable ends of the usual test (estimates.go).
 	QrrTau q.Time
+	// QrrFit is the charge that lifetime recovers at that test,
+	// loss.RecoveredCharge(QrrTau, QrrIf, QrrDidt) (qrr less QrrCoss, to
+	// the fit's tolerance), C; the evaluation scales the recovered charge
+	// by the working point's over it.
+	QrrFit q.Charge
 	// QrrCoss is the output charge the datasheet's qrr holds, Q_oss at
 	// the test's reverse voltage (qrr_includes_coss with qrr_vr), C; 0
 	// otherwise (without qrr_vr none is taken out: the figure might hold
@@ -204,31 +209,41 @@ type Device struct {
 // a value blank that can make its edges faster or slower (Alt), it also
 // prepares the twin with the other end of each such estimate.
 func Prepare(p *devices.Part) (Device, error) {
-	d, err := prepare(p, false, false)
-	if err != nil {
-		return d, err
+	var d Device
+	err := PrepareInto(&d, p)
+	return d, err
+}
+
+// PrepareInto is Prepare writing into d, which it overwrites whole (zero on
+// an error): a loop over a library prepares each part in the same place.
+func PrepareInto(d *Device, p *devices.Part) error {
+	var err error
+	if *d, err = prepare(p, false, false); err != nil {
+		return err
 	}
 	gate, caps := d.bracketed()
 	if !gate && !caps {
-		return d, nil
+		return nil
 	}
-	alt, err := prepare(p, gate, caps)
-	if err != nil {
-		return Device{}, err
+	alt := new(Device)
+	if *alt, err = prepare(p, gate, caps); err != nil {
+		*d = Device{}
+		return err
 	}
-	d.Alt = &alt
+	d.Alt = alt
 	if gate && caps {
-		g, err := prepare(p, true, false)
-		if err != nil {
-			return Device{}, err
+		g, c := new(Device), new(Device)
+		if *g, err = prepare(p, true, false); err != nil {
+			*d = Device{}
+			return err
 		}
-		c, err := prepare(p, false, true)
-		if err != nil {
-			return Device{}, err
+		if *c, err = prepare(p, false, true); err != nil {
+			*d = Device{}
+			return err
 		}
-		g.Alt, alt.Alt = &c, &g
+		g.Alt, alt.Alt = c, g
 	}
-	return d, nil
+	return nil
 }
 
 // prepare fits the laws with each estimate at its high end (the end that

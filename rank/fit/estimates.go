@@ -69,6 +69,7 @@ func kw(a, b float64) [2]q.ThermalResistance {
 // recognised. It allocates nothing (it runs for every part of a library).
 func FamilyOf(pkg string) (PackageFamily, bool) {
 	var buf [64]byte
+	var has [4]uint64 // the bytes the key holds, one bit each
 	key := buf[:0]
 	for i := 0; i < len(pkg) && len(key) < len(buf); i++ {
 		c := pkg[i]
@@ -79,11 +80,13 @@ func FamilyOf(pkg string) (PackageFamily, bool) {
 			c += 'a' - 'A'
 		}
 		key = append(key, c)
+		has[c>>6] |= 1 << (c & 63)
 	}
 	if len(key) > 0 {
 		for i := range packageFamilies[:len(packageFamilies)-1] {
 			for _, m := range packageFamilies[i].Match {
-				if bytes.Contains(key, []byte(m)) {
+				// A fragment whose first byte the key lacks cannot be in it.
+				if has[m[0]>>6]&(1<<(m[0]&63)) != 0 && bytes.Contains(key, []byte(m)) {
 					return packageFamilies[i], true
 				}
 			}
@@ -177,6 +180,9 @@ func (d *Device) estimate() {
 		}
 		d.QrrIf, d.QrrDidt = p.QrrIf.Or(p.IdMax/4), p.QrrDidt.Or(qrrDidtTest)
 		d.QrrTau, _ = loss.FitRecoveryLifetime(max(0, d.Qrr.At(25)-d.QrrCoss), d.QrrIf, d.QrrDidt)
+		if d.QrrTau > 0 {
+			d.QrrFit = loss.RecoveredCharge(d.QrrTau, d.QrrIf, d.QrrDidt)
+		}
 	}
 
 	// Soft-switching hysteresis: a fraction of the stored energy.

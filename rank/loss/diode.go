@@ -153,12 +153,21 @@ func FitRecoveryLifetime(qrr q.Charge, iF q.Current, didt q.Slew) (q.Time, bool)
 	lo := math.Max(float64(qrr)/float64(iF), math.Sqrt(float64(qrr)/float64(didt)))
 	g := func(t float64) float64 { return float64(RecoveredCharge(q.Time(t), iF, didt)) - float64(qrr) }
 	hi := 2 * lo
-	for g(hi) < 0 {
+	ghi := g(hi)
+	for ghi < 0 {
 		if hi *= 2; hi > 1 {
 			return 0, false
 		}
+		ghi = g(hi)
 	}
-	r, err := numeric.FindRoot(g, lo, hi, 1e-9, 0)
+	// FindRoot starts from the function at both ends: the upper one is
+	// known.
+	r, err := numeric.FindRoot(func(t float64) float64 {
+		if t == hi {
+			return ghi
+		}
+		return g(t)
+	}, lo, hi, 1e-9, 0)
 	if err != nil {
 		return 0, false
 	}

@@ -127,7 +127,8 @@ func FitMillerLaw(d MillerData) (MillerLaw, error) {
 	dep := newDepletion(d)
 	uq := float64(d.VQg - vk)
 	cox := func() float64 { return (float64(d.Qgd) - dep.charge(0, uq)) / float64(vk) }
-	if c := cox(); c < dep.at(0) {
+	c := cox()
+	if c < dep.at(0) {
 		// Lower the exponent below the first point: Cox − C(0) rises as
 		// it falls (less charge above the knee, a smaller C(0)).
 		hi := dep.mBelow
@@ -142,10 +143,11 @@ func FitMillerLaw(d MillerData) (MillerLaw, error) {
 				dep.mBelow = 0
 			}
 		}
+		c = cox()
 	}
 	uTop := max(float64(d.VMax-vk), uq, float64(d.Crss[len(d.Crss)-1].V))
 	l := dep.segments(uTop, uq, float64(vk))
-	l.c[0] = max(cox(), l.c[1])
+	l.c[0] = max(c, l.c[1])
 	l.m = dep.mBelow
 	return l, nil
 }

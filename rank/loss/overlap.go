@@ -121,6 +121,11 @@ type RiseIntegral struct {
 	cgdTop    float64 // Cgd at v, F
 	cdsPerCgd float64 // Cds(v)/cgdTop
 	positive  bool    // v > 0
+	// xc holds the segments' crossings for a = 1, (K/c)^(1/N), worked
+	// out for the segments the evaluation's crossing reaches (bit k of
+	// xcHave set), not for all of them when the part is prepared.
+	xc     [millerMax]float64
+	xcHave uint32
 }
 
 // RiseTable is a RiseIntegral's device part (RiseBase): the drain-source
@@ -132,14 +137,14 @@ type RiseTable struct {
 	cossK    float64 // the output-capacitance law's K (Coss = cossK·v^−N)
 	kInv, kN float64 // 1/K and K/(2 − N), for the segments without dividing
 	epsN     float64 // riseEps^N
-	// Per segment: its lower bound's power lo^(2−N); xc = (K/C)^(1/N),
-	// the crossing for a = 1; and the bounds on a = i/ig − 1 that decide
+	// Per segment: its lower bound's power lo^(2−N); and the bounds on
+	// a = i/ig − 1 that decide
 	// a whole segment (ending at the next bound) without a power
 	// evaluation: at or below zero[k] the integrand is nowhere positive;
 	// at or above full[k] it is positive on the whole segment (for the
 	// first segment, from riseEps·hi on: the part below adds under
 	// riseEps² relative).
-	plo, xc, zero, full [millerMax]float64
+	plo, zero, full [millerMax]float64
 }
 
 // newRiseIntegral prepares millerRiseEnergy for law m, output capacitance
@@ -180,7 +185,6 @@ func RiseBase(m *MillerLaw, oss OssLaw, cdsShare float64) RiseTable {
 		if !(c > 0) {
 			continue
 		}
-		t.xc[s] = powPos(t.k/c, 1/t.n)
 		// x^N = x²/x^(2−N).
 		if s+1 < m.n {
 			hi := m.lo[s+1]
@@ -288,11 +292,23 @@ func (r *RiseIntegral) EnergyNear(i, ig q.Current, pw *PowNear) (q.Energy, q.Cur
 					s = powPos(a, -1/t.n)
 				}
 			}
-			xs = t.xc[k] * s
+			xs = r.crossing(k) * s
 		}
 		e += r.seg(a*m.c[k], xs, lo, hi, plo, phi)
 	}
 	return q.Energy(e), q.Current(iTop)
+}
+
+// crossing is segment k's crossing for a = 1, xc = (K/c)^(1/N) (0 for
+// c ≤ 0), worked out once per integral.
+func (r *RiseIntegral) crossing(k int) float64 {
+	if r.xcHave&(1<<k) == 0 {
+		r.xcHave |= 1 << k
+		if c := r.m.c[k]; c > 0 && r.t.n > 0 {
+			r.xc[k] = powPos(r.t.k/c, 1/r.t.n)
+		}
+	}
+	return r.xc[k]
 }
 
 // seg integrates x·(ac − K·x^−N) over [lo, hi] where it is positive, that
