@@ -557,29 +557,6 @@ func (d *Device) Rds(vgs q.Voltage, tj q.Temperature) q.Resistance {
 	return d.Gate.At(vgs) * q.Resistance(d.Temp.Factor(tj))
 }
 
-// SoftCgd is the gate-drain capacitance while the drain sits near 0 V
-// below the gate, as at a soft-switched edge, F: the Miller law's oxide
-// value. Without a law it is the top of what the data allow: Qgd/Vpl (the
-// whole Miller charge below the knee), or the slope of the gate-charge
-// curve above the plateau (measured with the drain near 0 V: Cgs plus
-// this Cgd) less the Cgs below it, (Qth + Qgs2)/Vpl, when that is larger.
-// The gate-charge test's segments below the plateau hold the drain high,
-// where Cgd is small, so a soft edge moves this much more charge per volt
-// there.
-//
-// Source: the gate-drain capacitance of a power MOSFET, the oxide value
-// when the drain is below the gate (Baliga 2008, ch. 6); the gate-charge
-// curve's segments (Balogh 2001; IEC 60747-8).
-func (d *Device) SoftCgd() q.Capacitance {
-	if d.HasMiller {
-		return d.Miller.Oxide()
-	}
-	if d.VplSpec <= 0 {
-		return 0
-	}
-	return max(0, d.Slope-q.Capacitance(float64(d.Qth+d.Qgs2)/float64(d.VplSpec)), q.Capacitance(float64(d.Qgd)/float64(d.VplSpec)))
-}
-
 // Curve returns the gate-charge curve at drain voltage vds and the plateau
 // at drain current i, with threshold and plateau shifted by dvth (their
 // temperature shift). The Qgs2 segment grows with the plateau (it charges
