@@ -25,10 +25,10 @@ func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *temp
 		terms = append(terms, N("Vsd tempco (V/K)", d.VsdTC))
 	}
 	tr.add(name, "temperature", "Vth(Tj) = Vth(25 °C) + k·(Tj − 25 °C); the gate shelf (where the gate holds while the drain swings) moves with it (a lower shelf: faster turn-on, slower turn-off)", terms...)
-	tr.add(name, "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f over the curve at Tj, split per edge by the loop resistances",
+	tr.add(name, "gate", "P_G = [Qg(Von) − Qg(Voff)]·(Von − Voff)·f over the curve at Tj, split per edge by the loop resistances; behind a ramping driver (drive edge) the share 1 − g of each edge stays in the driver's output stage, g = 2x·[1 − x·(1 − e^(−1/x))], x = τ/t_edge",
 		T("Qg moved", a.qg), T("Von", drv.VOn), T("Voff", drv.VOff), T("E stored in gate", a.stored),
 		T("driver pull-up R (effective)", m.rdOn), T("driver pull-down R (effective)", m.rdOff), T("Rg ext", drv.RgExt), T("Rg int", d.RgInt),
-		T("E gate/cycle", a.egate), T("driver", out.Losses.GateDriver), T("Rg ext", out.Losses.GateRext),
+		T("drive edge", drv.Edge), T("E gate/cycle", a.egate), T("driver", out.Losses.GateDriver), T("of which its ramping edge", out.GateEdge), T("Rg ext", out.Losses.GateRext),
 		T("Rg int", out.Losses.GateRint), T("quiescent", out.Losses.DriverQuiescent))
 	if m.hard && m.driveOK {
 		if d.Method == fit.MethodGateCharge {
