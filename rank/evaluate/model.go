@@ -109,6 +109,8 @@ type tempState struct {
 	elcsOn, elcsOff    q.Energy  // added by the common-source inductance
 	eloop              q.Energy  // net added by the loop inductance
 	iTop               q.Current // channel current left when the turn-off voltage rise ends
+	qCollapse          q.Charge  // Miller charge moved at turn-off while the channel carries no current (RiseIntegral.EnergyCharge)
+	eCollapse          q.Energy  // its energy, moved from the gate loop to the drain (gateAt)
 	vpeak              q.Voltage
 	vsd1, vsd2         q.Voltage
 	edead              q.Energy

@@ -10,11 +10,12 @@ import (
 func (m *devModel) at(tj q.Temperature, a *tempState) {
 	vth := m.d.ThresholdAt(tj)
 	a.vth, a.vplOn, a.vplOff = vth, vth+m.odOn, vth+m.odOff
-	m.gateAt(a)
+	a.qCollapse = 0
 	if m.hard && m.driveOK {
 		igOn, igOff := m.transitionsAt(a)
 		m.overlapAt(a, igOn, igOff)
 	}
+	m.gateAt(a) // after the edges: a capacitive turn-off books less
 	if m.dead {
 		st := m.st
 		a.vsd1, a.vsd2 = m.reverseDrops(tj)
@@ -53,8 +54,18 @@ func (m *devModel) gateAt(a *tempState) {
 		// SplitGateEnergy(egate, stored, ...) through its ratios: the
 		// turn-on edge dissipates egate − stored, the turn-off edge stored.
 		// A ramping driver keeps only the shares gOn and gOff of each
-		// edge's energy in the resistances (SplitGateEnergyRamp).
-		on, off := float64(a.egate-a.stored), float64(a.stored)
+		// edge's energy in the resistances (SplitGateEnergyRamp). At a
+		// turn-off whose drain capacitance takes the whole current over
+		// part of the swing, that part's Miller charge leaves the gate
+		// near the off level, not at the plateau (overlapAt): the gate
+		// loop gets less back, and the energy stays with the drain, whose
+		// channel dissipates it at a hard turn-on.
+		collapse := min(float64(a.qCollapse)*float64(a.vplOff-drv.VOff), float64(a.stored))
+		on, off := float64(a.egate-a.stored), float64(a.stored)-collapse
+		if m.st.HardOn {
+			a.eon += q.Energy(collapse)
+		}
+		a.eCollapse = q.Energy(collapse)
 		gOn, gOff := rampShares(drv, m.rOn, m.rOff, a.qg)
 		k0, k1 := &m.split[0], &m.split[1]
 		a.split = loss.GateSplit{
@@ -146,8 +157,9 @@ func (m *devModel) overlapAt(a *tempState, igOn, igOff q.Current) {
 		if d.HasMiller {
 			// The load current charges Coss while the voltage rises:
 			// the channel keeps only the rest (the Miller rise energy, loss.RiseIntegral).
-			evr, iTop := m.rise.EnergyNear(st.IOff, igOff, &m.risePow)
+			evr, iTop, qPl := m.rise.EnergyCharge(st.IOff, igOff, &m.risePow)
 			a.iTop = iTop
+			a.qCollapse = max(m.qgdV-qPl, 0)
 			// The loop's stored ½·L·I² is counted in the switch
 			// (docs/second-order.md; the ngspice cells agree within
 			// the suite's tolerance, docs/spice-crosscheck.md).

@@ -195,3 +195,29 @@ func TestMillerShuntRiseEnergy(t *testing.T) {
 		})
 	}
 }
+
+// The Miller charge moved while the channel still conducts at a turn-off,
+// by hand, with the two-constant law (1 nF below 3 V, 100 pF above) and a
+// constant drain-source capacitance (N = 0) of 300 pF, 3 A against a 1 A
+// plateau current (a = 2): below 3 V, 2·1 nF > 300 pF, the gate stays on
+// its plateau while 3 nC moves; above it 2·100 pF < 300 pF, the drain's
+// capacitance takes the whole current and the channel is off, so of the
+// 4.2 nC up to 15 V only 3 nC moves on the plateau (the node balance of the
+// gate-charge method's voltage interval, Balogh 2001). With a √ law
+// Cds = K·v^−½ the crossing in the upper segment is where 2·100 pF = K/√v.
+func TestRisePlateauCharge(t *testing.T) {
+	law := KneeLaw(3, 1e-9, 100e-12)
+	flat := RiseBase(&law, OssLaw{K: 300e-12, N: 0}, 1)
+	r := flat.At(&law, 15)
+	_, _, qp := r.EnergyCharge(3, 1, nil)
+	testkit.Within(t, "plateau charge, constant Cds", float64(qp), 3e-9, 1e-12)
+	// √ law with K = 200 pF·√8: the channel conducts again above 8 V.
+	sq := RiseBase(&law, OssLaw{K: 200e-12 * math.Sqrt(8), N: 0.5}, 1)
+	r2 := sq.At(&law, 15)
+	_, _, qp2 := r2.EnergyCharge(3, 1, nil)
+	// Below 3 V: 2 nF against K/√v, above K/√3 = 326.6 pF from 3 V down to
+	// where K/√v = 2 nF (v = 0.08 V): all of [0.08, 3] and the bit below
+	// within riseEps of the segment; above 3 V from 8 V to 15 V.
+	want := 1e-9*(3-0.08) + 100e-12*(15-8)
+	testkit.Within(t, "plateau charge, √ law", float64(qp2), want, 3e-3)
+}

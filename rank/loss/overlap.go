@@ -255,17 +255,28 @@ func (r *RiseIntegral) Energy(i, ig q.Current) (q.Energy, q.Current) {
 // xs^(2−N) = xs²·a·c/K, exact only at the exact crossing), so the energy
 // keeps about the same relative error, 10⁻¹².
 func (r *RiseIntegral) EnergyNear(i, ig q.Current, pw *PowNear) (q.Energy, q.Current) {
+	e, iTop, _ := r.EnergyCharge(i, ig, pw)
+	return e, iTop
+}
+
+// EnergyCharge is EnergyNear that also returns the Miller charge moved
+// while the channel still carries current, where a·Cgd(x) > Cds(x): there
+// the gate sits on its plateau. Where the drain's capacitance takes the
+// whole current the channel is off and the gate, no longer held, falls
+// towards the driver's off level while its Miller charge moves (the
+// per-edge gate booking of a capacitive turn-off).
+func (r *RiseIntegral) EnergyCharge(i, ig q.Current, pw *PowNear) (q.Energy, q.Current, q.Charge) {
 	if ig <= 0 || i <= 0 || !r.positive {
-		return 0, max(i, 0)
+		return 0, max(i, 0), 0
 	}
 	t, m := r.t, r.m
 	iTop := math.Max(float64(i)-float64(ig)*(1+r.cdsPerCgd), 0)
 	a := float64(i)/float64(ig) - 1
 	if a <= 0 {
-		return 0, q.Current(iTop)
+		return 0, q.Current(iTop), 0
 	}
 	s := math.NaN() // a^(−1/N), computed once when a segment needs it
-	e := 0.0
+	e, qp := 0.0, 0.0
 	for k := 0; k <= r.top; k++ {
 		zero, full := t.zero[k], t.full[k]
 		lo, hi, plo, phi := m.lo[k], 0.0, t.plo[k], 0.0
@@ -295,8 +306,11 @@ func (r *RiseIntegral) EnergyNear(i, ig q.Current, pw *PowNear) (q.Energy, q.Cur
 			xs = r.crossing(k) * s
 		}
 		e += r.seg(a*m.c[k], xs, lo, hi, plo, phi)
+		if t.n > 0 || a*m.c[k] > t.k {
+			qp += m.c[k] * (hi - min(max(xs, lo), hi))
+		}
 	}
-	return q.Energy(e), q.Current(iTop)
+	return q.Energy(e), q.Current(iTop), q.Charge(qp)
 }
 
 // crossing is segment k's crossing for a = 1, xc = (K/c)^(1/N) (0 for
