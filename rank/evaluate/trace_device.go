@@ -29,7 +29,8 @@ func traceDevice(tr *Trace, name string, out *DeviceResult, m *devModel, a *temp
 		T("Qg moved", a.qg), T("Von", drv.VOn), T("Voff", drv.VOff), T("E stored in gate", a.stored),
 		T("driver pull-up R (effective)", m.rdOn), T("driver pull-down R (effective)", m.rdOff), T("Rg ext", drv.RgExt), T("Rg int", d.RgInt),
 		T("drive edge", drv.Edge), T("E gate/cycle", a.egate), T("driver", out.Losses.GateDriver), T("of which its ramping edge", out.GateEdge), T("Rg ext", out.Losses.GateRext),
-		T("Rg int", out.Losses.GateRint), T("quiescent", out.Losses.DriverQuiescent))
+		T("Rg int", out.Losses.GateRint), T("quiescent", out.Losses.DriverQuiescent),
+		T("Miller charge moved off the plateau at turn-off", a.qCollapse), T("its energy, left to the drain", a.eCollapse))
 	if m.hard && m.driveOK {
 		if d.Method == fit.MethodGateCharge {
 			tr.add(name, "transitions", "gate-charge method at Tj: each edge interval lasts t = Q / I_gate, I_gate = (V_drive − V_gate)/R_gate path (at the mean gate voltage (Vth+V_shelf)/2 while the current moves)",
