@@ -46,6 +46,11 @@ func CharacteriseDevice(ctx context.Context, r *Runner, d *Device, rt Ratings) (
 	if m.Name == "" || !(m.VdsMax > 0) || !(m.IdMax > 0) || !(m.ITest > 0) {
 		return nil, nil, fmt.Errorf("characterising %s: a name, vds_max, id_max and a test current > 0 are required", d.Path)
 	}
+	if m.ITest > m.IdMax {
+		// The row's rds_on_id is the test current, and a library row
+		// measures the on-resistance at or below the continuous rating.
+		return nil, nil, fmt.Errorf("characterising %s: test current %g A above id_max %g A", d.Path, m.ITest, m.IdMax)
+	}
 	ds, err := characterise(ctx, r, m, deviceDUT(d))
 	return ds, m, err
 }
@@ -88,7 +93,7 @@ func (u *dut) run(ctx context.Context, r *Runner, name, deck string, outputs ...
 }
 
 func characterise(ctx context.Context, r *Runner, m *Model, u *dut) (*Datasheet, error) {
-	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, CapVds: m.VdsMax / 2, Cap2Vds: m.VdsMax / 10, OssVds: m.VdsMax / 2,
+	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, RdsOnId: m.ITest, CapVds: m.VdsMax / 2, Cap2Vds: m.VdsMax / 10, OssVds: m.VdsMax / 2,
 		QgVgs: vgsHigh, QgVds: m.VdsMax / 2, QgId: m.ITest,
 		TswVdd: m.VdsMax / 2, TswId: m.ITest, TswVgs: vgsHigh, TswRg: tswRg, TswRgen: tswRgen,
 		VthCurrent: vthCurrent}
@@ -115,15 +120,16 @@ func cvFractions() [8]float64 { return [...]float64{0.02, 0.05, 0.1, 0.2, 0.35, 
 // (common practice).
 const hotTj = 125.0
 
-// static: Rds(on) at two gate voltages (a current forced into the drain),
-// Vgs(th) with gate tied to drain at 250 µA, and the body-diode drop.
+// static: Rds(on) at two gate voltages (ds.RdsOnId, the test current,
+// forced into the drain), Vgs(th) with gate tied to drain at ds.VthCurrent
+// (250 µA), and the body-diode drop.
 func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
 	v, err := staticAt(ctx, r, m, u, ds, 25)
 	if err != nil {
 		return err
 	}
 	v1, v2, v3, v4 := v[0], v[1], v[2], v[3]
-	ds.RdsOn, ds.RdsOn2, ds.Vth, ds.Vsd = v1/m.ITest, v2/m.ITest, v3, -v4
+	ds.RdsOn, ds.RdsOn2, ds.Vth, ds.Vsd = v1/ds.RdsOnId, v2/ds.RdsOnId, v3, -v4
 	// A datasheet Rds(on) is a linear-region figure: the drain voltage must
 	// stay well below the overdrive.
 	vto := u.vto
@@ -132,7 +138,7 @@ func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) err
 	}
 	if v2 > 0.3*(ds.RdsOn2Vgs-vto) {
 		return fmt.Errorf("at Vgs = %g V and %g A the channel saturates (Vds %.3g V): raise vgs2 or lower i_test",
-			ds.RdsOn2Vgs, m.ITest, v2)
+			ds.RdsOn2Vgs, ds.RdsOnId, v2)
 	}
 	return nil
 }
@@ -144,7 +150,7 @@ func hotStatic(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) 
 	if err != nil {
 		return err
 	}
-	ds.RdsOnHot, ds.VthHot, ds.VsdHot, ds.HotTj = v[0]/m.ITest, v[2], -v[3], hotTj
+	ds.RdsOnHot, ds.VthHot, ds.VsdHot, ds.HotTj = v[0]/ds.RdsOnId, v[2], -v[3], hotTj
 	return nil
 }
 
@@ -156,9 +162,9 @@ func staticAt(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet, t
 	b.WriteString("* static characterisation\n")
 	b.WriteString(u.card)
 	b.WriteString(optionsAt(tj))
-	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
-	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
-	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(vthCurrent))
+	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(ds.RdsOnId))
+	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(ds.RdsOnId))
+	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(ds.VthCurrent))
 	fmt.Fprintf(&b, u.inst("4", "d4", "0", "0")+"i4 d4 0 dc %s\n", num(m.ITest))
 	b.WriteString(".control\n" + deckPrologue + "op\nwrdata static.dat v(d1) v(d2) v(d3) v(d4)\nquit 0\n.endc\n.end\n")
 	var v [4]float64

@@ -46,8 +46,13 @@ func gateCharge(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet)
 	return extractGateCharge(qs, vg, ds)
 }
 
-// extractGateCharge reads Qg(th), Qgs, Qgd, Vpl and Qg off a gate-charge
-// curve Vgs(Q) (Q increasing).
+// extractGateCharge reads Qg(th), Qgs, Qgd, Vpl, Qg and the second total
+// Qg2 at Qg2Vgs off a gate-charge curve Vgs(Q) (Q increasing). Qg2 is the
+// charge where the curve first reaches the first of secondGateVoltages
+// that lies above the plateau with its charge past the plateau's end
+// (Qgs + Qgd) and below Qg: a point of the curve's upper part, where
+// swrank takes a second total (docs/models.md §3); none of them: Qg2 and
+// Qg2Vgs 0 (the row leaves qg2 blank).
 func extractGateCharge(qs, vg []float64, ds *Datasheet) error {
 	n := len(qs)
 	qAt := func(v float64) (float64, bool) { // first charge where Vgs reaches v
@@ -125,9 +130,34 @@ func extractGateCharge(qs, vg []float64, ds *Datasheet) error {
 			qth, qgs, qEnd, qg)
 	}
 	ds.Qg, ds.QgTh, ds.Qgs, ds.Qgd, ds.Vpl = qg, qth, qgs, qEnd-qgs, vpl
+	ds.Qg2, ds.Qg2Vgs = 0, 0
+	for _, v2 := range secondGateVoltages(ds.QgVgs) {
+		if v2 <= vpl {
+			continue
+		}
+		if q2, ok := qAt(v2); ok && q2 > qEnd && q2 < qg {
+			ds.Qg2, ds.Qg2Vgs = q2, v2
+			break
+		}
+	}
 	ds.GateCurve = ds.GateCurve[:0]
 	for k := 0; k <= grid; k += grid / 40 {
 		ds.GateCurve = append(ds.GateCurve, [2]float64{float64(k) * dq, v[k]})
 	}
 	return nil
+}
+
+// secondGateVoltages are the candidate gate voltages of the second total
+// gate charge for a test driven to vgs, in order of preference: 45 % of
+// vgs rounded to 0.5 V (4.5 V at 10 V, the logic-level figure datasheets
+// give beside the 10 V one; common practice), then upwards in 0.5 V steps
+// below vgs.
+func secondGateVoltages(vgs float64) []float64 {
+	var vs []float64
+	for v := math.Round(0.45*vgs*2) / 2; v < vgs; v += 0.5 {
+		if v > 0 {
+			vs = append(vs, v)
+		}
+	}
+	return vs
 }
