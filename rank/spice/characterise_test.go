@@ -102,7 +102,8 @@ func TestSecondGateCharge(t *testing.T) {
 //     tens of mV: another current would show).
 //   - swrank's gate curve through qg and qg2 (fit.Prepare on the row, at
 //     the test's drain voltage and current) against the simulated charge
-//     at voltages between the plateau and qg_vgs: within 3 %.
+//     at voltages between the plateau and qg_vgs: within 1 % (found:
+//     at most 0.27 %, just above the plateau; docs/spice-crosscheck.md).
 func TestCharacteriseGatePoints(t *testing.T) {
 	r := ngspiceRunner(t)
 	for _, name := range []string{"sim-mid-60", "sim-mid-100"} {
@@ -168,7 +169,7 @@ func TestCharacteriseGatePoints(t *testing.T) {
 				e, e0 := got/sim[i]-1, without/sim[i]-1
 				t.Logf("at %.3g V: swrank %.4g nC (%+.2f %%), without qg2 %.4g nC (%+.2f %%), simulated %.4g nC",
 					v, got*1e9, 100*e, without*1e9, 100*e0, sim[i]*1e9)
-				if math.Abs(e) > 0.03 {
+				if math.Abs(e) > 0.01 {
 					t.Errorf("at %.3g V the fitted gate curve gives %g C against %g C simulated (%+.1f %%)", v, got, sim[i], 100*e)
 				}
 			}
