@@ -85,7 +85,9 @@ func TestSecondGateCharge(t *testing.T) {
 }
 
 // The characterisation's second total gate charge and test currents, on two
-// synthetic cell devices (reference tool: ngspice 39, the Debian package).
+// synthetic cell devices (plateaus 3.1 and 3.7 V: qg2 at 4.5 V) and the
+// demo model file granite-150 (plateau 4.7 V: qg2 at 5 V) (reference tool:
+// ngspice 39, the Debian package).
 //
 //   - qg2 against the charge ngspice itself integrates from the device's
 //     gate current (a 0 V sense source in series with the gate, its current
@@ -102,18 +104,34 @@ func TestSecondGateCharge(t *testing.T) {
 //     tens of mV: another current would show).
 //   - swrank's gate curve through qg and qg2 (fit.Prepare on the row, at
 //     the test's drain voltage and current) against the simulated charge
-//     at voltages between the plateau and qg_vgs: within 1 % (found:
-//     at most 0.27 %, just above the plateau; docs/spice-crosscheck.md).
+//     at voltages between the plateau and qg_vgs: within 2 % (found:
+//     at most 0.86 %, just above granite-150's plateau, where the curve
+//     without qg2 is 2.4 % high; docs/spice-crosscheck.md).
 func TestCharacteriseGatePoints(t *testing.T) {
 	r := ngspiceRunner(t)
-	for _, name := range []string{"sim-mid-60", "sim-mid-100"} {
+	for _, name := range []string{"sim-mid-60", "sim-mid-100", "granite-150"} {
 		t.Run(name, func(t *testing.T) {
-			m := loadCellDevice(t, name)
-			ds, err := Characterise(context.Background(), r, &m)
+			var (
+				m   *Model
+				u   *dut
+				ds  *Datasheet
+				err error
+			)
+			if name == "granite-150" {
+				// A demo model file whose plateau (4.7 V at 20 A) lies
+				// above 4.5 V.
+				d := demoDevice(t, name)
+				ds, m, err = CharacteriseDevice(context.Background(), r, d, Ratings{Name: name, VdsMax: 150, IdMax: 40, Vgs2: 6})
+				u = deviceDUT(d)
+			} else {
+				cell := loadCellDevice(t, name)
+				m, u = &cell, modelDUT(&cell)
+				ds, err = Characterise(context.Background(), r, m)
+			}
 			if err != nil {
 				t.Fatal(err)
 			}
-			p := ds.Part(&m)
+			p := ds.Part(m)
 			if probs := devices.Validate(&p); probs != nil {
 				t.Fatalf("the characterised row is not a valid library row: %v", probs)
 			}
@@ -132,7 +150,7 @@ func TestCharacteriseGatePoints(t *testing.T) {
 			}
 
 			vs := []float64{ds.Qg2Vgs, (ds.Qg2Vgs + ds.QgVgs) / 2, ds.Vpl + 0.75*(ds.Qg2Vgs-ds.Vpl), ds.QgVgs}
-			sim := simulatedGateCharge(t, r, &m, ds, vs)
+			sim := simulatedGateCharge(t, r, u, name, ds, vs)
 			t.Logf("plateau %.3g V; qg %.4g nC at 10 V, %+.3f %% from the integrated gate current; qg2 %.4g nC at %g V, %+.3f %%",
 				ds.Vpl, ds.Qg*1e9, 100*(ds.Qg/sim[3]-1), ds.Qg2*1e9, ds.Qg2Vgs, 100*(ds.Qg2/sim[0]-1))
 			if e := ds.Qg2/sim[0] - 1; math.Abs(e) > 0.005 {
@@ -142,7 +160,7 @@ func TestCharacteriseGatePoints(t *testing.T) {
 				t.Errorf("qg %g C against %g C integrated from the gate current (%+.2f %%)", ds.Qg, sim[3], 100*e)
 			}
 
-			rds, rds2, vth := staticAtCurrents(t, r, &m, ds, float64(p.RdsOnId.V), float64(p.VgsThId.V))
+			rds, rds2, vth := staticAtCurrents(t, r, u, name, ds, float64(p.RdsOnId.V), float64(p.VgsThId.V))
 			for _, c := range []struct {
 				name      string
 				got, want float64
@@ -169,7 +187,7 @@ func TestCharacteriseGatePoints(t *testing.T) {
 				e, e0 := got/sim[i]-1, without/sim[i]-1
 				t.Logf("at %.3g V: swrank %.4g nC (%+.2f %%), without qg2 %.4g nC (%+.2f %%), simulated %.4g nC",
 					v, got*1e9, 100*e, without*1e9, 100*e0, sim[i]*1e9)
-				if math.Abs(e) > 0.01 {
+				if math.Abs(e) > 0.02 {
 					t.Errorf("at %.3g V the fitted gate curve gives %g C against %g C simulated (%+.1f %%)", v, got, sim[i], 100*e)
 				}
 			}
@@ -180,14 +198,14 @@ func TestCharacteriseGatePoints(t *testing.T) {
 // simulatedGateCharge runs the gate-charge test of ds on m again, the gate
 // current sensed in series with the gate and integrated by ngspice, and
 // returns the charge at the first instant the gate reaches each of vs.
-func simulatedGateCharge(t *testing.T, r *Runner, m *Model, ds *Datasheet, vs []float64) []float64 {
+func simulatedGateCharge(t *testing.T, r *Runner, u *dut, name string, ds *Datasheet, vs []float64) []float64 {
 	t.Helper()
 	var b strings.Builder
 	b.WriteString("* gate charge, sensed gate current\n")
-	b.WriteString(m.card("dut"))
+	b.WriteString(u.card)
 	b.WriteString(clampCard)
 	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "vdd dd 0 dc %g\nil dd d1 dc %g\ndcl d1 dd dclamp\nm1 d1 g1 0 0 dut\n", ds.QgVds, ds.QgId)
+	fmt.Fprintf(&b, "vdd dd 0 dc %g\nil dd d1 dc %g\ndcl d1 dd dclamp\n%s", ds.QgVds, ds.QgId, u.inst("1", "d1", "g1", "0"))
 	fmt.Fprintf(&b, "ig 0 gx pwl(0 0 %g %g)\nrleak gx 0 1e9\nvsense gx g1 dc 0\n", edge, ds.GateChargeIg)
 	b.WriteString("fq 0 nq vsense 1\ncq nq 0 1e-9\nrq nq 0 1e15\n")
 	tstop := 1.2 * ds.GateChargeTime
@@ -198,7 +216,7 @@ func simulatedGateCharge(t *testing.T, r *Runner, m *Model, ds *Datasheet, vs []
 		names = append(names, fmt.Sprint("q", i))
 	}
 	fmt.Fprintf(&b, "wrdata qsense.dat %s\nquit 0\n.endc\n.end\n", strings.Join(names, " "))
-	tabs, _, err := r.RunJob(context.Background(), Job{Name: m.Name + " sensed gate charge", Deck: b.String(), Outputs: []string{"qsense.dat"}})
+	tabs, err := u.run(context.Background(), r, name+" sensed gate charge", b.String(), "qsense.dat")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -216,15 +234,16 @@ func simulatedGateCharge(t *testing.T, r *Runner, m *Model, ds *Datasheet, vs []
 // staticAtCurrents runs the on-resistance tests (10 V and ds.RdsOn2Vgs) at
 // drain current id and the threshold test (gate tied to drain) at ith, and
 // returns the two on-resistances and the threshold.
-func staticAtCurrents(t *testing.T, r *Runner, m *Model, ds *Datasheet, id, ith float64) (float64, float64, float64) {
+func staticAtCurrents(t *testing.T, r *Runner, u *dut, name string, ds *Datasheet, id, ith float64) (float64, float64, float64) {
 	t.Helper()
 	deck := fmt.Sprintf("* static tests at given currents\n%s%s"+
-		"m1 d1 g1 0 0 dut\nvg1 g1 0 dc %g\ni1 0 d1 dc %g\n"+
-		"m2 d2 g2 0 0 dut\nvg2 g2 0 dc %g\ni2 0 d2 dc %g\n"+
-		"m3 d3 d3 0 0 dut\ni3 0 d3 dc %g\n"+
+		"%svg1 g1 0 dc %g\ni1 0 d1 dc %g\n"+
+		"%svg2 g2 0 dc %g\ni2 0 d2 dc %g\n"+
+		"%si3 0 d3 dc %g\n"+
 		".control\n%sop\nwrdata st.dat v(d1) v(d2) v(d3)\nquit 0\n.endc\n.end\n",
-		m.card("dut"), optionsLine, ds.RdsOnVgs, id, ds.RdsOn2Vgs, id, ith, deckPrologue)
-	tabs, _, err := r.RunJob(context.Background(), Job{Name: m.Name + " static at given currents", Deck: deck, Outputs: []string{"st.dat"}})
+		u.card, optionsLine, u.inst("1", "d1", "g1", "0"), ds.RdsOnVgs, id, u.inst("2", "d2", "g2", "0"), ds.RdsOn2Vgs, id,
+		u.inst("3", "d3", "d3", "0"), ith, deckPrologue)
+	tabs, err := u.run(context.Background(), r, name+" static at given currents", deck, "st.dat")
 	if err != nil {
 		t.Fatal(err)
 	}
