@@ -1,6 +1,7 @@
 // Package synth writes synthetic parts libraries for tests and benchmarks:
-// any number of invented, internally consistent parts with every column of
-// devices.Part filled, written the way users write values ("4.2 mOhm",
+// any number of invented, internally consistent parts with most columns of
+// devices.Part filled (docs/performance.md lists the blank ones), written
+// the way users write values ("4.2 mOhm",
 // "12n", "1.1 nF", "100 A/µs"), reproducible from a seed.
 package synth
 

@@ -253,3 +253,14 @@ func staticAtCurrents(t *testing.T, r *Runner, u *dut, name string, ds *Datashee
 	}
 	return v[0][0] / id, v[1][0] / id, v[2][0]
 }
+
+// A test current above the continuous rating is refused before any
+// simulation: the row's rds_on_id would exceed id_max, which the library
+// rejects (docs/library.md, the project's own rule).
+func TestCharacteriseDeviceTestCurrent(t *testing.T) {
+	d := &Device{Path: "x.lib"}
+	_, _, err := CharacteriseDevice(context.Background(), nil, d, Ratings{Name: "x", VdsMax: 30, IdMax: 10, ITest: 12})
+	if err == nil || !strings.Contains(err.Error(), "x.lib") || !strings.Contains(err.Error(), "above id_max") {
+		t.Errorf("i_test 12 A with id_max 10 A: %v, want an error naming the file and id_max", err)
+	}
+}
