@@ -1,6 +1,7 @@
 // Package synth writes synthetic parts libraries for tests and benchmarks:
-// any number of invented, internally consistent parts with every column of
-// devices.Part filled, written the way users write values ("4.2 mOhm",
+// any number of invented, internally consistent parts with most columns of
+// devices.Part filled (docs/performance.md lists the blank ones), written
+// the way users write values ("4.2 mOhm",
 // "12n", "1.1 nF", "100 A/µs"), reproducible from a seed.
 package synth
 
@@ -132,8 +133,10 @@ var units = map[string][2]string{
 
 // si writes v (already rounded) with an SI prefix in one of the ways users
 // write it: "4.2 mΩ", "4.2 mOhm", "4.2m", "4.2e-3" (style chosen at random).
-func (g *gen) si(v float64, unit string) string {
-	style := g.rng.IntN(8)
+func (g *gen) si(v float64, unit string) string { return siStyle(v, unit, g.rng.IntN(8)) }
+
+// siStyle writes v in the style of si numbered style (0-7).
+func siStyle(v float64, unit string, style int) string {
 	if style == 0 {
 		return strconv.FormatFloat(v, 'g', 3, 64)
 	}
@@ -304,4 +307,31 @@ func (g *gen) part(i int, row []string) {
 	}
 	g.set("l_cs", g.si(round3(g.logUni(pkg.lcs[0], pkg.lcs[1])), "H"))
 	g.set("l_loop", g.si(round3(g.logUni(pkg.lloop[0], pkg.lloop[1])), "H"))
+
+	g.gatePoints(i, c.tech, idMax, vqg, vpl, qgs, qgd, ciss)
+}
+
+// gatePoints fills the test currents of the threshold and the
+// on-resistance and the second total gate charge from the row's other
+// values, drawing nothing from the random stream (the rows generated
+// before these columns existed stay the same bytes); the spelling style
+// follows the part's index.
+//
+// vgs_th_id is 250 µA for silicon and a few mA for GaN and SiC (common
+// practice, from memory); rds_on_id is half of id_max (the other tests'
+// current); qg2 lies on the row's straight gate curve above the plateau
+// (slope 1.2·Ciss, see the gate charge above) at qg2_vgs, the first 0.5 V
+// step from 45 % of qg_vgs (4.5 V at 10 V) at least 0.5 V above the
+// plateau.
+func (g *gen) gatePoints(i int, tech string, idMax, vqg, vpl, qgs, qgd, ciss float64) {
+	ith := map[string]float64{"si": 250e-6, "gan": 2e-3, "sic": 5e-3}[tech]
+	v2 := math.Round(0.45*vqg*2) / 2
+	for v2 < vpl+0.5 {
+		v2 += 0.5
+	}
+	qg2 := round3(qgs) + round3(qgd) + 1.2*ciss*(v2-vpl)
+	g.set("vgs_th_id", siStyle(ith, "A", i%8))
+	g.set("rds_on_id", siStyle(round3(idMax/2), "A", (i+1)%8))
+	g.set("qg2", siStyle(round3(qg2), "C", (i+2)%8))
+	g.set("qg2_vgs", siStyle(v2, "V", (i+3)%8))
 }

@@ -2,6 +2,9 @@ package synth
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/csv"
+	"fmt"
 	"testing"
 
 	"swrank/devices"
@@ -36,11 +39,56 @@ func TestGenerate(t *testing.T) {
 	}
 	// Every column filled on every row.
 	for _, p := range lib.Parts {
-		if !p.IdPulse.OK || !p.QrrHot.OK || !p.Lloop.OK || !p.EossLoss.OK || !p.RdsDyn.OK || p.RdsCurve == "" || !p.Price.OK || p.Package == "" {
+		if !p.IdPulse.OK || !p.QrrHot.OK || !p.Lloop.OK || !p.EossLoss.OK || !p.RdsDyn.OK || p.RdsCurve == "" || !p.Price.OK || p.Package == "" ||
+			!p.VgsThId.OK || !p.RdsOnId.OK || !p.Qg2.OK || !p.Qg2Vgs.OK {
 			t.Fatalf("%s: a column is blank: %+v", p.Name, p)
 		}
 	}
 	if err := Generate(&a, -1, 1); err == nil {
 		t.Error("negative count accepted")
+	}
+}
+
+// The columns filled from the row's other values (vgs_th_id, rds_on_id,
+// qg2, qg2_vgs) leave the random stream alone: with them blanked, the
+// bytes of Generate(1000, 7) are those the generator wrote before it
+// filled them (their SHA-256 recorded then). TestGenerate checks the
+// filled rows validate (qg2 above qgs + qgd, below qg; the currents below
+// id_max).
+func TestGatePointsKeepStream(t *testing.T) {
+	var a bytes.Buffer
+	if err := Generate(&a, 1000, 7); err != nil {
+		t.Fatal(err)
+	}
+	recs, err := csv.NewReader(bytes.NewReader(a.Bytes())).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	added := map[string]bool{"vgs_th_id": true, "rds_on_id": true, "qg2": true, "qg2_vgs": true}
+	var cols []int
+	for i, c := range recs[0] {
+		if added[c] {
+			cols = append(cols, i)
+		}
+	}
+	if len(cols) != len(added) {
+		t.Fatalf("columns %v: %d of the %d added found", recs[0], len(cols), len(added))
+	}
+	for _, r := range recs[1:] {
+		for _, i := range cols {
+			if r[i] == "" {
+				t.Fatalf("%s: %s blank", r[0], recs[0][i])
+			}
+			r[i] = ""
+		}
+	}
+	var b bytes.Buffer
+	w := csv.NewWriter(&b)
+	if err := w.WriteAll(recs); err != nil {
+		t.Fatal(err)
+	}
+	const before = "a8399c57be16e31644b17250dde5cc56509b6bdbad102e59569eb48a77847a28"
+	if got := fmt.Sprintf("%x", sha256.Sum256(b.Bytes())); got != before {
+		t.Errorf("with the added columns blanked the library hashes to %s, want %s (the bytes before they were filled)", got, before)
 	}
 }

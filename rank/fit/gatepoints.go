@@ -140,7 +140,9 @@ const rdsMoveFlagged = 0.01
 // by the triode law (loss.ChannelAtCurrent), at the overdrive above the
 // square-law threshold d.VthSq. A part without rds_on_id takes its values
 // as measured at no current where the law then moves them up by more than
-// 1 % (FlagRdsIdAssumed), and as they stand otherwise. FlagRdsSaturated says the channel saturates. The
+// 1 % (FlagRdsIdAssumed), and as they stand otherwise. A part with one
+// gate-voltage point (FlagRdsOnePoint) is moved up, never down.
+// FlagRdsSaturated says the channel saturates. The
 // caller ensures vgs > the law's threshold.
 func (d *Device) RdsAt(vgs q.Voltage, i q.Current) (q.Resistance, Flags) {
 	g := d.Gate
@@ -161,6 +163,14 @@ func (d *Device) RdsAt(vgs q.Voltage, i q.Current) (q.Resistance, Flags) {
 	}
 	if !ok {
 		f |= FlagRdsSaturated
+	}
+	if d.Flags&FlagRdsOnePoint != 0 && r < rch {
+		// One gate-voltage point: the law takes the whole of rds_on as
+		// channel (the steepest rise below rds_on_vgs), which would also
+		// make the largest fall towards a smaller current. The share is
+		// unknown, so no fall is claimed (a share of 0 for the current
+		// law): a missing rds_on2 never makes a part look better.
+		r = rch
 	}
 	return g.R0 + r, f
 }

@@ -1,6 +1,7 @@
 package fit
 
 import (
+	"math"
 	"testing"
 
 	q "swrank/devices/quantity"
@@ -85,5 +86,49 @@ func TestSecondTotal(t *testing.T) {
 				t.Errorf("%s: qgs still flagged as estimated", c.name)
 			}
 		}
+	}
+}
+
+// The on-resistance moved from rds_on_id to the working current by the
+// triode law, R_ch(I) = 2·R₀/(1 + √(1 − 2·I·R₀/V_ov)), R₀ = R_ch·(1 −
+// R_ch·I_test/(2·V_ov)) (Sze & Ng 2007, ch. 6), by hand on the hand-case
+// part (5 mΩ at 5 V, V_th 1.8 V, so V_ov 3.2 V) measured at 50 A:
+//   - one gate-voltage point (all channel): up to 60 A it rises, R₀ =
+//     5·(1 − 0.25/6.4) mΩ, R = 2·R₀/(1 + √(1 − 120·R₀/3.2)) = 5.043 mΩ;
+//     down to 5 A the law would give 4.82 mΩ, but the share is unknown
+//     and no fall is claimed: 5 mΩ (a missing rds_on2 never helps);
+//   - with rds_on2 6 mΩ at 4 V the law is R₀ 2.8 mΩ + K/(V − 1.8), K =
+//     7.04 mΩ·V (channel 2.2 mΩ at 5 V), and the fall to 5 A is kept.
+func TestRdsAtCurrentOnePoint(t *testing.T) {
+	triode := func(rch, vov, iTest, i float64) float64 {
+		r0 := rch * (1 - rch*iTest/(2*vov))
+		return 2 * r0 / (1 + math.Sqrt(1-2*i*r0/vov))
+	}
+	p := testkit.HandCasePart()
+	p.RdsOnId = q.Some[q.Current](50)
+	d, err := Prepare(&p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.Flags&FlagRdsOnePoint == 0 {
+		t.Fatal("the hand-case part has one gate-voltage point")
+	}
+	r, _ := d.RdsAt(5, 60)
+	testkit.Near(t, "one point, 60 A", float64(r), triode(5e-3, 3.2, 50, 60), 1e-9)
+	testkit.Near(t, "one point, 60 A (hand)", float64(r), 5.043e-3, 1e-3)
+	r, _ = d.RdsAt(5, 5)
+	testkit.Near(t, "one point, 5 A: no fall", float64(r), 5e-3, 1e-12)
+
+	p.RdsOn2, p.RdsOn2Vgs = q.Some[q.Resistance](6e-3), q.Some[q.Voltage](4)
+	d, err = Prepare(&p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	k := (5e-3 - 6e-3) / (1/3.2 - 1/2.2) // (r1 − r2)/(1/V_ov1 − 1/V_ov2)
+	rch := k / 3.2
+	r, _ = d.RdsAt(5, 5)
+	testkit.Near(t, "two points, 5 A", float64(r), 5e-3-rch+triode(rch, 3.2, 50, 5), 1e-9)
+	if !(float64(r) < 5e-3) {
+		t.Errorf("two points, 5 A: %g Ω, want the fall below 5 mΩ kept", float64(r))
 	}
 }

@@ -46,6 +46,11 @@ func CharacteriseDevice(ctx context.Context, r *Runner, d *Device, rt Ratings) (
 	if m.Name == "" || !(m.VdsMax > 0) || !(m.IdMax > 0) || !(m.ITest > 0) {
 		return nil, nil, fmt.Errorf("characterising %s: a name, vds_max, id_max and a test current > 0 are required", d.Path)
 	}
+	if m.ITest > m.IdMax {
+		// The row's rds_on_id is the test current, and a library row
+		// measures the on-resistance at or below the continuous rating.
+		return nil, nil, fmt.Errorf("characterising %s: test current %g A above id_max %g A", d.Path, m.ITest, m.IdMax)
+	}
 	ds, err := characterise(ctx, r, m, deviceDUT(d))
 	return ds, m, err
 }
@@ -88,7 +93,7 @@ func (u *dut) run(ctx context.Context, r *Runner, name, deck string, outputs ...
 }
 
 func characterise(ctx context.Context, r *Runner, m *Model, u *dut) (*Datasheet, error) {
-	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, CapVds: m.VdsMax / 2, Cap2Vds: m.VdsMax / 10, OssVds: m.VdsMax / 2,
+	ds := &Datasheet{RdsOnVgs: vgsHigh, RdsOn2Vgs: m.Vgs2, RdsOnId: m.ITest, CapVds: m.VdsMax / 2, Cap2Vds: m.VdsMax / 10, OssVds: m.VdsMax / 2,
 		QgVgs: vgsHigh, QgVds: m.VdsMax / 2, QgId: m.ITest,
 		TswVdd: m.VdsMax / 2, TswId: m.ITest, TswVgs: vgsHigh, TswRg: tswRg, TswRgen: tswRgen,
 		VthCurrent: vthCurrent}
@@ -115,15 +120,16 @@ func cvFractions() [8]float64 { return [...]float64{0.02, 0.05, 0.1, 0.2, 0.35, 
 // (common practice).
 const hotTj = 125.0
 
-// static: Rds(on) at two gate voltages (a current forced into the drain),
-// Vgs(th) with gate tied to drain at 250 µA, and the body-diode drop.
+// static: Rds(on) at two gate voltages (ds.RdsOnId, the test current,
+// forced into the drain), Vgs(th) with gate tied to drain at ds.VthCurrent
+// (250 µA), and the body-diode drop.
 func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
 	v, err := staticAt(ctx, r, m, u, ds, 25)
 	if err != nil {
 		return err
 	}
 	v1, v2, v3, v4 := v[0], v[1], v[2], v[3]
-	ds.RdsOn, ds.RdsOn2, ds.Vth, ds.Vsd = v1/m.ITest, v2/m.ITest, v3, -v4
+	ds.RdsOn, ds.RdsOn2, ds.Vth, ds.Vsd = v1/ds.RdsOnId, v2/ds.RdsOnId, v3, -v4
 	// A datasheet Rds(on) is a linear-region figure: the drain voltage must
 	// stay well below the overdrive.
 	vto := u.vto
@@ -132,7 +138,7 @@ func static(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) err
 	}
 	if v2 > 0.3*(ds.RdsOn2Vgs-vto) {
 		return fmt.Errorf("at Vgs = %g V and %g A the channel saturates (Vds %.3g V): raise vgs2 or lower i_test",
-			ds.RdsOn2Vgs, m.ITest, v2)
+			ds.RdsOn2Vgs, ds.RdsOnId, v2)
 	}
 	return nil
 }
@@ -144,7 +150,7 @@ func hotStatic(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) 
 	if err != nil {
 		return err
 	}
-	ds.RdsOnHot, ds.VthHot, ds.VsdHot, ds.HotTj = v[0]/m.ITest, v[2], -v[3], hotTj
+	ds.RdsOnHot, ds.VthHot, ds.VsdHot, ds.HotTj = v[0]/ds.RdsOnId, v[2], -v[3], hotTj
 	return nil
 }
 
@@ -156,9 +162,9 @@ func staticAt(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet, t
 	b.WriteString("* static characterisation\n")
 	b.WriteString(u.card)
 	b.WriteString(optionsAt(tj))
-	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(m.ITest))
-	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(m.ITest))
-	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(vthCurrent))
+	fmt.Fprintf(&b, u.inst("1", "d1", "g1", "0")+"vg1 g1 0 dc %s\ni1 0 d1 dc %s\n", num(ds.RdsOnVgs), num(ds.RdsOnId))
+	fmt.Fprintf(&b, u.inst("2", "d2", "g2", "0")+"vg2 g2 0 dc %s\ni2 0 d2 dc %s\n", num(ds.RdsOn2Vgs), num(ds.RdsOnId))
+	fmt.Fprintf(&b, u.inst("3", "d3", "d3", "0")+"i3 0 d3 dc %s\n", num(ds.VthCurrent))
 	fmt.Fprintf(&b, u.inst("4", "d4", "0", "0")+"i4 d4 0 dc %s\n", num(m.ITest))
 	b.WriteString(".control\n" + deckPrologue + "op\nwrdata static.dat v(d1) v(d2) v(d3) v(d4)\nquit 0\n.endc\n.end\n")
 	var v [4]float64
@@ -291,131 +297,6 @@ func mustCol(t *Table, n string) []float64 {
 		return nil
 	}
 	return c
-}
-
-// gateCharge: a constant current charges the gate while the drain carries
-// QgId from a clamped inductive load (a current source with a clamp diode to
-// QgVds). Qg(th) is the charge at Vth, the plateau voltage the gate voltage
-// at the middle of the plateau, Qgs the charge where the rising tangent
-// before the plateau meets the plateau level, Qgs + Qgd where the tangent
-// after the plateau does, and Qg the charge at QgVgs (IEC 60747-8 gate-charge
-// definitions; JESD24 constant-current method).
-func gateCharge(ctx context.Context, r *Runner, m *Model, u *dut, ds *Datasheet) error {
-	// Gate current: a few mA scaled with the part so that the test lasts a
-	// few microseconds (it is slow against every time constant of the die).
-	qmax := u.cin*(ds.QgVgs+2) + u.cgd*ds.QgVds
-	ig := qmax / 5e-6
-	tstop := qmax / ig
-	ds.GateChargeIg, ds.GateChargeTime = ig, tstop
-	var b strings.Builder
-	b.WriteString("* gate charge\n")
-	b.WriteString(u.card)
-	b.WriteString(clampCard)
-	b.WriteString(optionsLine)
-	fmt.Fprintf(&b, "vdd dd 0 dc %s\nil dd d1 dc %s\ndcl d1 dd dclamp\n"+u.inst("1", "d1", "g1", "0"), num(ds.QgVds), num(m.ITest))
-	fmt.Fprintf(&b, "ig 0 g1 pwl(0 0 %s %s)\nrleak g1 0 1e9\n", num(edge), num(ig))
-	fmt.Fprintf(&b, ".control\n%stran %s %s 0 %s\nwrdata qg.dat v(g1) v(d1)\nquit 0\n.endc\n.end\n",
-		deckPrologue, num(tstop/4000), num(tstop), num(tstop/4000))
-	t, err := u.run(ctx, r, m.Name+" gate charge", b.String(), "qg.dat")
-	if err != nil {
-		return err
-	}
-	tab := t["qg.dat"]
-	tm, vg := tab.Cols[0], mustCol(tab, "v(g1)")
-	if vg == nil {
-		return fmt.Errorf("missing v(g1) in %v", tab.Names)
-	}
-	qs := make([]float64, len(tm))
-	for k := range tm {
-		qs[k] = ig * math.Max(0, tm[k]-edge/2) // charge delivered (the 1 GΩ leak is negligible)
-	}
-	return extractGateCharge(qs, vg, ds)
-}
-
-// extractGateCharge reads Qg(th), Qgs, Qgd, Vpl and Qg off a gate-charge
-// curve Vgs(Q) (Q increasing).
-func extractGateCharge(qs, vg []float64, ds *Datasheet) error {
-	n := len(qs)
-	qAt := func(v float64) (float64, bool) { // first charge where Vgs reaches v
-		for k := 1; k < n; k++ {
-			if vg[k] >= v && vg[k-1] < v {
-				return qs[k-1] + (qs[k]-qs[k-1])*(v-vg[k-1])/(vg[k]-vg[k-1]), true
-			}
-		}
-		return 0, false
-	}
-	vAt := func(qq float64) float64 {
-		for k := 1; k < n; k++ {
-			if qs[k] >= qq {
-				if qs[k] == qs[k-1] {
-					return vg[k]
-				}
-				return vg[k-1] + (vg[k]-vg[k-1])*(qq-qs[k-1])/(qs[k]-qs[k-1])
-			}
-		}
-		return vg[n-1]
-	}
-	qg, ok := qAt(ds.QgVgs)
-	if !ok {
-		return fmt.Errorf("gate voltage never reached %g V (max %.3g V)", ds.QgVgs, vg[n-1])
-	}
-	qth, ok := qAt(ds.Vth)
-	if !ok {
-		return fmt.Errorf("gate voltage never reached the threshold %g V", ds.Vth)
-	}
-	// Resample on a uniform charge grid and find the flattest stretch.
-	const grid = 4000
-	dq := qg / grid
-	v := make([]float64, grid+1)
-	for k := range v {
-		v[k] = vAt(float64(k) * dq)
-	}
-	slope := func(k int) float64 { return (v[k+1] - v[k]) / dq }
-	// Final (post-plateau) slope: the tangent over the last 5 % of Qg.
-	k2 := grid - grid/20
-	sPost := (v[grid] - v[k2]) / (float64(grid-k2) * dq)
-	kmin, smin := -1, math.Inf(1)
-	for k := int(qth / dq); k < k2; k++ {
-		if s := slope(k); s < smin {
-			kmin, smin = k, s
-		}
-	}
-	if kmin < 0 || smin > 0.3*sPost {
-		return fmt.Errorf("no Miller plateau found (flattest slope %.3g V/C against %.3g V/C after it)", smin, sPost)
-	}
-	// The plateau: the stretch around the flattest point where the slope
-	// stays below a quarter of the post-plateau slope.
-	lim := 0.25 * sPost
-	a, z := kmin, kmin
-	for a > 0 && slope(a-1) < lim {
-		a--
-	}
-	for z < grid-1 && slope(z+1) < lim {
-		z++
-	}
-	vpl := v[(a+z)/2]
-	// Tangent after the plateau, extended back to the plateau level.
-	qEnd := qg - (ds.QgVgs-vpl)/sPost
-	// Tangent before the plateau, at 80 % of the way from threshold to the
-	// plateau, extended forward to the plateau level.
-	vPre := ds.Vth + 0.8*(vpl-ds.Vth)
-	qp, ok := qAt(vPre)
-	if !ok {
-		return fmt.Errorf("no rise from threshold to plateau")
-	}
-	kp := int(qp / dq)
-	sPre := slope(kp)
-	qgs := qp + (vpl-vPre)/sPre
-	if !(qth < qgs && qgs < qEnd && qEnd < qg) {
-		return fmt.Errorf("gate-charge breakpoints out of order: Qg(th) %.4g, Qgs %.4g, plateau end %.4g, Qg %.4g",
-			qth, qgs, qEnd, qg)
-	}
-	ds.Qg, ds.QgTh, ds.Qgs, ds.Qgd, ds.Vpl = qg, qth, qgs, qEnd-qgs, vpl
-	ds.GateCurve = ds.GateCurve[:0]
-	for k := 0; k <= grid; k += grid / 40 {
-		ds.GateCurve = append(ds.GateCurve, [2]float64{float64(k) * dq, v[k]})
-	}
-	return nil
 }
 
 // switchingTimes: resistive load from TswVdd at TswId, gate driven from

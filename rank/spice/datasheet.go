@@ -10,6 +10,7 @@ import (
 type Datasheet struct {
 	RdsOn, RdsOnVgs   float64 // on-resistance (Ω) at RdsOnVgs (V, 10 V) and the model's ITest
 	RdsOn2, RdsOn2Vgs float64 // on-resistance (Ω) at the second gate voltage (V, the model's Vgs2)
+	RdsOnId           float64 // drain current forced in the on-resistance tests (both gate voltages, and hot), A (the model's ITest)
 	Vth               float64 // gate threshold at VthCurrent, Vds = Vgs, V
 	Vsd               float64 // body-diode drop at ITest, V; > 0
 	// The static tests again at the junction temperature HotTj (°C, 125):
@@ -38,6 +39,10 @@ type Datasheet struct {
 
 	Qg, QgVgs, QgVds, QgId float64 // total gate charge (C) at QgVgs (V, 10 V) in the gate-charge test at QgVds (V, half the rating) and QgId (A, ITest)
 	Qgs, Qgd, QgTh, Vpl    float64 // gate-source, Miller and threshold charges (C); plateau voltage (V)
+	// Qg2 is the total gate charge (C) at the second gate voltage Qg2Vgs
+	// (V; 4.5 V at a 10 V test, above the plateau) in the same test; both
+	// 0 when no such voltage lies above the plateau.
+	Qg2, Qg2Vgs float64
 	// GateCurve is the gate-charge curve resampled at 41 points from 0 to
 	// Qg: pairs of charge (C) and gate voltage (V), charge increasing.
 	GateCurve [][2]float64
@@ -99,6 +104,19 @@ func (ds *Datasheet) Part(m *Model) devices.Part {
 		if ds.VsdHot > 0 && ds.VsdHot < ds.Vsd {
 			p.VsdHot, p.VsdHotTj = q.Some(q.Voltage(ds.VsdHot)), t
 		}
+	}
+	// The test currents of the on-resistance and the threshold, when the
+	// tests state them.
+	if ds.RdsOnId > 0 {
+		p.RdsOnId = q.Some(q.Current(ds.RdsOnId))
+	}
+	if ds.VthCurrent > 0 {
+		p.VgsThId = q.Some(q.Current(ds.VthCurrent))
+	}
+	// The second total gate charge, when a voltage above the plateau
+	// had one.
+	if ds.Qg2Vgs > 0 && ds.Qg2 > 0 {
+		p.Qg2, p.Qg2Vgs = q.Some(q.Charge(ds.Qg2)), v(ds.Qg2Vgs)
 	}
 	if n := len(ds.CVVds); n >= 2 && len(ds.CossCV) == n && len(ds.CrssCV) == n {
 		co, cr := make([]devices.CVPoint, n), make([]devices.CVPoint, n)
