@@ -162,19 +162,11 @@ func offLaw(d *fit.Device) (loss.MillerLaw, bool) {
 // slowGateOff is the class E turn-off's loss per second at frequency f
 // when the gate is slow against the drain's swing (loss.MillerShuntRiseEnergy):
 // the driver pulls the plateau's current out of the gate while the drain
-// rises at ig/Cgd and the shunt takes only part of the current iOff. The
-// shunt beside Cgd is the external capacitor cExt and the drain-source
-// share of the part's own cDev (its Cgd carries the gate's current).
-func slowGateOff(d *fit.Device, drv *stage.Driver, cExt, cDev q.Capacitance, vPeak q.Voltage, iOff q.Current, f float64) q.Power {
+// rises at ig/Cgd and the shunt c1 takes only part of the current iOff.
+func slowGateOff(d *fit.Device, drv *stage.Driver, c1 q.Capacitance, vPeak q.Voltage, iOff q.Current, f float64) q.Power {
 	law, ok := offLaw(d)
 	if !ok {
 		return 0
-	}
-	c1 := cExt + cDev
-	if d.HasMiller {
-		c1 = cExt + cDev*q.Capacitance(loss.CdsShare(d.Crss, d.Oss.C(d.CrssV)))
-	} else if vPeak > 0 {
-		c1 = cExt + max(cDev-q.Capacitance(float64(law.Charge(vPeak))/float64(vPeak)), 0)
 	}
 	ig := loss.GateCurrent(drv.VOff, d.PlateauAt(iOff), drv.RSink+drv.RgExt+d.RgInt, drv.IPeakSink)
 	return q.Power(float64(loss.MillerShuntRiseEnergy(&law, c1, vPeak, iOff, ig)) * f)

@@ -178,7 +178,7 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	// A gate slow against the swing holds the channel on its plateau
 	// while the drain rises: the larger of that turn-off and the
 	// current fall's.
-	pSlow := slowGateOff(d, &s.Driver, sh.CExternal, sh.CDevice, sh.VPeak, e.IOff, f)
+	pSlow := slowGateOff(d, &s.Driver, sh.CDevice+sh.CExternal, sh.VPeak, e.IOff, f)
 	to.TurnOff = max(to.TurnOff, pSlow)
 	out.Losses.TurnOff = to.TurnOff
 	// A turn-on before the switch voltage is back at zero dumps what the
