@@ -111,9 +111,8 @@ func (m *devModel) rampEdges(a *tempState, igOn, igOff q.Current) (q.Current, q.
 // mean Qgd/qg_vds at every voltage, which lies above a falling Cgd at
 // the high voltages where the slope is steep (the conservative side).
 // The energy is shared by the sink loop's resistances.
-func swingGate(out *DeviceResult, d *fit.Device, drv *stage.Driver, e *resonant.ClassE, vPeak q.Voltage) q.Energy {
-	law, ok := offLaw(d)
-	if !ok {
+func swingGate(out *DeviceResult, d *fit.Device, law *loss.MillerLaw, drv *stage.Driver, e *resonant.ClassE, vPeak q.Voltage) q.Energy {
+	if law == nil {
 		return 0
 	}
 	k := 1.0
@@ -122,7 +121,7 @@ func swingGate(out *DeviceResult, d *fit.Device, drv *stage.Driver, e *resonant.
 	}
 	r := drv.RSink + drv.RgExt + d.RgInt
 	f := float64(e.F)
-	en := loss.SwingGateEnergy(&law, drv.VOff, r, 2*math.Pi*f, math.Pi, func(th float64) float64 { return k * e.OffSlope(th) })
+	en := loss.SwingGateEnergy(law, drv.VOff, r, 2*math.Pi*f, math.Pi, func(th float64) float64 { return k * e.OffSlope(th) })
 	if r > 0 {
 		p := float64(en) * f / float64(r)
 		out.Losses.GateDriver += q.Power(p * float64(drv.RSink))
@@ -146,28 +145,29 @@ func softCurve(d *fit.Device, i q.Current) loss.GateCurve {
 
 // offLaw is the Cgd law of an off switch's drain swing: the part's Miller
 // law, or without one the gate-drain charge's mean Qgd/qg_vds at every
-// voltage, which lies above a falling Cgd at the high voltages where a
-// swing is steep (the conservative side). ok is false without either.
-func offLaw(d *fit.Device) (loss.MillerLaw, bool) {
+// voltage (written into mean), which lies above a falling Cgd at the high
+// voltages where a swing is steep (the conservative side). nil without
+// either.
+func offLaw(d *fit.Device, mean *loss.MillerLaw) *loss.MillerLaw {
 	if d.HasMiller {
-		return d.Miller, true
+		return &d.Miller
 	}
 	if d.QgVds <= 0 || d.Qgd <= 0 {
-		return loss.MillerLaw{}, false
+		return nil
 	}
 	c := q.Capacitance(float64(d.Qgd) / float64(d.QgVds))
-	return loss.KneeLaw(0, c, c), true
+	*mean = loss.KneeLaw(0, c, c)
+	return mean
 }
 
 // slowGateOff is the class E turn-off's loss per second at frequency f
 // when the gate is slow against the drain's swing (loss.MillerShuntRiseEnergy):
 // the driver pulls the plateau's current out of the gate while the drain
 // rises at ig/Cgd and the shunt c1 takes only part of the current iOff.
-func slowGateOff(d *fit.Device, drv *stage.Driver, c1 q.Capacitance, vPeak q.Voltage, iOff q.Current, f float64) q.Power {
-	law, ok := offLaw(d)
-	if !ok {
+func slowGateOff(d *fit.Device, law *loss.MillerLaw, drv *stage.Driver, c1 q.Capacitance, vPeak q.Voltage, iOff q.Current, f float64) q.Power {
+	if law == nil {
 		return 0
 	}
 	ig := loss.GateCurrent(drv.VOff, d.PlateauAt(iOff), drv.RSink+drv.RgExt+d.RgInt, drv.IPeakSink)
-	return q.Power(float64(loss.MillerShuntRiseEnergy(&law, c1, vPeak, iOff, ig)) * f)
+	return q.Power(float64(loss.MillerShuntRiseEnergy(law, c1, vPeak, iOff, ig)) * f)
 }

@@ -178,7 +178,9 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 	// A gate slow against the swing holds the channel on its plateau
 	// while the drain rises: the larger of that turn-off and the
 	// current fall's.
-	pSlow := slowGateOff(d, &s.Driver, sh.CDevice+sh.CExternal, sh.VPeak, e.IOff, f)
+	var mean loss.MillerLaw
+	law := offLaw(d, &mean) // Cgd of the drain's swing, for the turn-off and the off gate loop
+	pSlow := slowGateOff(d, law, &s.Driver, sh.CDevice+sh.CExternal, sh.VPeak, e.IOff, f)
 	to.TurnOff = max(to.TurnOff, pSlow)
 	out.Losses.TurnOff = to.TurnOff
 	// A turn-on before the switch voltage is back at zero dumps what the
@@ -202,7 +204,7 @@ func evalClassE(r *Result, pt *stage.Point, d *fit.Device, tr *Trace) {
 		rf.Hysteresis = true
 	}
 	softGate(out, d, &s.Driver, e.IOff, f)
-	eSwing := swingGate(out, d, &s.Driver, e, sh.VPeak)
+	eSwing := swingGate(out, d, law, &s.Driver, e, sh.VPeak)
 	rfScreens(out, d, s, sh.VPeak)
 	rfThermal(out, d, s, out.Losses.Switch())
 	l := out.Losses

@@ -412,15 +412,18 @@ func SwingGateEnergy(m *MillerLaw, vGate q.Voltage, r q.Resistance, omega, theta
 	h := theta1 / n
 	knee := float64(m.Knee())
 	v, sum := 0.0, 0.0
+	s0 := slope(0)
 	for k := 0; k < n; k++ {
 		// Midpoint rule; the drain voltage advances by the slope at the
 		// interval's ends (trapezoid), so Cgd is read at the midpoint.
-		s0, s1 := slope(float64(k)*h), slope(float64(k+1)*h)
+		// Each interval's end slope is the next one's start.
+		s1 := slope(float64(k+1) * h)
 		sm := slope((float64(k) + 0.5) * h)
 		vm := v + 0.25*(s0+sm)*h
 		c := float64(m.C(q.Voltage(max(vm-float64(vGate), 0) + knee)))
 		sum += c * c * sm * sm
 		v += 0.5 * (s0 + s1) * h
+		s0 = s1
 	}
 	return q.Energy(float64(r) * omega * sum * h)
 }
